@@ -1,0 +1,130 @@
+package library
+
+import (
+	"bytes"
+	"fmt"
+	"math"
+	"sync"
+
+	"drawsift/data"
+	"drawsift/engine/internal/jsonx"
+)
+
+// Membrane is a generic FO membrane preset (no brand names) or a user's
+// custom membrane, as stored in data/membranes.json.
+type Membrane struct {
+	ID          string `json:"id"`
+	Name        string `json:"name"`
+	Description string `json:"description"`
+	// Chemistry: "cellulose-triacetate" or "thin-film-composite".
+	Chemistry string `json:"chemistry"`
+	// Water permeability A, NaCl permeability B and structural parameter S,
+	// as measured in FO tests.
+	ALMHPerBar float64 `json:"a_lmh_per_bar"`
+	BNaClLMH   float64 `json:"b_nacl_lmh"`
+	SUM        float64 `json:"s_um"`
+	// BBySolute holds measured B (LMH) for other solutes, keyed by solute ID.
+	BBySolute map[string]float64 `json:"b_by_solute_lmh,omitempty"`
+	// Uncertainty: relative standard deviations used by robustness runs.
+	ARelSD float64 `json:"a_rel_sd"`
+	BRelSD float64 `json:"b_rel_sd"`
+	SRelSD float64 `json:"s_rel_sd"`
+	// Conditions of the measurement behind the numbers.
+	TestConditions string            `json:"test_conditions"`
+	Sources        map[string]string `json:"sources"`
+}
+
+// Validate checks a membrane record.
+func (m *Membrane) Validate() error {
+	if m.ID == "" {
+		return fmt.Errorf("membrane with empty id")
+	}
+	for _, f := range []struct {
+		name string
+		v    float64
+	}{{"a_lmh_per_bar", m.ALMHPerBar}, {"b_nacl_lmh", m.BNaClLMH}, {"s_um", m.SUM}} {
+		if !(f.v > 0) || math.IsInf(f.v, 0) {
+			return fmt.Errorf("membrane %q: %s must be positive and finite", m.ID, f.name)
+		}
+	}
+	for k, b := range m.BBySolute {
+		if !(b >= 0) || math.IsInf(b, 0) {
+			return fmt.Errorf("membrane %q: b_by_solute_lmh[%q] must be ≥ 0", m.ID, k)
+		}
+	}
+	if len(m.Sources) == 0 {
+		return fmt.Errorf("membrane %q: sources are required", m.ID)
+	}
+	return nil
+}
+
+// BEstimateRule documents how B is estimated for a solute without a
+// measured value.
+const BEstimateRule = "B scaled from the membrane's NaCl value by the ratio of bulk diffusion coefficients, " +
+	"B_j = B_NaCl·D_j/D_NaCl (solution–diffusion, B = D_m·K/δ, with equal partitioning assumed; common practice). " +
+	"An estimate: multivalent ions are usually rejected better than this predicts."
+
+// EstimateB returns B (LMH) of the membrane for solute s, and whether it
+// is an estimate (no measured value in the record). d0NaCl is NaCl's
+// infinite-dilution diffusivity.
+func (m *Membrane) EstimateB(s *Solute, d0NaCl float64) (bLMH float64, estimated bool) {
+	if b, ok := m.BBySolute[s.ID]; ok {
+		return b, false
+	}
+	if Key(s.ID) == "nacl" {
+		return m.BNaClLMH, false
+	}
+	return m.BNaClLMH * s.Diffusivity.D0M2PerS / d0NaCl, true
+}
+
+type membranesFile struct {
+	SchemaVersion int        `json:"schema_version"`
+	Membranes     []Membrane `json:"membranes"`
+}
+
+var (
+	membranesOnce sync.Once
+	membranes     map[string]*Membrane
+	membraneList  []*Membrane
+	membranesErr  error
+)
+
+// Membranes returns the embedded membrane presets in file order.
+func Membranes() ([]*Membrane, error) {
+	loadMembranes()
+	return membraneList, membranesErr
+}
+
+// LookupMembrane finds a preset by ID, case-insensitively.
+func LookupMembrane(id string) (*Membrane, bool) {
+	loadMembranes()
+	m, ok := membranes[Key(id)]
+	return m, ok
+}
+
+func loadMembranes() {
+	membranesOnce.Do(func() {
+		b, err := data.FS.ReadFile("membranes.json")
+		if err != nil {
+			membranesErr = err
+			return
+		}
+		dec := jsonx.NewDecoder(bytes.NewReader(b))
+		dec.DisallowUnknownFields()
+		var f membranesFile
+		if err := dec.Decode(&f); err != nil {
+			membranesErr = fmt.Errorf("membranes: %w", err)
+			return
+		}
+		membranes = map[string]*Membrane{}
+		for i := range f.Membranes {
+			m := &f.Membranes[i]
+			if err := m.Validate(); err != nil {
+				membranesErr = err
+				return
+			}
+			membranes[Key(m.ID)] = m
+			membraneList = append(membraneList, m)
+		}
+	})
+}
