@@ -1,0 +1,344 @@
+// Package transport computes steady-state water and solute fluxes across a
+// forward-osmosis (FO) membrane, with internal concentration polarization
+// (ICP) in the porous support, external concentration polarization (ECP) in
+// the boundary layers on both faces, solute leakage through the active layer
+// in both directions, and a hydraulic pressure difference.
+//
+// # Model
+//
+// One-dimensional steady state, x running from the feed bulk to the draw
+// bulk. The water flux Jw (m/s) is positive from feed to draw. For each solute
+// species j the net molar flux N_j (mol m⁻² s⁻¹, positive feed → draw) is the
+// same in every layer. In an unstirred layer (boundary layer of resistance
+// 1/k, support of resistance S/D_j) convection and diffusion give
+//
+//	N = Jw·c − D·dc/dx   ⇒   c_out − u = (c_in − u)·exp(Jw·R),   u = N/Jw,
+//
+// across a layer of resistance R (s/m). Orientation decides which resistances
+// lie on each side of the active layer:
+//
+//	AL-FS (FO mode):  R_f = 1/k_F,          R_d = S/D_j + 1/k_D
+//	AL-DS (PRO mode): R_f = S/D_j + 1/k_F,  R_d = 1/k_D
+//
+// The active layer passes solute as N_j = B_j·(c_j,f − c_j,d), with f and d the
+// feed and draw faces of the active layer. Eliminating u gives
+//
+//	N_j = B_j·(c_Fb·e^{Jw R_f} − c_Db·e^{−Jw R_d})
+//	      / (1 + B_j·[(e^{Jw R_f} − 1)/Jw + (1 − e^{−Jw R_d})/Jw])
+//	c_j,f = c_Fb·e^{Jw R_f} − N_j·(e^{Jw R_f} − 1)/Jw
+//	c_j,d = c_Db·e^{−Jw R_d} + N_j·(1 − e^{−Jw R_d})/Jw
+//
+// and the water flux closes the system:
+//
+//	Jw = A·(π_d − π_f − ΔP),   π_face = Σ_j Π_j(c_j,face).
+//
+// The osmotic pressure of a face holding two species uses the additive
+// osmotic pressure rule: each solute contributes its own non-ideal π at its
+// own concentration. The rule is exact in the van 't Hoff limit and an
+// approximation otherwise (it ignores solute–solute interactions).
+//
+// The exponentials are concentration factors: the face concentrations come
+// from them and π is evaluated from the solute's own (non-ideal) model at
+// those concentrations, never by multiplying a non-ideal π by the
+// exponentials. With a linear Π = ν·R·T·c and one species the equations are
+// exactly those of Tiraferri et al. (2011, J. Membr. Sci. 367:340; 2013,
+// J. Membr. Sci. 444:523) for reverse solute flux, McCutcheon & Elimelech
+// (2006, J. Membr. Sci. 284:237) for ICP when B = 0, Yip et al. (2011,
+// Environ. Sci. Technol. 45:4360) with ΔP, and they give the specific reverse
+// solute flux Js/Jw = B/(A·ν·R·T) of Phillip, Yong & Elimelech (2010,
+// Environ. Sci. Technol. 44:5170). The boundary layer on the support side is
+// put in series with the support (our generalisation). Loeb et al. (1997,
+// J. Membr. Sci. 129:243) give the AL-FS identity used in the tests.
+//
+// # Units
+//
+// Everything is SI inside the package and every name carries its unit:
+// A in m s⁻¹ Pa⁻¹ (1 LMH/bar = 1/(3.6e6·1e5) m s⁻¹ Pa⁻¹), B in m/s
+// (1 LMH = 1/3.6e6 m/s), S in m, D in m²/s, k in m/s, concentrations in
+// mol/m³ (= mmol/L), pressures in Pa.
+package transport
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+)
+
+// Unit conversions used in error messages and tests. 1 LMH = 1 L m⁻² h⁻¹
+// = 1e-3 m³ / (m² · 3600 s) (exact by definition of the units).
+const (
+	MPerSPerLMH        = 1 / 3.6e6         // m/s in one LMH
+	MPerSPaPerLMHBar   = 1 / (3.6e6 * 1e5) // m s⁻¹ Pa⁻¹ in one LMH/bar
+	PaPerBar           = 1e5               // exact
+	molPerM3PerMolPerL = 1e3               // exact
+)
+
+// Orientation is the side the membrane's active layer faces.
+type Orientation int
+
+const (
+	// ALFS: active layer facing the feed (FO mode). The support, with its
+	// dilutive ICP, is on the draw side.
+	ALFS Orientation = iota
+	// ALDS: active layer facing the draw (PRO mode). The support, with its
+	// concentrative ICP, is on the feed side.
+	ALDS
+)
+
+// String returns "AL-FS" or "AL-DS".
+func (o Orientation) String() string {
+	switch o {
+	case ALFS:
+		return "AL-FS"
+	case ALDS:
+		return "AL-DS"
+	}
+	return "Orientation(" + strconv.Itoa(int(o)) + ")"
+}
+
+// ParseOrientation accepts "AL-FS", "AL-DS", "FO" (= AL-FS) and "PRO"
+// (= AL-DS), case-insensitively and ignoring surrounding space.
+func ParseOrientation(s string) (Orientation, error) {
+	switch strings.ToUpper(strings.TrimSpace(s)) {
+	case "AL-FS", "FO":
+		return ALFS, nil
+	case "AL-DS", "PRO":
+		return ALDS, nil
+	}
+	return ALFS, &InputError{Field: "orientation", Text: s,
+		Limit: `one of "AL-FS", "AL-DS", "FO", "PRO"`, Err: ErrInvalidInput}
+}
+
+// OsmoticFunc returns the osmotic pressure π (Pa) of a solution holding only
+// this solute at molar concentration c (mol/m³), and dπ/dc (Pa m³ mol⁻¹).
+// Implementations must be finite, ≥ 0 and non-decreasing for all c ≥ 0,
+// extending monotonically past their model's validity. Solve never passes a
+// concentration above FaceCapMolPerM3.
+type OsmoticFunc func(cMolPerM3 float64) (piPa, dPiDc float64)
+
+// Species is one solute present in either stream. The same solute in both
+// streams is one species with two bulk concentrations. By convention
+// Input.Species[0] is the draw solute; Result.JsMolPerM2S refers to it.
+type Species struct {
+	Name                               string
+	DrawBulkMolPerM3, FeedBulkMolPerM3 float64
+	BMPerS                             float64 // active-layer solute permeability B
+	DM2PerS                            float64 // diffusion coefficient in the support and boundary layers
+	Pi                                 OsmoticFunc
+}
+
+// Input describes one flux calculation.
+type Input struct {
+	AMPerSPa    float64 // water permeability A
+	SM          float64 // structural parameter S
+	Orientation Orientation
+	// DeltaPPa is the hydraulic pressure of the draw side over the feed side.
+	// Positive opposes the osmotic water flux (PRO); negative is pressure on
+	// the feed side (pressure-assisted osmosis).
+	DeltaPPa float64
+	// Boundary-layer mass-transfer coefficients; math.Inf(1) means no
+	// external CP on that side.
+	KDrawMPerS, KFeedMPerS float64
+	Species                []Species // 1 or 2; Species[0] is the draw solute
+}
+
+// SpeciesResult holds the solution for one species.
+type SpeciesResult struct {
+	FluxMolPerM2S    float64 // N_j, positive feed → draw
+	FeedFaceMolPerM3 float64 // at the feed face of the active layer
+	DrawFaceMolPerM3 float64 // at the draw face of the active layer
+	// SupportInterfaceMolPerM3 is the concentration where the support meets
+	// its outer boundary layer (draw side in AL-FS, feed side in AL-DS). The
+	// difference from the active-layer face is the ICP share, the difference
+	// from the bulk the ECP share. Equal to the bulk when that side has no
+	// external CP.
+	SupportInterfaceMolPerM3 float64
+}
+
+// Result is the converged state.
+type Result struct {
+	JwMPerS float64 // water flux, positive feed → draw; negative is reverse flow
+	// JsMolPerM2S is the reverse flux of the draw solute (Species[0]),
+	// positive draw → feed: −Species[0].FluxMolPerM2S.
+	JsMolPerM2S float64
+	Species     []SpeciesResult // same order as Input.Species
+	// Osmotic pressures (sum over species, additive rule) at the two faces of
+	// the active layer and in the two bulks.
+	PiFeedFacePa, PiDrawFacePa, PiFeedBulkPa, PiDrawBulkPa float64
+	Stats                                                  Stats
+}
+
+// Stats reports how the root was found.
+type Stats struct {
+	Iterations  int     // root-finder iterations after the first evaluation
+	Evaluations int     // residual evaluations
+	Residual    float64 // |A(π_d − π_f − ΔP) − Jw| / (A·(π_Db + π_Fb + |ΔP|))
+	Method      string  // "newton-bracketed", or "trivial" when Jw = 0 exactly
+}
+
+// ErrInvalidInput is wrapped by every *InputError.
+var ErrInvalidInput = errors.New("invalid input")
+
+// InputError reports an input outside its allowed range. Field uses the
+// names of the JSON contract; Value is the offending value in the unit that
+// field name carries (LMH/bar, µm, LMH, bar, mol/L, or SI where the name says
+// so). Text holds the offending text for non-numeric fields and for NaN or
+// infinite values (then Value is 0), so an error never carries NaN or Inf.
+type InputError struct {
+	Field string
+	Value float64
+	Text  string
+	Limit string
+	Err   error
+}
+
+func (e *InputError) Error() string {
+	if e.Text != "" {
+		return fmt.Sprintf("transport: %s = %q: must be %s", e.Field, e.Text, e.Limit)
+	}
+	return fmt.Sprintf("transport: %s = %g: must be %s", e.Field, e.Value, e.Limit)
+}
+
+func (e *InputError) Unwrap() error { return e.Err }
+
+// ConvergenceError reports that the root finder stopped without meeting its
+// tolerance. Residual is relative, as in Stats.Residual.
+type ConvergenceError struct {
+	Iterations int
+	Residual   float64
+}
+
+func (e *ConvergenceError) Error() string {
+	return fmt.Sprintf("transport: water-flux solver did not converge after %d iterations (relative residual %.3g)",
+		e.Iterations, e.Residual)
+}
+
+// Limits enforced by Solve. Besides the physical signs, the upper bounds are
+// generous (far beyond any membrane or solution) and exist so that every
+// intermediate stays finite.
+const (
+	maxAMPerSPa   = 1e-9  // 360 LMH/bar
+	maxBMPerS     = 1e-2  // 3.6e4 LMH
+	maxSM         = 0.1   // 100 mm
+	minDM2PerS    = 1e-14 // m²/s
+	maxDM2PerS    = 1e-6  // m²/s
+	minKMPerS     = 1e-9  // m/s
+	maxBulkMolM3  = 1e5   // 100 mol/L
+	maxAbsDeltaPa = 1e9   // 10 000 bar
+	// FaceCapMolPerM3 bounds the active-layer face concentrations (1000 mol/L).
+	// During bracketing the exponential factors can ask for absurd
+	// concentrations; they are held at this cap, which keeps the residual
+	// finite and monotone. A converged face at the cap would mean the model's
+	// π stays below the driving pressure up to 1000 mol/L: a flat π(c)
+	// extension, not a physical solution.
+	FaceCapMolPerM3 = 1e6
+)
+
+// Solve returns the water flux, the solute fluxes and the face
+// concentrations for in. It allocates only Result.Species; see SolveInto for
+// an allocation-free variant.
+//
+// Special cases are:
+//
+//	no solute anywhere and ΔP = 0        Jw = 0 exactly (Method "trivial")
+//	ΔP above the osmotic difference      Jw < 0 (reverse flow), not an error
+//	feed π above draw π                  Jw < 0, not an error
+//	B = 0                                N_j = 0 (no solute crosses)
+//
+// Errors are *InputError for invalid input (including an OsmoticFunc that
+// returns a non-finite or negative π) and *ConvergenceError if the root
+// finder fails, which the property tests have not seen happen. Solve never
+// returns NaN or Inf.
+func Solve(in *Input) (Result, error) {
+	var r Result
+	err := SolveInto(in, &r)
+	return r, err
+}
+
+// SolveInto is Solve writing into *out, reusing out.Species when it has room
+// for len(in.Species) entries. It does not allocate in that case.
+func SolveInto(in *Input, out *Result) error {
+	if err := validate(in); err != nil {
+		return err
+	}
+	n := len(in.Species)
+	if cap(out.Species) < n {
+		out.Species = make([]SpeciesResult, n)
+	}
+	out.Species = out.Species[:n]
+	var s solver
+	s.setup(in)
+	return s.solve(out)
+}
+
+// speciesFields names species i's inputs in the contract's terms.
+func speciesFields(i int) (b, d, draw, feed, pi string) {
+	if i == 0 {
+		return "membrane.b_lmh", "diffusivity_m2_per_s", "draw.concentration", "feed.concentration", "osmotic_model"
+	}
+	return "feed.b_lmh", "feed.diffusivity_m2_per_s", "draw.concentration", "feed.concentration", "feed.osmotic_model"
+}
+
+func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
+
+// inErr builds an *InputError. A non-finite offending value travels as Text
+// ("NaN", "+Inf", "-Inf") so that no error carries NaN or Inf either.
+func inErr(field string, v float64, limit string) error {
+	if !finite(v) {
+		return &InputError{Field: field, Text: strconv.FormatFloat(v, 'g', -1, 64), Limit: limit, Err: ErrInvalidInput}
+	}
+	return &InputError{Field: field, Value: v, Limit: limit, Err: ErrInvalidInput}
+}
+
+func validate(in *Input) error {
+	if in == nil {
+		return &InputError{Field: "request", Text: "nil", Limit: "non-nil", Err: ErrInvalidInput}
+	}
+	if !(in.AMPerSPa > 0 && in.AMPerSPa <= maxAMPerSPa) {
+		return inErr("membrane.a_lmh_per_bar", in.AMPerSPa/MPerSPaPerLMHBar,
+			fmt.Sprintf("> 0 and ≤ %g LMH/bar", maxAMPerSPa/MPerSPaPerLMHBar))
+	}
+	if !(in.SM > 0 && in.SM <= maxSM) {
+		return inErr("membrane.s_um", in.SM*1e6, fmt.Sprintf("> 0 and ≤ %g µm", maxSM*1e6))
+	}
+	if in.Orientation != ALFS && in.Orientation != ALDS {
+		return &InputError{Field: "orientation", Text: in.Orientation.String(),
+			Limit: `"AL-FS" or "AL-DS"`, Err: ErrInvalidInput}
+	}
+	if !(math.Abs(in.DeltaPPa) <= maxAbsDeltaPa) {
+		return inErr("delta_p_bar", in.DeltaPPa/PaPerBar, fmt.Sprintf("finite with |ΔP| ≤ %g bar", maxAbsDeltaPa/PaPerBar))
+	}
+	kLimit := func() string { return fmt.Sprintf("≥ %g m/s (+Inf for no external CP)", minKMPerS) }
+	if !(in.KDrawMPerS >= minKMPerS) {
+		return inErr("k_draw_m_per_s", in.KDrawMPerS, kLimit())
+	}
+	if !(in.KFeedMPerS >= minKMPerS) {
+		return inErr("k_feed_m_per_s", in.KFeedMPerS, kLimit())
+	}
+	if n := len(in.Species); n < 1 || n > 2 {
+		return inErr("species", float64(n), "1 or 2 species (draw solute, and the feed solute if different)")
+	}
+	for i := range in.Species {
+		sp := &in.Species[i]
+		fb, fd, fdraw, ffeed, fpi := speciesFields(i)
+		if !(sp.BMPerS >= 0 && sp.BMPerS <= maxBMPerS) {
+			return inErr(fb, sp.BMPerS/MPerSPerLMH, fmt.Sprintf("≥ 0 and ≤ %g LMH", maxBMPerS/MPerSPerLMH))
+		}
+		if !(sp.DM2PerS >= minDM2PerS && sp.DM2PerS <= maxDM2PerS) {
+			return inErr(fd, sp.DM2PerS, fmt.Sprintf("≥ %g and ≤ %g m²/s", minDM2PerS, maxDM2PerS))
+		}
+		cLimit := func() string { return fmt.Sprintf("≥ 0 and ≤ %g mol/L", maxBulkMolM3/molPerM3PerMolPerL) }
+		if !(sp.DrawBulkMolPerM3 >= 0 && sp.DrawBulkMolPerM3 <= maxBulkMolM3) {
+			return inErr(fdraw, sp.DrawBulkMolPerM3/molPerM3PerMolPerL, cLimit())
+		}
+		if !(sp.FeedBulkMolPerM3 >= 0 && sp.FeedBulkMolPerM3 <= maxBulkMolM3) {
+			return inErr(ffeed, sp.FeedBulkMolPerM3/molPerM3PerMolPerL, cLimit())
+		}
+		if sp.Pi == nil {
+			return &InputError{Field: fpi, Text: "nil", Limit: "an osmotic-pressure function", Err: ErrInvalidInput}
+		}
+	}
+	return nil
+}
