@@ -91,6 +91,17 @@ func (x *Solution) piM(m float64) (pi, dpdm float64) {
 	return x.piPerG * x.nu * g, x.piPerG * x.nu * dg
 }
 
+// piMono returns π (Pa) and dπ/dm at any molality m ≥ 0: the model inside
+// the working range and, beyond it, the linear-in-concentration extension
+// of OsmoticFunc, so that π(m) is increasing everywhere.
+func (x *Solution) piMono(m float64) (pi, dpdm float64) {
+	if m <= x.capMolal {
+		return x.piM(m)
+	}
+	c := x.molarityFromMolality(m)
+	return x.capPi + x.capSlope*(c-x.capC), x.capSlope * x.dcdm(m)
+}
+
 // OsmoticCoefficient returns the molal osmotic coefficient φ at m mol/kg
 // (φ = 1 at m = 0).
 func (x *Solution) OsmoticCoefficient(m float64) float64 {
@@ -128,10 +139,7 @@ func (x *Solution) WaterActivity(m float64) float64 {
 // Stokes, Electrolyte Solutions, 1959, ch. 2). Above the working range
 // it continues linearly in concentration (see OsmoticFunc).
 func (x *Solution) OsmoticPressurePa(m float64) float64 {
-	if m > x.capMolal {
-		return x.PiOfMolarity(x.molarityFromMolality(m))
-	}
-	pi, _ := x.piM(m)
+	pi, _ := x.piMono(m)
 	return pi
 }
 

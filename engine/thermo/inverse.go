@@ -7,8 +7,8 @@ import "math"
 // "target") if the target is negative or lies above π at the solubility
 // limit (or at the model's data limit for a miscible solute).
 //
-// π(m) is increasing over the working range for every model in the
-// library, so a safeguarded Newton iteration on ν·m·φ(m) inside the
+// π(m) (with the monotone extension past the working range, see
+// OsmoticFunc) is increasing, so a safeguarded Newton iteration inside the
 // bracket [0, m_top] converges to 1e-13 relative in a few steps.
 func (x *Solution) MolalityForPi(targetPa float64) (float64, error) {
 	if !(targetPa >= 0) || math.IsInf(targetPa, 0) {
@@ -21,7 +21,7 @@ func (x *Solution) MolalityForPi(targetPa float64) (float64, error) {
 	if math.IsInf(top, 0) {
 		top = x.capMolal
 	}
-	piTop, _ := x.piM(top)
+	piTop, _ := x.piMono(top)
 	if targetPa > piTop*(1+1e-12) {
 		return 0, &InputError{Field: "target", Value: targetPa / PascalPerBar,
 			Limit: formatBar(piTop), Msg: x.Solute.ID + " cannot reach this osmotic pressure below its solubility limit"}
@@ -30,7 +30,7 @@ func (x *Solution) MolalityForPi(targetPa float64) (float64, error) {
 	// Start from the van 't Hoff-like guess with φ = 1.
 	m := math.Min(targetPa/(x.piPerG*x.nu), top)
 	for i := 0; i < 100; i++ {
-		pi, dp := x.piM(m)
+		pi, dp := x.piMono(m)
 		f := pi - targetPa
 		if f > 0 {
 			hi = m

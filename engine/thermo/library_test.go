@@ -291,3 +291,30 @@ func TestViscosityCRC(t *testing.T) {
 		}
 	}
 }
+
+// Regression: every library solute reaches half of its π at solubility
+// through the inverse (Ca(NO3)2's Pitzer set stops rising well below its
+// solubility and once made every target unreachable), and seawater's model
+// range is 120 g/kg (once lost to integer division).
+func TestInverseEverySolute(t *testing.T) {
+	for _, s := range library.MustDefault().All() {
+		x := mustSolution(t, s, ReferenceK)
+		top := x.SolubilityMolPerKg()
+		if math.IsInf(top, 0) {
+			top = x.CapMolPerKg()
+		}
+		target := 0.5 * x.OsmoticPressurePa(top)
+		m, err := x.MolalityForPi(target)
+		if err != nil {
+			t.Errorf("%s: %v", s.ID, err)
+			continue
+		}
+		if got := x.OsmoticPressurePa(m); !within(got, target, 1e-9) {
+			t.Errorf("%s: π(MolalityForPi(%g)) = %g", s.ID, target, got)
+		}
+	}
+	sw := mustSolution(t, libSolute(t, "seawater"), ReferenceK)
+	if got := sw.FromMolality(sw.ValidMolPerKg(), GPerKg); !within(got, 120, 1e-9) {
+		t.Errorf("seawater model limit = %g g/kg, want 120", got)
+	}
+}

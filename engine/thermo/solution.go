@@ -92,7 +92,7 @@ func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 		}
 	case library.ModelSeawater:
 		// Sharqawy et al. (2010): fitted 10–120 g/kg; extended below 10 g/kg.
-		x.validMolal = 120 / (1000 - 120) / seawaterMolarMass
+		x.validMolal = 120.0 / (1000 - 120) / seawaterMolarMass
 		x.mKg = seawaterMolarMass
 		x.dens.mKg = seawaterMolarMass
 	case library.ModelTable:

@@ -73,7 +73,7 @@ func (x *Solution) StateAt(m float64, u Unit) (State, error) {
 	st.OsmoticPressurePa = x.OsmoticPressurePa(m)
 	st.VantHoffPa = x.VantHoffPa(st.MolarityMolPerM3)
 	st.OsmoticCoefficient = x.OsmoticCoefficient(m)
-	if x.kind == library.ModelNone || x.kind == library.ModelTable {
+	if x.kind == library.ModelNone || x.kind == library.ModelTable || m > x.capMolal {
 		// φ consistent with the reported π.
 		if m > 0 {
 			st.OsmoticCoefficient = st.OsmoticPressurePa / (x.piPerG * x.nu * m)
