@@ -1,0 +1,69 @@
+# Drawsift build and checks. Every target reduces to plain go commands,
+# documented in DEVELOPERS.md.
+
+GO       ?= go
+PYTHON   ?= /usr/bin/python3
+GOFLAGS  ?= -trimpath -buildvcs=false
+WASMEXEC := $(shell $(GO) env GOROOT)/lib/wasm/go_js_wasm_exec
+BIN      := bin
+
+.PHONY: all build run demo test test-native test-wasm vet lint refcheck refdata bench bench-wasm clean
+
+all: build
+
+build:
+	$(GO) build $(GOFLAGS) -o $(BIN)/drawsift ./cmd/drawsift
+
+# The main job on the built-in demo.
+run: build
+	./$(BIN)/drawsift demo
+
+demo: run
+
+# Everything CI checks.
+test: vet lint test-native test-wasm refcheck
+
+vet:
+	@test -z "$$(gofmt -l $$(git ls-files '*.go' 2>/dev/null || find . -name '*.go'))" || (echo 'gofmt needed:'; gofmt -l .; false)
+	$(GO) vet ./...
+	GOOS=js GOARCH=wasm $(GO) vet ./engine/...
+
+# The engine stays pure: no syscall/js, and only the standard library,
+# gonum and our own packages (plus go-json behind engine/internal/jsonx).
+lint:
+	@! grep -rn '"syscall/js"' engine || (echo 'engine must not import syscall/js' && false)
+	@bad=$$($(GO) list -deps -f '{{if .Module}}{{.Module.Path}}{{end}}' ./engine/... | sort -u | grep -v -x -E 'drawsift|gonum\.org/v1/gonum|github\.com/goccy/go-json' || true); \
+	  test -z "$$bad" || (echo "engine imports modules outside the allow-list: $$bad"; false)
+
+test-native:
+	$(GO) test -count=1 ./...
+
+# The engine's tests again as js/wasm under Node, so the page computes the
+# same numbers.
+test-wasm:
+	GOOS=js GOARCH=wasm $(GO) test -count=1 -exec="$(WASMEXEC)" ./engine/...
+
+# Regenerate the reference tables with Debian's python3 packages and check
+# that they match the committed ones (skipped where the packages are absent).
+refcheck:
+	@if $(PYTHON) -c 'import gsw, iapws, scipy' 2>/dev/null; then \
+	  tmp=$$(mktemp -d); cp -r testdata $$tmp/; \
+	  for s in testdata/*.py; do $(PYTHON) $$tmp/$$s >/dev/null || exit 1; done; \
+	  for f in testdata/*.csv; do cmp -s $$f $$tmp/$$f || { echo "reference table $$f does not match its script"; diff $$f $$tmp/$$f | head; exit 1; }; done; \
+	  rm -rf $$tmp; echo "refcheck: reference tables reproduce"; \
+	else echo "refcheck: skipped (needs python3-gsw, python3-iapws, python3-scipy)"; fi
+
+refdata:
+	for s in testdata/*.py; do $(PYTHON) $$s; done
+
+bench:
+	$(GO) test -run '^$$' -bench . -benchmem ./engine/...
+
+bench-wasm:
+	GOOS=js GOARCH=wasm $(GO) test -run '^$$' -bench . -benchmem -exec="$(WASMEXEC)" ./engine/...
+
+clean:
+	rm -rf $(BIN) build
+
+# Fragments owned by the page, the edge host and the server checks.
+-include mk/*.mk

@@ -1,0 +1,213 @@
+// Package api is Drawsift's contract: the request and response types shared
+// by the page, the CLI and the HTTP API, and the one Dispatch every front
+// end calls. It is the only engine package that knows JSON.
+package api
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"runtime/debug"
+	"sort"
+	"strings"
+
+	"drawsift/engine/internal/jsonx"
+	"drawsift/engine/library"
+	"drawsift/engine/thermo"
+)
+
+// EngineVersion identifies the engine build in every response; the page
+// compares it with the version of the wasm it loaded.
+const EngineVersion = "0.1.0"
+
+// Operation names accepted by Dispatch (also the HTTP paths /v1/<op>).
+const (
+	OpOsmotic = "osmotic"
+	OpFlux    = "flux"
+	OpScreen  = "screen"
+	OpSolutes = "solutes"
+	OpHealth  = "health"
+)
+
+// Error kinds, mapped to HTTP statuses by the hosts.
+const (
+	KindInvalid  = "invalid"  // 400
+	KindNotFound = "notfound" // 404: unknown operation
+	KindInternal = "internal" // 500
+)
+
+// Error is the contract's error object: {"error": {"field", "message", "limit"}}.
+type Error struct {
+	Field   string `json:"field"`
+	Message string `json:"message"`
+	Limit   any    `json:"limit,omitempty"`
+	Kind    string `json:"-"`
+}
+
+func (e *Error) Error() string {
+	if e.Field == "" {
+		return e.Message
+	}
+	return e.Field + ": " + e.Message
+}
+
+// ErrorBody wraps an Error as it travels.
+type ErrorBody struct {
+	Error *Error `json:"error"`
+}
+
+// Invalid returns a KindInvalid error on field.
+func Invalid(field string, limit any, format string, a ...any) *Error {
+	return &Error{Field: field, Message: fmt.Sprintf(format, a...), Limit: limit, Kind: KindInvalid}
+}
+
+// Dispatch runs one operation on a JSON request and returns the JSON
+// response. On failure it returns the encoded error object and the
+// *Error (whose Kind selects the HTTP status). A panic inside the engine
+// becomes a KindInternal error: the message says "internal error" and the
+// details go to the returned error's unexported log text.
+func Dispatch(ctx context.Context, op string, body []byte) (out []byte, e *Error) {
+	defer func() {
+		if r := recover(); r != nil {
+			e = &Error{Message: "internal error", Kind: KindInternal}
+			out = encodeError(e)
+			lastPanic.Store(fmt.Sprintf("%v\n%s", r, debug.Stack()))
+		}
+	}()
+	var resp any
+	switch op {
+	case OpOsmotic:
+		var req OsmoticRequest
+		if e = decode(body, &req); e == nil {
+			resp, e = Osmotic(&req)
+		}
+	case OpFlux:
+		var req FluxRequest
+		if e = decode(body, &req); e == nil {
+			resp, e = Flux(&req)
+		}
+	case OpScreen:
+		var req ScreenRequest
+		if e = decode(body, &req); e == nil {
+			resp, e = Screen(ctx, &req, nil)
+		}
+	case OpSolutes:
+		resp, e = Solutes()
+	case OpHealth:
+		resp = Health{Status: "ok", EngineVersion: EngineVersion, JSON: jsonx.Library}
+	default:
+		e = &Error{Field: "operation", Message: fmt.Sprintf("unknown operation %q (one of osmotic, flux, screen, solutes, health)", op), Kind: KindNotFound}
+	}
+	if e != nil {
+		return encodeError(e), e
+	}
+	b, err := jsonx.Marshal(resp)
+	if err != nil {
+		// Only a non-finite float can fail here; the engine guards against
+		// them, so this is a bug.
+		e = &Error{Message: "internal error", Kind: KindInternal}
+		lastPanic.Store("marshal: " + err.Error())
+		return encodeError(e), e
+	}
+	return b, nil
+}
+
+func encodeError(e *Error) []byte {
+	b, err := jsonx.Marshal(ErrorBody{Error: e})
+	if err != nil {
+		return []byte(`{"error":{"field":"","message":"internal error"}}`)
+	}
+	return b
+}
+
+// decode reads a request strictly (unknown fields are errors).
+func decode(body []byte, v any) *Error {
+	if err := jsonx.DecodeStrict(body, v); err != nil {
+		field, msg := jsonx.FieldOf(err)
+		return &Error{Field: field, Message: msg, Kind: KindInvalid}
+	}
+	return nil
+}
+
+// Health is the reply of the health operation.
+type Health struct {
+	Status        string `json:"status"`
+	EngineVersion string `json:"engine_version"`
+	JSON          string `json:"json_library"`
+}
+
+// Source names where a group of numbers came from.
+type Source struct {
+	Field     string `json:"field"`
+	Reference string `json:"reference"`
+}
+
+// soluteSources lists a record's sources in a stable order, prefixed by
+// the solute ID.
+func soluteSources(s *library.Solute) []Source {
+	keys := make([]string, 0, len(s.Sources))
+	for k := range s.Sources {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	out := make([]Source, 0, len(keys))
+	for _, k := range keys {
+		out = append(out, Source{Field: s.ID + "." + k, Reference: s.Sources[k]})
+	}
+	return out
+}
+
+// lookupSolute finds a solute or returns the contract error on field.
+func lookupSolute(field, name string) (*library.Solute, *Error) {
+	if strings.TrimSpace(name) == "" {
+		return nil, Invalid(field, nil, "a solute is required (e.g. \"NaCl\")")
+	}
+	lib, err := library.Default()
+	if err != nil {
+		return nil, &Error{Message: "internal error: solute library: " + err.Error(), Kind: KindInternal}
+	}
+	s, ok := lib.Lookup(name)
+	if !ok {
+		return nil, Invalid(field, nil, "unknown solute %q; known: %s", name, strings.Join(lib.IDs(), ", "))
+	}
+	return s, nil
+}
+
+// fromEngine converts an engine error into the contract error, prefixing
+// the field path of the request part it came from.
+func fromEngine(prefix string, err error) *Error {
+	var ie *thermo.InputError
+	if errors.As(err, &ie) {
+		var lim any
+		if ie.Limit != "" {
+			lim = ie.Limit
+		}
+		return &Error{Field: join(prefix, ie.Field), Message: ie.Msg, Limit: lim, Kind: KindInvalid}
+	}
+	var ae *Error
+	if errors.As(err, &ae) {
+		return ae
+	}
+	return &Error{Field: prefix, Message: err.Error(), Kind: KindInvalid}
+}
+
+func join(prefix, field string) string {
+	if prefix == "" {
+		return field
+	}
+	if field == "" {
+		return prefix
+	}
+	return prefix + "." + field
+}
+
+// finite reports whether every value is a finite float.
+func finite(vs ...float64) bool {
+	for _, v := range vs {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return false
+		}
+	}
+	return true
+}

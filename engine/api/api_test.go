@@ -1,0 +1,145 @@
+package api
+
+import (
+	"context"
+	"encoding/json"
+	"fmt"
+	"math"
+	"strings"
+	"testing"
+)
+
+func dispatch(t *testing.T, op, body string) (map[string]any, *Error) {
+	t.Helper()
+	out, e := Dispatch(context.Background(), op, []byte(body))
+	var m map[string]any
+	if err := json.Unmarshal(out, &m); err != nil {
+		t.Fatalf("%s %s: response is not JSON: %v\n%s", op, body, err, out)
+	}
+	if e != nil {
+		if _, ok := m["error"]; !ok {
+			t.Fatalf("error response without the error object: %s", out)
+		}
+	}
+	return m, e
+}
+
+func TestOsmoticContract(t *testing.T) {
+	m, e := dispatch(t, OpOsmotic, `{"solute":"nacl","concentration":1,"unit":"mol/kg","temperature_c":25}`)
+	if e != nil {
+		t.Fatal(e)
+	}
+	for _, k := range []string{"osmotic_pressure_bar", "van_t_hoff_bar", "osmotic_coefficient", "water_activity",
+		"molality_mol_per_kg", "molarity_mol_per_l", "density_kg_per_m3", "viscosity_mpa_s", "warnings", "sources"} {
+		if _, ok := m[k]; !ok {
+			t.Errorf("osmotic response lacks %q", k)
+		}
+	}
+	// φ(NaCl, 1 mol/kg, 25 °C) = 0.9355 (Robinson & Stokes 1959, from
+	// memory; Pitzer–Mayorga parameters give 0.936).
+	if phi := m["osmotic_coefficient"].(float64); math.Abs(phi-0.9355) > 0.003 {
+		t.Errorf("φ = %v", phi)
+	}
+	if m["solute"] != "NaCl" {
+		t.Errorf("solute echoed as %v, want the library ID", m["solute"])
+	}
+}
+
+func TestOsmoticErrors(t *testing.T) {
+	for _, tc := range []struct {
+		name, body, field string
+	}{
+		{"unknown solute", `{"solute":"unobtainium","concentration":1,"unit":"mol/L"}`, "solute"},
+		{"missing solute", `{"concentration":1,"unit":"mol/L"}`, "solute"},
+		{"missing concentration", `{"solute":"NaCl","unit":"mol/L"}`, "concentration"},
+		{"negative", `{"solute":"NaCl","concentration":-0.1,"unit":"mol/L"}`, "concentration"},
+		{"huge", `{"solute":"NaCl","concentration":1e300,"unit":"mol/L"}`, "concentration"},
+		{"overflow", `{"solute":"NaCl","concentration":1e999,"unit":"mol/L"}`, "concentration"},
+		{"unknown unit", `{"solute":"NaCl","concentration":1,"unit":"furlongs"}`, "unit"},
+		{"missing unit", `{"solute":"NaCl","concentration":1}`, "unit"},
+		{"beyond solubility", `{"solute":"NaCl","concentration":7,"unit":"mol/kg"}`, "concentration"},
+		{"too hot", `{"solute":"NaCl","concentration":1,"unit":"mol/kg","temperature_c":150}`, "temperature_c"},
+		{"wrong type", `{"solute":"NaCl","concentration":"one","unit":"mol/kg"}`, "concentration"},
+		{"unknown field", `{"solute":"NaCl","concentration":1,"unit":"mol/kg","colour":"blue"}`, "colour"},
+	} {
+		_, e := dispatch(t, OpOsmotic, tc.body)
+		if e == nil || e.Field != tc.field || e.Kind != KindInvalid {
+			t.Errorf("%s: got %+v, want an invalid error on %q", tc.name, e, tc.field)
+		}
+	}
+	// Beyond solubility: the limit is given in the request's unit.
+	_, e := dispatch(t, OpOsmotic, `{"solute":"NaCl","concentration":30,"unit":"wt%"}`)
+	if e == nil || fmt.Sprint(e.Limit) != "26.46 wt%" {
+		t.Errorf("30 wt%% NaCl: %+v, want limit 26.46 wt%%", e)
+	}
+	for _, body := range []string{``, `{`, `[]`, `{"solute":"NaCl"} {}`, `null`} {
+		_, e := dispatch(t, OpOsmotic, body)
+		if e == nil || e.Kind != KindInvalid {
+			t.Errorf("malformed %q accepted: %+v", body, e)
+		}
+	}
+}
+
+// No response may carry NaN or Inf: JSON cannot encode them, so a
+// successful Marshal is the check; every library solute is run near its
+// solubility at the ends of the temperature range.
+func TestOsmoticEverySoluteFinite(t *testing.T) {
+	resp, _ := Solutes()
+	for _, s := range resp.Solutes {
+		for _, tC := range []float64{0, 25, 100} {
+			for _, frac := range []float64{0, 0.5, 0.999} {
+				b, e := dispatch(t, OpOsmotic, fmt.Sprintf(`{"solute":%q,"concentration":%g,"unit":"mol/kg","temperature_c":%g}`,
+					s.ID, frac*soluteTop(s.ID, tC), tC))
+				if e != nil {
+					t.Errorf("%s %g °C: %v", s.ID, tC, e)
+					continue
+				}
+				if w, ok := b["warnings"]; !ok || w == nil {
+					t.Errorf("%s: warnings must be a list, even empty", s.ID)
+				}
+			}
+		}
+	}
+}
+
+// soluteTop is the solubility (or 10 mol/kg for a miscible solute).
+func soluteTop(id string, tC float64) float64 {
+	c := 1e9
+	r, e := Osmotic(&OsmoticRequest{Solute: id, Concentration: &c, Unit: "mol/kg", TemperatureC: &tC})
+	if r != nil || e == nil || e.Limit == nil {
+		return 10
+	}
+	var v float64
+	fmt.Sscanf(fmt.Sprint(e.Limit), "%g", &v)
+	return v
+}
+
+func TestUnknownOperation(t *testing.T) {
+	_, e := dispatch(t, "transmogrify", `{}`)
+	if e == nil || e.Kind != KindNotFound {
+		t.Errorf("unknown op: %+v", e)
+	}
+	m, e := dispatch(t, OpHealth, ``)
+	if e != nil || m["engine_version"] != EngineVersion {
+		t.Errorf("health: %v %v", m, e)
+	}
+}
+
+func ExampleDispatch() {
+	out, e := Dispatch(context.Background(), OpOsmotic,
+		[]byte(`{"solute":"MgCl2","concentration":1,"unit":"mol/L","temperature_c":25}`))
+	if e != nil {
+		fmt.Println("error:", e)
+		return
+	}
+	var r OsmoticResponse
+	if err := json.Unmarshal(out, &r); err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("π = %.3g bar (van 't Hoff %.3g bar), φ = %.3g\n", r.OsmoticPressureBar, r.VantHoffBar, r.OsmoticCoefficient)
+	fmt.Println(strings.Join(r.Warnings, "; ") == "")
+	// Output:
+	// π = 84.9 bar (van 't Hoff 74.4 bar), φ = 1.12
+	// true
+}

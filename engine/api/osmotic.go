@@ -1,0 +1,178 @@
+package api
+
+import (
+	"math"
+
+	"drawsift/engine/library"
+	"drawsift/engine/thermo"
+)
+
+// DefaultTemperatureC applies when a request omits temperature_c.
+const DefaultTemperatureC = 25
+
+// Concentration is how a concentration travels: a solute, a value and a unit.
+type Concentration struct {
+	Solute        string   `json:"solute"`
+	Concentration *float64 `json:"concentration"`
+	Unit          string   `json:"unit"`
+}
+
+// OsmoticRequest asks for the osmotic properties of one solution.
+type OsmoticRequest struct {
+	Solute        string   `json:"solute"`
+	Concentration *float64 `json:"concentration"`
+	Unit          string   `json:"unit"`
+	TemperatureC  *float64 `json:"temperature_c,omitempty"` // default 25 °C
+}
+
+// OsmoticResponse holds every property of the solution.
+type OsmoticResponse struct {
+	Solute                  string   `json:"solute"`
+	Name                    string   `json:"name"`
+	Model                   string   `json:"model"`
+	TemperatureC            float64  `json:"temperature_c"`
+	OsmoticPressureBar      float64  `json:"osmotic_pressure_bar"`
+	VantHoffBar             float64  `json:"van_t_hoff_bar"`
+	OsmoticCoefficient      float64  `json:"osmotic_coefficient"`
+	WaterActivity           float64  `json:"water_activity"`
+	MeanActivityCoefficient *float64 `json:"mean_activity_coefficient,omitempty"`
+	MolalityMolPerKg        float64  `json:"molality_mol_per_kg"`
+	MolarityMolPerL         float64  `json:"molarity_mol_per_l"`
+	MassConcentrationGPerL  float64  `json:"mass_concentration_g_per_l"`
+	MassFractionPercent     float64  `json:"mass_fraction_wt_percent"`
+	OsmolalityOsmolPerKg    float64  `json:"osmolality_osmol_per_kg"`
+	DensityKgPerM3          float64  `json:"density_kg_per_m3"`
+	ViscosityMPaS           float64  `json:"viscosity_mpa_s"`
+	DiffusivityM2PerS       float64  `json:"diffusivity_m2_per_s"`
+	VantHoffFactor          float64  `json:"van_t_hoff_factor"`
+	// SolubilityMolPerKg is omitted for a miscible solute.
+	SolubilityMolPerKg *float64 `json:"solubility_mol_per_kg,omitempty"`
+	Warnings           []string `json:"warnings"`
+	Sources            []Source `json:"sources"`
+	EngineVersion      string   `json:"engine_version"`
+}
+
+// modelSources names the published sources of each model kind.
+var modelSources = map[string][]Source{
+	library.ModelPitzer: {
+		{Field: "model", Reference: "Pitzer (1973) J. Phys. Chem. 77:268; Pitzer & Mayorga (1973) J. Phys. Chem. 77:2300; Pitzer (1991) Activity Coefficients in Electrolyte Solutions, ch. 3"},
+		{Field: "model.A_phi", Reference: "Møller (1988) Geochim. Cosmochim. Acta 52:821, eq. 13"},
+	},
+	library.ModelSeawater: {{Field: "model", Reference: "Sharqawy, Lienhard & Zubair (2010) Desalination and Water Treatment 16:354 (osmotic coefficient, density, viscosity)"}},
+	library.ModelNorrish:  {{Field: "model", Reference: "Norrish (1966) J. Food Technol. 1:25 (a_w = x_w exp(−K x_s²))"}},
+	library.ModelTable:    {{Field: "model", Reference: "measured osmotic-pressure table, monotone cubic interpolation (Fritsch & Butland 1984)"}},
+	library.ModelNone:     {{Field: "model", Reference: "van 't Hoff (1887): no trustworthy non-ideal model for this solute"}},
+}
+
+var commonSources = []Source{
+	{Field: "osmotic_pressure", Reference: "π = −(RT/V̄w)·ln aw, ln aw = −φ·ν·m·Mw (IUPAC Gold Book, osmotic coefficient)"},
+	{Field: "water", Reference: "pure-water density, viscosity: engine/water (Kell 1975; IAPWS 2008 viscosity)"},
+}
+
+// parseTemperature returns the request temperature in kelvin, default 25 °C.
+func parseTemperature(field string, tC *float64) (float64, *Error) {
+	t := float64(DefaultTemperatureC)
+	if tC != nil {
+		t = *tC
+	}
+	if !(t >= thermo.MinTemperatureC && t <= thermo.MaxTemperatureC) {
+		return 0, Invalid(field, "0–100 °C", "temperature %g °C is outside 0–100 °C", t)
+	}
+	return t + thermo.ZeroCelsiusK, nil
+}
+
+// parseConcentration validates a value/unit pair.
+func parseConcentration(prefix string, v *float64, unit string) (float64, thermo.Unit, *Error) {
+	if v == nil {
+		return 0, 0, Invalid(join(prefix, "concentration"), nil, "a concentration is required")
+	}
+	if !(*v >= 0) || math.IsInf(*v, 0) {
+		return 0, 0, Invalid(join(prefix, "concentration"), "≥ 0", "concentration must be a finite, non-negative number (got %g)", *v)
+	}
+	if unit == "" {
+		return 0, 0, Invalid(join(prefix, "unit"), thermo.UnitNames(), "a unit is required")
+	}
+	u, err := thermo.ParseUnit(unit)
+	if err != nil {
+		return 0, 0, Invalid(join(prefix, "unit"), thermo.UnitNames(), "%v", err)
+	}
+	return *v, u, nil
+}
+
+// Osmotic computes the osmotic properties of one solution.
+func Osmotic(req *OsmoticRequest) (*OsmoticResponse, *Error) {
+	s, e := lookupSolute("solute", req.Solute)
+	if e != nil {
+		return nil, e
+	}
+	tK, e := parseTemperature("temperature_c", req.TemperatureC)
+	if e != nil {
+		return nil, e
+	}
+	v, u, e := parseConcentration("", req.Concentration, req.Unit)
+	if e != nil {
+		return nil, e
+	}
+	x, err := thermo.NewSolution(s, tK)
+	if err != nil {
+		return nil, fromEngine("", err)
+	}
+	m, err := x.ToMolality(v, u)
+	if err != nil {
+		return nil, fromEngine("", err)
+	}
+	st, err := x.StateAt(m, u)
+	if err != nil {
+		return nil, fromEngine("", err)
+	}
+	return osmoticResponse(s, x, st, tK), nil
+}
+
+func osmoticResponse(s *library.Solute, x *thermo.Solution, st thermo.State, tK float64) *OsmoticResponse {
+	r := &OsmoticResponse{
+		Solute: s.ID, Name: s.Name, Model: s.Osmotic.Kind,
+		TemperatureC:           tK - thermo.ZeroCelsiusK,
+		OsmoticPressureBar:     st.OsmoticPressurePa / thermo.PascalPerBar,
+		VantHoffBar:            st.VantHoffPa / thermo.PascalPerBar,
+		OsmoticCoefficient:     st.OsmoticCoefficient,
+		WaterActivity:          st.WaterActivity,
+		MolalityMolPerKg:       st.MolalityMolPerKg,
+		MolarityMolPerL:        st.MolarityMolPerM3 / 1000,
+		MassConcentrationGPerL: st.MolarityMolPerM3 * x.MolarMassKgPerMol(),
+		MassFractionPercent:    100 * st.MassFraction,
+		OsmolalityOsmolPerKg:   st.OsmolalityOsmolPerKg,
+		DensityKgPerM3:         st.DensityKgPerM3,
+		ViscosityMPaS:          st.ViscosityPaS * 1e3,
+		DiffusivityM2PerS:      st.DiffusivityM2PerS,
+		VantHoffFactor:         x.Nu(),
+		Warnings:               append([]string{}, st.Warnings...),
+		EngineVersion:          EngineVersion,
+	}
+	if st.HasGamma {
+		g := math.Exp(st.LnGamma)
+		r.MeanActivityCoefficient = &g
+	}
+	if !math.IsInf(st.SolubilityMolPerKg, 0) {
+		sol := st.SolubilityMolPerKg
+		r.SolubilityMolPerKg = &sol
+	}
+	r.Sources = append(r.Sources, modelSources[s.Osmotic.Kind]...)
+	r.Sources = append(r.Sources, commonSources...)
+	r.Sources = append(r.Sources, soluteSources(s)...)
+	return r
+}
+
+// SolutesResponse lists the library with its sources.
+type SolutesResponse struct {
+	Solutes       []*library.Solute `json:"solutes"`
+	EngineVersion string            `json:"engine_version"`
+}
+
+// Solutes returns the embedded solute library.
+func Solutes() (*SolutesResponse, *Error) {
+	lib, err := library.Default()
+	if err != nil {
+		return nil, &Error{Message: "internal error: solute library", Kind: KindInternal}
+	}
+	return &SolutesResponse{Solutes: lib.All(), EngineVersion: EngineVersion}, nil
+}

@@ -1,0 +1,218 @@
+package api
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"math"
+	"reflect"
+	"strings"
+	"testing"
+
+	"drawsift/engine/internal/jsonx"
+)
+
+func screenOp(t *testing.T, body string) (*ScreenResponse, *Error) {
+	t.Helper()
+	out, e := Dispatch(context.Background(), OpScreen, []byte(body))
+	if e != nil {
+		return nil, e
+	}
+	var r ScreenResponse
+	if err := json.Unmarshal(out, &r); err != nil {
+		t.Fatalf("response does not decode: %v", err)
+	}
+	return &r, nil
+}
+
+func TestScreenDefaultsWholeLibrary(t *testing.T) {
+	r, e := screenOp(t, `{"feed": {"preset": "seawater"}}`)
+	if e != nil {
+		t.Fatal(e)
+	}
+	if len(r.Candidates) < 15 {
+		t.Fatalf("only %d ranked", len(r.Candidates))
+	}
+	if r.Orientation != "AL-FS" || r.EngineVersion != EngineVersion || r.Scenario == nil || len(r.Sources) == 0 || len(r.ModelChoices) == 0 || len(r.Cautions) == 0 {
+		t.Errorf("reproducibility record incomplete: %+v", r)
+	}
+	// 2 × the seawater feed's π by default.
+	if got := *r.Basis.TargetOsmoticPressureBar; math.Abs(got-2*r.FeedOsmoticPressureBar) > 1e-9*got {
+		t.Errorf("default basis %g bar, feed %g bar", got, r.FeedOsmoticPressureBar)
+	}
+	c := r.Candidates[0]
+	if c.Rank != 1 || c.ConcentrationMolPerL <= 0 || c.WaterFluxLMH <= 0 || c.SpecificReverseSoluteFluxGPerL <= 0 ||
+		c.ReplenishmentCostUSDPerM3 == nil || len(c.Contributions) == 0 {
+		t.Errorf("first candidate incomplete: %+v", c)
+	}
+	// Cost = SRSF × price arithmetic at both ends of the range.
+	for _, c := range r.Candidates {
+		if c.PriceUSDPerKgMin == nil {
+			continue
+		}
+		want := c.SpecificReverseSoluteFluxGPerL * *c.PriceUSDPerKgMin
+		if math.Abs(*c.ReplenishmentCostMinUSDPerM3-want) > 1e-9*want {
+			t.Errorf("%s: cost %g, want %g", c.Solute, *c.ReplenishmentCostMinUSDPerM3, want)
+		}
+	}
+}
+
+// The ranking does not depend on the units the scenario is written in.
+func TestScreenUnitInvariance(t *testing.T) {
+	a := `{"feed": {"solute": "seawater", "concentration": 35, "unit": "g/kg"}, "candidates": ["NaCl","MgCl2","KCl","Na2SO4","glucose"], "basis": {"kind": "osmotic-pressure", "value": 60, "unit": "bar"}}`
+	b := `{"feed": {"solute": "seawater", "concentration": 3.5, "unit": "wt%"}, "candidates": ["NaCl","MgCl2","KCl","Na2SO4","glucose"], "basis": {"kind": "osmotic-pressure", "value": 6, "unit": "MPa"}}`
+	c := `{"feed": {"solute": "seawater", "concentration": 3.5, "unit": "wt%"}, "candidates": ["NaCl","MgCl2","KCl","Na2SO4","glucose"], "basis": {"kind": "osmotic-pressure", "value": 6000, "unit": "kPa"}}`
+	var ranks [][]string
+	var scores [][]float64
+	for _, body := range []string{a, b, c} {
+		r, e := screenOp(t, body)
+		if e != nil {
+			t.Fatal(e)
+		}
+		var ids []string
+		var sc []float64
+		for _, x := range r.Candidates {
+			ids = append(ids, x.Solute)
+			sc = append(sc, x.Score)
+		}
+		ranks = append(ranks, ids)
+		scores = append(scores, sc)
+	}
+	for i := 1; i < len(ranks); i++ {
+		if !reflect.DeepEqual(ranks[0], ranks[i]) {
+			t.Errorf("ranking %v differs from %v", ranks[i], ranks[0])
+		}
+		for j := range scores[0] {
+			if math.Abs(scores[0][j]-scores[i][j]) > 1e-9 {
+				t.Errorf("score %g differs from %g", scores[i][j], scores[0][j])
+			}
+		}
+	}
+}
+
+// A scenario round-trips through JSON unchanged, and the response echoes it.
+func TestScenarioRoundTrip(t *testing.T) {
+	body := []byte(`{"feed":{"preset":"brackish-groundwater"},"membrane":{"preset":"cta-asymmetric"},"orientation":"AL-FS","orientations":["AL-DS"],"temperature_c":20,"channel":{"height_mm":2,"width_mm":30,"length_mm":100,"crossflow_velocity_m_per_s":0.2,"spacer":true},"candidates":["NaCl","MgCl2","myDraw"],"custom_solutes":[{"id":"myDraw","molar_mass_g_per_mol":150,"ions":[{"symbol":"X+","charge":1,"count":1},{"symbol":"Y-","charge":-1,"count":1}],"solubility_mol_per_kg":3,"diffusivity_m2_per_s":1e-9,"price_usd_per_kg_min":1,"price_usd_per_kg_max":2,"source":"our own test record"}],"basis":{"kind":"osmotic-pressure","value":20,"unit":"bar"},"osmotic_model":"real","weights":{"replenishment_cost":0.5,"water_flux":0.5},"pareto_objectives":["water_flux","replenishment_cost"],"exclude_hazards":["toxic"],"regeneration_recovery":0.4,"uncertainty":{"samples":50,"b_rel_sd":0.2},"seed":42}`)
+	var req ScreenRequest
+	if err := jsonx.DecodeStrict(body, &req); err != nil {
+		t.Fatal(err)
+	}
+	again, err := jsonx.Marshal(&req)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var x, y any
+	json.Unmarshal(body, &x)
+	json.Unmarshal(again, &y)
+	if !reflect.DeepEqual(x, y) {
+		t.Errorf("round trip changed the scenario:\n%s\n%s", body, again)
+	}
+	r, e := screenOp(t, string(body))
+	if e != nil {
+		t.Fatal(e)
+	}
+	echo, _ := jsonx.Marshal(r.Scenario)
+	var z any
+	json.Unmarshal(echo, &z)
+	if !reflect.DeepEqual(x, z) {
+		t.Errorf("echo differs from the scenario:\n%s", echo)
+	}
+	found := false
+	for _, c := range r.Candidates {
+		found = found || c.Solute == "myDraw"
+		if c.Robustness == nil || len(c.OtherOrientations) != 1 {
+			t.Errorf("%s: robustness or AL-DS missing", c.Solute)
+		}
+	}
+	if !found {
+		t.Error("custom solute not ranked")
+	}
+}
+
+func TestScreenSameSeedSameRobustness(t *testing.T) {
+	body := `{"feed": {"preset": "seawater"}, "candidates": ["NaCl","MgCl2","KCl","CaCl2"], "uncertainty": {"samples": 200}, "seed": 7}`
+	a, e := Dispatch(context.Background(), OpScreen, []byte(body))
+	if e != nil {
+		t.Fatal(e)
+	}
+	b, _ := Dispatch(context.Background(), OpScreen, []byte(body))
+	if !bytes.Equal(a, b) {
+		t.Error("same scenario and seed gave different responses")
+	}
+}
+
+// Bad scenarios give the contract's error naming the field.
+func TestScreenBadScenarios(t *testing.T) {
+	for _, tc := range []struct {
+		name, body, field string
+	}{
+		{"unknown solute", `{"candidates": ["NaCl", "unobtainium"]}`, "candidates[1]"},
+		{"empty candidates", `{"candidates": []}`, "candidates"},
+		{"weights zero", `{"weights": {"water_flux": 0}}`, "weights"},
+		{"weights negative", `{"weights": {"water_flux": -1}}`, "weights.water_flux"},
+		{"weights unknown", `{"weights": {"beauty": 1}}`, "weights.beauty"},
+		{"unreachable basis", `{"candidates": ["K2SO4", "NaHCO3"], "basis": {"kind": "osmotic-pressure", "value": 300, "unit": "bar"}}`, "basis.value"},
+		{"basis kind", `{"basis": {"kind": "vibes", "value": 1}}`, "basis.kind"},
+		{"basis unit", `{"basis": {"kind": "osmotic-pressure", "value": 1, "unit": "furlong"}}`, "basis.unit"},
+		{"multiple without feed π", `{"basis": {"kind": "osmotic-pressure", "multiple_of_feed": 2}}`, "basis.multiple_of_feed"},
+		{"unknown field", `{"candidate": ["NaCl"]}`, "candidate"},
+		{"feed preset", `{"feed": {"preset": "lake"}}`, "feed.preset"},
+		{"membrane preset", `{"membrane": {"preset": "brandx"}}`, "membrane.preset"},
+		{"orientation", `{"orientation": "sideways"}`, "orientation"},
+		{"hazard", `{"exclude_hazards": ["spicy"]}`, "exclude_hazards[0]"},
+		{"samples", `{"uncertainty": {"samples": 0}}`, "uncertainty.samples"},
+		{"temperature", `{"temperature_c": 150}`, "temperature_c"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			out, e := Dispatch(context.Background(), OpScreen, []byte(tc.body))
+			if e == nil {
+				t.Fatalf("no error for %s", tc.body)
+			}
+			if e.Field != tc.field {
+				t.Errorf("field %q, want %q (%s)", e.Field, tc.field, e.Message)
+			}
+			var eb ErrorBody
+			if err := json.Unmarshal(out, &eb); err != nil || eb.Error == nil || eb.Error.Message == "" {
+				t.Errorf("not the contract's error object: %s", out)
+			}
+		})
+	}
+	for _, body := range []string{`{"candidates": [`, `not json`, ``} {
+		if _, e := Dispatch(context.Background(), OpScreen, []byte(body)); e == nil || e.Kind != KindInvalid {
+			t.Errorf("malformed %q: %v", body, e)
+		}
+	}
+}
+
+// A candidate that cannot be evaluated is reported with its reason while
+// the rest completes.
+func TestScreenExcludedReported(t *testing.T) {
+	r, e := screenOp(t, `{"candidates": ["NaCl", "K2SO4", "KBr"], "basis": {"kind": "osmotic-pressure", "value": 45, "unit": "bar"}, "exclude_hazards": ["toxic"]}`)
+	if e != nil {
+		t.Fatal(e)
+	}
+	if len(r.Candidates) != 1 || len(r.Excluded) != 2 {
+		t.Fatalf("ranked %d, excluded %d", len(r.Candidates), len(r.Excluded))
+	}
+	for _, x := range r.Excluded {
+		if x.Reason == "" || !strings.Contains(x.Detail, x.Solute) {
+			t.Errorf("exclusion without reason: %+v", x)
+		}
+	}
+}
+
+func TestScreenSweepAndWaterFluxBasis(t *testing.T) {
+	r, e := screenOp(t, `{"feed": {"preset": "wastewater-effluent"}, "candidates": ["NaCl", "MgCl2"], "basis": {"kind": "water-flux", "value": 6, "unit": "LMH"},
+		"sweep": {"variable": "concentration", "from": 0.1, "to": 1.5, "points": 8, "unit": "mol/L"}}`)
+	if e != nil {
+		t.Fatal(e)
+	}
+	for _, c := range r.Candidates {
+		if math.Abs(c.WaterFluxLMH-6) > 1e-6 {
+			t.Errorf("%s: %g LMH, want 6", c.Solute, c.WaterFluxLMH)
+		}
+	}
+	if len(r.Sweep) != 2 || len(r.Sweep[0].Points) != 8 || r.Sweep[0].Points[0].WaterFluxLMH == nil {
+		t.Fatalf("sweep malformed: %+v", r.Sweep)
+	}
+}

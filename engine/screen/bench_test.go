@@ -1,0 +1,72 @@
+package screen
+
+import (
+	"context"
+	"testing"
+
+	"drawsift/engine/thermo"
+	"drawsift/engine/transport"
+)
+
+var sinkSeries []SweepSeries
+var sinkResult *Result
+
+// BenchmarkDefaultScreen: the whole library × 40 concentrations × both
+// orientations, every metric (design budget: < 50 ms native).
+func BenchmarkDefaultScreen(b *testing.B) {
+	sc := baseScenario(b)
+	sc.Feed = seawaterFeed(b)
+	sc.Orientations = []transport.Orientation{transport.ALFS, transport.ALDS}
+	l := lib(b)
+	spec := SweepSpec{Variable: SweepConcentration, From: 0.05, To: 2, Points: 40, Unit: thermo.MolPerL}
+	b.ReportAllocs()
+	for b.Loop() {
+		s, err := Sweep(context.Background(), sc, l, spec)
+		if err != nil {
+			b.Fatal(err)
+		}
+		sinkSeries = s
+	}
+}
+
+// BenchmarkScreen: one ranked screen of the whole library at 2 × the
+// seawater feed's π.
+func BenchmarkScreen(b *testing.B) {
+	sc := baseScenario(b)
+	sc.Feed = seawaterFeed(b)
+	sc.Basis = Basis{Kind: BasisOsmoticPressure, MultipleOfFeed: 2}
+	l := lib(b)
+	b.ReportAllocs()
+	for b.Loop() {
+		r, err := Run(context.Background(), sc, l, nil)
+		if err != nil {
+			b.Fatal(err)
+		}
+		sinkResult = r
+	}
+}
+
+// BenchmarkRobustness: 1,000 Monte Carlo samples over 25 candidates
+// (design budget: < 1 s native, < 2 s wasm).
+func BenchmarkRobustness(b *testing.B) {
+	sc := baseScenario(b)
+	sc.Feed = seawaterFeed(b)
+	sc.Basis = Basis{Kind: BasisOsmoticPressure, MultipleOfFeed: 2}
+	sc.AllowExtrapolation = true
+	sc.Uncertainty = &Uncertainty{Samples: 1000, ARelSD: .1, BRelSD: .3, SRelSD: .15, DefaultOsmotic: true, DiffusivityRelSD: .05, Prices: true}
+	l := lib(b)
+	r, err := Run(context.Background(), sc, l, nil)
+	if err != nil {
+		b.Fatal(err)
+	}
+	n := len(r.Ranked)
+	b.ReportAllocs()
+	for b.Loop() {
+		r, err := Run(context.Background(), sc, l, nil)
+		if err != nil {
+			b.Fatal(err)
+		}
+		sinkResult = r
+	}
+	b.ReportMetric(float64(n), "candidates")
+}

@@ -1,0 +1,557 @@
+package screen
+
+import (
+	"fmt"
+	"math"
+
+	"drawsift/engine/library"
+	"drawsift/engine/thermo"
+	"drawsift/engine/transport"
+)
+
+// Metrics are one candidate's results at its basis concentration in one
+// orientation. All values are SI and finite.
+type Metrics struct {
+	Orientation transport.Orientation
+
+	MolalityMolPerKg float64
+	MolarityMolPerM3 float64
+	MassConcKgPerM3  float64 // = g/L
+	// SolubilityMolPerKg is +Inf for a miscible solute (reported as absent).
+	SolubilityMolPerKg float64
+	// SolubilityMargin is 1 − m/m_sat (1 for a miscible solute).
+	SolubilityMargin float64
+
+	PiPa, VantHoffPa, FeedPiPa float64
+
+	JwMPerS              float64
+	JsMolPerM2S          float64 // reverse flux of the draw solute, draw → feed
+	SRSFMolPerM3         float64 // Js/Jw
+	SRSFKgPerM3          float64 // Js·M/Jw = g/L
+	FluxEfficiency       float64 // Jw/(A·(π_D,b − π_F,b))
+	HasCost              bool
+	CostMinUSDPerM3      float64
+	CostMaxUSDPerM3      float64
+	ViscosityPaS         float64
+	RegenJPerM3          float64
+	Scaling              Scaling
+	FeedFaceDrawMolPerM3 float64 // draw solute at the feed-side face of the active layer
+}
+
+// CostMidUSDPerM3 is the replenishment cost at the middle of the price range.
+func (m *Metrics) CostMidUSDPerM3() float64 { return 0.5 * (m.CostMinUSDPerM3 + m.CostMaxUSDPerM3) }
+
+// Objective returns the value of objective o (in the unit of o.Unit()) and
+// whether it is known.
+func (m *Metrics) Objective(o Objective) (float64, bool) {
+	switch o {
+	case ObjWaterFlux:
+		return m.JwMPerS / thermo.MPerSPerLMH, true
+	case ObjSRSF:
+		return m.SRSFKgPerM3, true
+	case ObjReplenishment:
+		return m.CostMidUSDPerM3(), m.HasCost
+	case ObjRegeneration:
+		return m.RegenJPerM3 / JPerKWh, true
+	case ObjViscosity:
+		return m.ViscosityPaS * 1e3, true
+	case ObjSolubilityMargin:
+		return m.SolubilityMargin, true
+	case ObjScaling:
+		if !m.Scaling.Any {
+			return 0, true
+		}
+		return math.Max(0, m.Scaling.Max), true
+	case ObjFluxEfficiency:
+		return m.FluxEfficiency, true
+	case ObjMassConcentration:
+		return m.MassConcKgPerM3, true
+	}
+	return 0, false
+}
+
+// JPerKWh converts energy: 1 kWh = 3.6 MJ (exact).
+const JPerKWh = 3.6e6
+
+// Reasons a candidate is excluded.
+const (
+	ReasonInsoluble    = "insoluble at the needed concentration"
+	ReasonValidity     = "outside model validity"
+	ReasonHazard       = "hazard excluded by the user"
+	ReasonUnreachable  = "cannot reach the basis target"
+	ReasonNoFlux       = "no forward water flux"
+	ReasonNotEvaluated = "could not be evaluated"
+)
+
+// exclusion is why a candidate cannot be ranked.
+type exclusion struct {
+	reason, detail string
+}
+
+func (e *exclusion) Error() string { return e.reason + ": " + e.detail }
+
+// perturb holds the multiplicative factors of one Monte Carlo sample (all
+// 1 for the nominal run) and the sampled price.
+type perturb struct {
+	fA, fB, fS, fPi, fD float64
+	price               float64 // USD/kg; < 0 → the price range
+}
+
+var nominal = perturb{fA: 1, fB: 1, fS: 1, fPi: 1, fD: 1, price: -1}
+
+// scaledPi multiplies a solution's π(c) by a factor (model uncertainty, or
+// van 't Hoff mode).
+type scaledPi struct {
+	x    *thermo.Solution
+	f    float64
+	vh   bool
+	nuRT float64
+}
+
+func (s *scaledPi) fn(c float64) (float64, float64) {
+	if s.vh {
+		return s.f * s.nuRT * c, s.f * s.nuRT
+	}
+	p, d := s.x.OsmoticFunc(c)
+	return s.f * p, s.f * d
+}
+
+// candidate is one solute prepared at the scenario temperature.
+type candidate struct {
+	sol        *library.Solute
+	x          *thermo.Solution
+	bMPerS     float64
+	bEstimated bool
+	hasPrice   bool
+	priceMin   float64
+	priceMax   float64
+	pi         scaledPi
+	piFn       transport.OsmoticFunc
+	basisM     float64 // concentration basis: molality
+	ions       []ionCount
+	warnings   []string
+	excl       *exclusion // set at preparation (hazard, bad temperature)
+	osmRelSD   float64
+}
+
+type ionCount struct {
+	symbol string
+	charge int
+	count  float64
+}
+
+// env is a scenario prepared at one temperature.
+type env struct {
+	sc       *Scenario
+	tK       float64
+	feedX    *thermo.Solution
+	feedSol  *library.Solute
+	feedM    float64
+	feedC    float64 // mol/m³
+	feedPiPa float64
+	feedD    float64
+	feedB    float64
+	feedPi   scaledPi
+	feedFn   transport.OsmoticFunc
+	feedIons []ionConc // bulk, mol/L
+	kFeed    float64   // nominal, +Inf for none
+	kFeedErr error
+	targetPi float64 // Pa, osmotic-pressure basis
+	davies   float64 // Davies A at T (log10 units)
+	cands    []candidate
+	warnings []string
+	nacl     *library.Solute
+}
+
+type ionConc struct {
+	symbol  string
+	charge  int
+	molPerL float64
+}
+
+// prepare builds the env: solutions at temperature, feed state, B per
+// candidate, basis target. It fails only on scenario-level errors.
+func prepare(sc *Scenario, lib *library.Library) (*env, error) {
+	if err := sc.validate(); err != nil {
+		return nil, err
+	}
+	e := &env{sc: sc, tK: sc.TemperatureK, davies: daviesA(sc.TemperatureK)}
+	if lib != nil {
+		e.nacl, _ = lib.Lookup("NaCl")
+	}
+	// Feed.
+	f := sc.Feed
+	if f.Solute != nil && f.Concentration > 0 {
+		x, err := thermo.NewSolution(f.Solute, e.tK)
+		if err != nil {
+			return nil, inputErr("temperature_c", "0–100 °C", "%v", err)
+		}
+		m, err := x.ToMolality(f.Concentration, f.Unit)
+		if err != nil {
+			return nil, inputErr("feed.concentration", nil, "%v", err)
+		}
+		if m > x.SolubilityMolPerKg() {
+			return nil, inputErr("feed.concentration", nil, "the feed is beyond the solubility of %s", f.Solute.ID)
+		}
+		e.feedX, e.feedSol, e.feedM = x, f.Solute, m
+		e.feedC = x.MolarityMolPerM3(m)
+		e.feedD = x.DiffusivityM2PerS(m)
+		e.feedPi = scaledPi{x: x, f: 1, vh: sc.VantHoff, nuRT: x.Nu() * thermo.GasConstant * e.tK}
+		e.feedFn = e.feedPi.fn
+		e.feedPiPa, _ = e.feedFn(e.feedC)
+		for _, w := range x.Warnings {
+			e.warnings = append(e.warnings, "feed: "+w)
+		}
+		b, est := feedB(&sc.Membrane, f.Solute, e.nacl)
+		e.feedB = b
+		if est {
+			e.warnings = append(e.warnings, fmt.Sprintf("feed: B for %s estimated from the NaCl value by diffusivity (%s)", f.Solute.ID, "B_j = B_NaCl·D_j/D_NaCl"))
+		}
+		rho := x.DensityKgPerM3(m)
+		for _, ion := range f.Ions {
+			c := ion.Conc
+			if f.IonsPerKg {
+				c *= rho / 1000 // per kg of solution → per litre
+			}
+			e.feedIons = append(e.feedIons, ionConc{ion.Symbol, ion.Charge, c})
+		}
+	} else {
+		for _, ion := range f.Ions {
+			e.feedIons = append(e.feedIons, ionConc{ion.Symbol, ion.Charge, ion.Conc})
+		}
+	}
+	// Basis target.
+	switch sc.Basis.Kind {
+	case BasisOsmoticPressure:
+		e.targetPi = sc.Basis.PiPa
+		if sc.Basis.MultipleOfFeed > 0 {
+			if !(e.feedPiPa > 0) {
+				return nil, inputErr("basis.multiple_of_feed", nil, "the feed has no osmotic pressure; give the target in bar instead")
+			}
+			e.targetPi = sc.Basis.MultipleOfFeed * e.feedPiPa
+		}
+		if e.targetPi <= e.feedPiPa {
+			return nil, inputErr("basis.value", fmt.Sprintf("> %.4g bar (the feed's osmotic pressure)", e.feedPiPa/thermo.PascalPerBar),
+				"the target osmotic pressure must exceed the feed's")
+		}
+	}
+	// Feed-side mass transfer (feed properties, or the draw's for a
+	// solute-free feed: computed per candidate then).
+	e.kFeed = sc.KFeedMPerS
+	if e.kFeed == 0 && e.feedX != nil {
+		e.kFeed, e.kFeedErr = channelK(sc.Channel, true, e.feedX.DensityKgPerM3(e.feedM), e.feedX.ViscosityPaS(e.feedM), e.feedD)
+		if e.kFeedErr != nil {
+			return nil, e.kFeedErr
+		}
+	}
+	// Candidates.
+	e.cands = make([]candidate, len(sc.Candidates))
+	for i, s := range sc.Candidates {
+		c := &e.cands[i]
+		c.sol = s
+		x, err := thermo.NewSolution(s, e.tK)
+		if err != nil {
+			c.excl = &exclusion{ReasonNotEvaluated, err.Error()}
+			continue
+		}
+		c.x = x
+		c.warnings = append(c.warnings, x.Warnings...)
+		c.pi = scaledPi{x: x, f: 1, vh: sc.VantHoff, nuRT: x.Nu() * thermo.GasConstant * e.tK}
+		c.piFn = c.pi.fn
+		c.osmRelSD = DefaultOsmoticRelSD
+		if s.Osmotic.Kind == library.ModelNone {
+			c.osmRelSD = DefaultVantHoffRelSD
+		}
+		c.bMPerS, c.bEstimated = drawB(&sc.Membrane, s, e.nacl)
+		if c.bEstimated {
+			c.warnings = append(c.warnings, fmt.Sprintf("%s: B estimated from the membrane's NaCl value by diffusivity (%.3g LMH): %s",
+				s.ID, c.bMPerS/thermo.MPerSPerLMH, "multivalent ions are usually rejected better than this predicts"))
+		}
+		if p := s.Price; p != nil {
+			c.hasPrice, c.priceMin, c.priceMax = true, p.USDPerKgMin, p.USDPerKgMax
+		} else {
+			c.warnings = append(c.warnings, s.ID+": no price on record; scored as the worst on replenishment cost")
+		}
+		for _, ion := range s.Ions {
+			c.ions = append(c.ions, ionCount{ion.Symbol, ion.Charge, float64(ion.Count)})
+		}
+		if h := hazardHit(s, sc.ExcludeHazards); h != "" {
+			c.excl = &exclusion{ReasonHazard, fmt.Sprintf("%s carries the hazard flag %q", s.ID, h)}
+			continue
+		}
+		if sc.Basis.Kind == BasisConcentration {
+			m, err := x.ToMolality(sc.Basis.Concentration, sc.Basis.Unit)
+			if err != nil {
+				c.excl = &exclusion{ReasonInsoluble, fmt.Sprintf("%s: %v", s.ID, err)}
+				continue
+			}
+			c.basisM = m
+		}
+	}
+	return e, nil
+}
+
+func hazardHit(s *library.Solute, excl []string) string {
+	for _, h := range excl {
+		for _, f := range s.HazardFlags {
+			if library.Key(f) == library.Key(h) {
+				return f
+			}
+		}
+	}
+	return ""
+}
+
+// drawB returns B (m/s) of the membrane for a draw solute.
+func drawB(m *Membrane, s *library.Solute, nacl *library.Solute) (float64, bool) {
+	if m.BDrawMPerS > 0 {
+		return m.BDrawMPerS, false
+	}
+	return feedB(m, s, nacl)
+}
+
+// feedB returns B (m/s) for solute s: measured, NaCl's own, or scaled
+// from NaCl by diffusivity (library.BEstimateRule).
+func feedB(m *Membrane, s *library.Solute, nacl *library.Solute) (float64, bool) {
+	if b, ok := m.BBySolute[s.ID]; ok {
+		return b, false
+	}
+	if library.Key(s.ID) == "nacl" || nacl == nil {
+		return m.BNaClMPerS, nacl == nil && library.Key(s.ID) != "nacl"
+	}
+	return m.BNaClMPerS * s.Diffusivity.D0M2PerS / nacl.Diffusivity.D0M2PerS, true
+}
+
+// basisMolality returns the draw molality that meets the basis, or an
+// exclusion.
+func (e *env) basisMolality(c *candidate, ori transport.Orientation, p *perturb, scratch *transport.Result) (float64, *exclusion) {
+	x := c.x
+	sol := x.SolubilityMolPerKg()
+	switch e.sc.Basis.Kind {
+	case BasisOsmoticPressure:
+		target := e.targetPi / p.fPi
+		if e.sc.VantHoff {
+			cc := target / c.pi.nuRT
+			m, ok := x.MolalityFromMolarity(cc)
+			if !ok || m > sol*(1+1e-9) {
+				return 0, &exclusion{ReasonInsoluble, fmt.Sprintf("%s would need %.4g mol/L (van 't Hoff) for %.4g bar, beyond its solubility",
+					c.sol.ID, cc/1000, e.targetPi/thermo.PascalPerBar)}
+			}
+			return m, nil
+		}
+		m, err := x.MolalityForPi(target)
+		if err == nil {
+			return m, nil
+		}
+		// Fallback: bisection on the monotone-extended π(m) up to the
+		// solubility (thermo.MolalityForPi can refuse a reachable target
+		// when the model's π turns over between its cap and the
+		// solubility).
+		top := sol
+		if math.IsInf(top, 1) {
+			top = x.CapMolPerKg()
+		}
+		if piTop := x.OsmoticPressurePa(top); piTop >= target {
+			lo, hi := 0.0, top
+			for i := 0; i < 200 && hi-lo > 1e-14*top; i++ {
+				mid := 0.5 * (lo + hi)
+				if x.OsmoticPressurePa(mid) < target {
+					lo = mid
+				} else {
+					hi = mid
+				}
+			}
+			return 0.5 * (lo + hi), nil
+		}
+		return 0, &exclusion{ReasonInsoluble, fmt.Sprintf("%s reaches only %.4g bar at its solubility; %.4g bar is needed",
+			c.sol.ID, x.OsmoticPressurePa(top)*p.fPi/thermo.PascalPerBar, e.targetPi/thermo.PascalPerBar)}
+	case BasisConcentration:
+		if c.basisM > sol*(1+1e-9) {
+			return 0, &exclusion{ReasonInsoluble, fmt.Sprintf("%s: %.4g mol/kg is beyond its solubility of %.4g mol/kg", c.sol.ID, c.basisM, sol)}
+		}
+		return c.basisM, nil
+	default:
+		return e.molalityForFlux(c, ori, p, scratch)
+	}
+}
+
+// molalityForFlux finds the draw molality whose water flux equals the
+// target: Jw rises monotonically with the draw concentration, so a
+// bracketed search on [0, m_top] (Illinois false position with bisection
+// safeguard) converges; m_top is the solubility, or the top of the
+// working range for a miscible solute.
+func (e *env) molalityForFlux(c *candidate, ori transport.Orientation, p *perturb, scratch *transport.Result) (float64, *exclusion) {
+	target := e.sc.Basis.JwMPerS
+	top := c.x.SolubilityMolPerKg()
+	if math.IsInf(top, 1) {
+		top = c.x.CapMolPerKg()
+	}
+	f := func(m float64) (float64, error) {
+		if err := e.solve(c, ori, m, p, scratch); err != nil {
+			return 0, err
+		}
+		return scratch.JwMPerS - target, nil
+	}
+	fhi, err := f(top)
+	if err != nil {
+		return 0, &exclusion{ReasonNotEvaluated, err.Error()}
+	}
+	if fhi < 0 {
+		return 0, &exclusion{ReasonUnreachable, fmt.Sprintf("%s gives at most %.4g LMH at its solubility; %.4g LMH is needed",
+			c.sol.ID, (fhi+target)/thermo.MPerSPerLMH, target/thermo.MPerSPerLMH)}
+	}
+	lo, hi := 0.0, top
+	flo, err := f(lo)
+	if err != nil {
+		return 0, &exclusion{ReasonNotEvaluated, err.Error()}
+	}
+	side := 0
+	for it := 0; it < 100; it++ {
+		m := hi - fhi*(hi-lo)/(fhi-flo)
+		if !(m > lo && m < hi) || it%8 == 7 {
+			m = 0.5 * (lo + hi)
+		}
+		fm, err := f(m)
+		if err != nil {
+			return 0, &exclusion{ReasonNotEvaluated, err.Error()}
+		}
+		if math.Abs(fm) <= 1e-10*target || hi-lo <= 1e-13*top {
+			return m, nil
+		}
+		if fm > 0 {
+			hi, fhi = m, fm
+			if side == 1 {
+				flo *= 0.5
+			}
+			side = 1
+		} else {
+			lo, flo = m, fm
+			if side == -1 {
+				fhi *= 0.5
+			}
+			side = -1
+		}
+	}
+	return 0.5 * (lo + hi), nil
+}
+
+// solve runs the flux model for candidate c at draw molality m.
+func (e *env) solve(c *candidate, ori transport.Orientation, m float64, p *perturb, out *transport.Result) error {
+	sc := e.sc
+	x := c.x
+	cD := x.MolarityMolPerM3(m)
+	d := x.DiffusivityM2PerS(m) * p.fD
+	kD := sc.KDrawMPerS
+	if kD == 0 {
+		var err error
+		kD, err = channelK(sc.Channel, false, x.DensityKgPerM3(m), x.ViscosityPaS(m), d)
+		if err != nil {
+			return err
+		}
+	}
+	kF := e.kFeed
+	if kF == 0 { // solute-free feed: the reverse-fluxed draw solute sets k
+		var err error
+		kF, err = channelK(sc.Channel, true, x.DensityKgPerM3(0), x.ViscosityPaS(0), x.DiffusivityM2PerS(0)*p.fD)
+		if err != nil {
+			return err
+		}
+	}
+	c.pi.f = p.fPi
+	in := transport.Input{
+		AMPerSPa: sc.Membrane.AMPerSPa * p.fA, SM: sc.Membrane.SM * p.fS, Orientation: ori,
+		KDrawMPerS: kD, KFeedMPerS: kF,
+	}
+	var sp [2]transport.Species
+	sp[0] = transport.Species{Name: c.sol.ID, DrawBulkMolPerM3: cD, BMPerS: c.bMPerS * p.fB, DM2PerS: d, Pi: c.piFn}
+	n := 1
+	if e.feedSol != nil {
+		if e.feedSol == c.sol {
+			sp[0].FeedBulkMolPerM3 = e.feedC
+		} else {
+			sp[1] = transport.Species{Name: e.feedSol.ID, FeedBulkMolPerM3: e.feedC, BMPerS: e.feedB * p.fB, DM2PerS: e.feedD, Pi: e.feedFn}
+			n = 2
+		}
+	}
+	in.Species = sp[:n]
+	return transport.SolveInto(&in, out)
+}
+
+// evaluate computes candidate c's metrics in orientation ori under
+// perturbation p, or the exclusion that stops it.
+func (e *env) evaluate(c *candidate, ori transport.Orientation, p *perturb, out *Metrics, scratch *transport.Result) *exclusion {
+	if c.excl != nil {
+		return c.excl
+	}
+	m, ex := e.basisMolality(c, ori, p, scratch)
+	if ex != nil {
+		return ex
+	}
+	return e.metricsAt(c, ori, m, p, out, scratch)
+}
+
+// metricsAt computes every metric at draw molality m.
+func (e *env) metricsAt(c *candidate, ori transport.Orientation, m float64, p *perturb, out *Metrics, scratch *transport.Result) *exclusion {
+	x := c.x
+	sc := e.sc
+	sol := x.SolubilityMolPerKg()
+	if m > sol*(1+1e-9) {
+		return &exclusion{ReasonInsoluble, fmt.Sprintf("%s: %.4g mol/kg is beyond its solubility of %.4g mol/kg", c.sol.ID, m, sol)}
+	}
+	if !sc.AllowExtrapolation && m > x.ValidMolPerKg()*(1+1e-9) {
+		return &exclusion{ReasonValidity, fmt.Sprintf("%s: %.4g mol/kg is above the %s model's data limit of %.4g mol/kg (set allow_extrapolation to keep it, flagged)",
+			c.sol.ID, m, c.sol.Osmotic.Kind, x.ValidMolPerKg())}
+	}
+	if err := e.solve(c, ori, m, p, scratch); err != nil {
+		return &exclusion{ReasonNotEvaluated, err.Error()}
+	}
+	r := scratch
+	*out = Metrics{Orientation: ori, MolalityMolPerKg: m, SolubilityMolPerKg: sol, FeedPiPa: e.feedPiPa}
+	out.MolarityMolPerM3 = x.MolarityMolPerM3(m)
+	out.MassConcKgPerM3 = out.MolarityMolPerM3 * x.MolarMassKgPerMol()
+	out.SolubilityMargin = 1
+	if !math.IsInf(sol, 1) {
+		out.SolubilityMargin = 1 - m/sol
+	}
+	out.PiPa, _ = c.piFn(out.MolarityMolPerM3)
+	out.VantHoffPa = x.VantHoffPa(out.MolarityMolPerM3)
+	out.JwMPerS = r.JwMPerS
+	out.JsMolPerM2S = r.JsMolPerM2S
+	if !(r.JwMPerS > 0) {
+		return &exclusion{ReasonNoFlux, fmt.Sprintf("%s: water flux %.4g LMH at %.4g mol/L (the feed's osmotic pressure is not overcome)",
+			c.sol.ID, r.JwMPerS/thermo.MPerSPerLMH, out.MolarityMolPerM3/1000)}
+	}
+	out.SRSFMolPerM3 = r.JsMolPerM2S / r.JwMPerS
+	out.SRSFKgPerM3 = out.SRSFMolPerM3 * x.MolarMassKgPerMol()
+	if drive := r.PiDrawBulkPa - r.PiFeedBulkPa; drive > 0 {
+		out.FluxEfficiency = r.JwMPerS / (sc.Membrane.AMPerSPa * p.fA * drive)
+	}
+	if c.hasPrice {
+		lo, hi := c.priceMin, c.priceMax
+		if p.price >= 0 {
+			lo, hi = p.price, p.price
+		}
+		// SRSF in kg/m³ times USD/kg is USD per m³ of product water.
+		out.HasCost = true
+		out.CostMinUSDPerM3 = math.Max(0, out.SRSFKgPerM3) * lo
+		out.CostMaxUSDPerM3 = math.Max(0, out.SRSFKgPerM3) * hi
+	}
+	out.ViscosityPaS = x.ViscosityPaS(m)
+	out.RegenJPerM3 = p.fPi * e.regenEnergy(c, m)
+	out.FeedFaceDrawMolPerM3 = r.Species[0].FeedFaceMolPerM3
+	e.scaling(c, ori, r, &out.Scaling)
+	return nil
+}
+
+// regenEnergy is the minimum work per m³ of product to bring the draw,
+// diluted so that a fraction r of its water is the product, back to
+// molality m.
+func (e *env) regenEnergy(c *candidate, m float64) float64 {
+	r := e.sc.RegenerationRecovery
+	mDil := m * (1 - r)
+	if e.sc.VantHoff {
+		x := c.x
+		return MinimumSeparationEnergy(func(mm float64) float64 { return x.VantHoffPa(x.MolarityMolPerM3(mm)) }, mDil, r)
+	}
+	return MinimumSeparationEnergy(c.x.OsmoticPressurePa, mDil, r)
+}

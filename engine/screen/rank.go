@@ -1,0 +1,111 @@
+package screen
+
+import "math"
+
+// Normalise maps each objective's column to [0, 1], 1 the best:
+//
+//	maximised: (v − min)/(max − min)     minimised: (max − v)/(max − min)
+//
+// over the rows whose value is known; a column whose known values are all
+// equal gets 1 for every known row; an unknown value gets 0 (the worst).
+// Min–max normalisation makes the scores independent of the units the
+// values are expressed in (any positive scale and offset).
+func Normalise(vals [][NumObjectives]float64, known [][NumObjectives]bool, out [][NumObjectives]float64) {
+	for o := Objective(0); o < NumObjectives; o++ {
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for i := range vals {
+			if known[i][o] {
+				lo = math.Min(lo, vals[i][o])
+				hi = math.Max(hi, vals[i][o])
+			}
+		}
+		for i := range vals {
+			switch {
+			case !known[i][o]:
+				out[i][o] = 0
+			case !(hi > lo):
+				out[i][o] = 1
+			case o.Maximise():
+				out[i][o] = (vals[i][o] - lo) / (hi - lo)
+			default:
+				out[i][o] = (hi - vals[i][o]) / (hi - lo)
+			}
+		}
+	}
+}
+
+// Score returns Σ_o w_o·n_o / Σ w, writing each term into contrib: the
+// weighted score in [0, 1] with the contribution of each objective
+// visible. w must have a positive sum.
+func Score(norm *[NumObjectives]float64, w *Weights, contrib *[NumObjectives]float64) float64 {
+	sum := 0.0
+	for _, v := range w {
+		sum += v
+	}
+	s := 0.0
+	for o := range norm {
+		c := w[o] * norm[o] / sum
+		contrib[o] = c
+		s += c
+	}
+	return s
+}
+
+// ParetoFront reports, for each row of vals, whether it is non-dominated
+// on the given objectives. Row a dominates row b when a is at least as
+// good on every objective and strictly better on one (better = larger for
+// a maximised objective, smaller for a minimised one). An unknown value
+// counts as the worst possible.
+func ParetoFront(vals [][NumObjectives]float64, known [][NumObjectives]bool, objs []Objective) []bool {
+	n := len(vals)
+	front := make([]bool, n)
+	oriented := func(i int, o Objective) float64 {
+		if !known[i][o] {
+			return math.Inf(-1)
+		}
+		if o.Maximise() {
+			return vals[i][o]
+		}
+		return -vals[i][o]
+	}
+	for b := 0; b < n; b++ {
+		front[b] = true
+		for a := 0; a < n && front[b]; a++ {
+			if a == b {
+				continue
+			}
+			geAll, gtOne := true, false
+			for _, o := range objs {
+				va, vb := oriented(a, o), oriented(b, o)
+				if va < vb {
+					geAll = false
+					break
+				}
+				if va > vb {
+					gtOne = true
+				}
+			}
+			if geAll && gtOne {
+				front[b] = false
+			}
+		}
+	}
+	return front
+}
+
+// order sorts idx by score descending, ties by name ascending (insertion
+// sort: n is small and this allocates nothing).
+func order(idx []int, scores []float64, names []string) {
+	for i := 1; i < len(idx); i++ {
+		for j := i; j > 0 && better(idx[j], idx[j-1], scores, names); j-- {
+			idx[j], idx[j-1] = idx[j-1], idx[j]
+		}
+	}
+}
+
+func better(a, b int, scores []float64, names []string) bool {
+	if scores[a] != scores[b] {
+		return scores[a] > scores[b]
+	}
+	return names[a] < names[b]
+}

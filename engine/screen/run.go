@@ -1,0 +1,200 @@
+package screen
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+
+	"drawsift/engine/library"
+	"drawsift/engine/thermo"
+	"drawsift/engine/transport"
+)
+
+// Ranked is one candidate that passed every hard limit.
+type Ranked struct {
+	Solute *library.Solute
+	Rank   int // 1 = best
+	Score  float64
+	// Contributions: weight·normalised value/Σweights per objective; they
+	// sum to Score.
+	Contributions [NumObjectives]float64
+	Normalised    [NumObjectives]float64
+	Values        [NumObjectives]float64
+	Known         [NumObjectives]bool
+	Pareto        bool
+	Metrics       Metrics // in the ranking orientation
+	// Other holds the other requested orientations, at the same draw
+	// concentration.
+	Other      []OtherOrientation
+	BMPerS     float64
+	BEstimated bool
+	HasPrice   bool
+	PriceMin   float64
+	PriceMax   float64
+	Robustness *Robustness
+	Warnings   []string
+
+	ci int // index of the candidate in the prepared env
+}
+
+// OtherOrientation is a candidate's result in a non-ranking orientation.
+type OtherOrientation struct {
+	Orientation transport.Orientation
+	Metrics     *Metrics // nil when Reason is set
+	Reason      string
+}
+
+// Excluded is a candidate listed apart with its reason.
+type Excluded struct {
+	Solute *library.Solute
+	Reason string // one of the Reason… constants
+	Detail string
+}
+
+// Result is a complete screen.
+type Result struct {
+	Ranked   []Ranked
+	Excluded []Excluded
+	Warnings []string
+	FeedPiPa float64
+	// TargetPiPa is the basis osmotic pressure (osmotic-pressure basis).
+	TargetPiPa float64
+	// Samples is the number of Monte Carlo samples run (0 without a
+	// robustness run).
+	Samples int
+}
+
+// ErrNoCandidate means no candidate could be ranked: every one failed a
+// hard limit. The Result still lists them in Excluded.
+var ErrNoCandidate = errors.New("no candidate passes the hard limits")
+
+// Run screens the scenario: each candidate is brought to the basis,
+// evaluated, normalised, scored and ranked; failures are listed apart;
+// with sc.Uncertainty the Monte Carlo robustness run follows, calling
+// progress(done, total) as it goes and stopping when ctx is cancelled.
+//
+// Errors: *InputError for a scenario that cannot run (field named);
+// an *InputError on "basis.value" when no candidate can reach the basis
+// target (the Result is returned too, with every exclusion); ctx.Err()
+// when cancelled.
+func Run(ctx context.Context, sc *Scenario, lib *library.Library, progress func(done, total int)) (*Result, error) {
+	e, err := prepare(sc, lib)
+	if err != nil {
+		return nil, err
+	}
+	res := &Result{FeedPiPa: e.feedPiPa, TargetPiPa: e.targetPi}
+	res.Warnings = append(res.Warnings, e.warnings...)
+	res.Warnings = append(res.Warnings, scalingWarnings(e.tK)...)
+	ori := sc.Orientations[0]
+	var scratch transport.Result
+	for i := range e.cands {
+		c := &e.cands[i]
+		var m Metrics
+		if ex := e.evaluate(c, ori, &nominal, &m, &scratch); ex != nil {
+			res.Excluded = append(res.Excluded, Excluded{Solute: c.sol, Reason: ex.reason, Detail: ex.detail})
+			continue
+		}
+		r := Ranked{ci: i, Solute: c.sol, Metrics: m, BMPerS: c.bMPerS, BEstimated: c.bEstimated,
+			HasPrice: c.hasPrice, PriceMin: c.priceMin, PriceMax: c.priceMax}
+		r.Warnings = append(r.Warnings, c.warnings...)
+		r.Warnings = append(r.Warnings, metricWarnings(c, &m)...)
+		for _, o := range sc.Orientations[1:] {
+			oo := OtherOrientation{Orientation: o}
+			var mo Metrics
+			if ex := e.metricsAt(c, o, m.MolalityMolPerKg, &nominal, &mo, &scratch); ex != nil {
+				oo.Reason = ex.Error()
+			} else {
+				oo.Metrics = &mo
+			}
+			r.Other = append(r.Other, oo)
+		}
+		for o := Objective(0); o < NumObjectives; o++ {
+			r.Values[o], r.Known[o] = m.Objective(o)
+		}
+		res.Ranked = append(res.Ranked, r)
+	}
+	if len(res.Ranked) == 0 {
+		field := "candidates"
+		switch sc.Basis.Kind {
+		case BasisOsmoticPressure, BasisWaterFlux, BasisConcentration:
+			field = "basis.value"
+		}
+		return res, &InputError{Field: field, Msg: fmt.Sprintf("%v: no candidate can be evaluated at this basis (see excluded)", ErrNoCandidate)}
+	}
+	rankRows(res.Ranked, &sc.Weights, sc.Pareto)
+	if u := sc.Uncertainty; u != nil && u.Samples > 0 {
+		if err := e.robustness(ctx, res, progress); err != nil {
+			return nil, err
+		}
+	}
+	return res, nil
+}
+
+// rankRows normalises, scores, orders and marks the Pareto front.
+func rankRows(rows []Ranked, w *Weights, pareto []Objective) {
+	n := len(rows)
+	vals := make([][NumObjectives]float64, n)
+	known := make([][NumObjectives]bool, n)
+	norm := make([][NumObjectives]float64, n)
+	for i := range rows {
+		vals[i], known[i] = rows[i].Values, rows[i].Known
+	}
+	Normalise(vals, known, norm)
+	front := ParetoFront(vals, known, pareto)
+	scores := make([]float64, n)
+	names := make([]string, n)
+	for i := range rows {
+		rows[i].Normalised = norm[i]
+		rows[i].Score = Score(&norm[i], w, &rows[i].Contributions)
+		rows[i].Pareto = front[i]
+		scores[i], names[i] = rows[i].Score, rows[i].Solute.ID
+	}
+	idx := make([]int, n)
+	for i := range idx {
+		idx[i] = i
+	}
+	order(idx, scores, names)
+	sorted := make([]Ranked, n)
+	for k, i := range idx {
+		sorted[k] = rows[i]
+		sorted[k].Rank = k + 1
+	}
+	copy(rows, sorted)
+}
+
+// metricWarnings flags a candidate's results worth a second look.
+func metricWarnings(c *candidate, m *Metrics) []string {
+	var w []string
+	x := c.x
+	if m.MolalityMolPerKg > x.ValidMolPerKg()*(1+1e-9) {
+		w = append(w, fmt.Sprintf("%s: %.4g mol/kg is above the osmotic model's data limit of %.4g mol/kg (extrapolated)",
+			c.sol.ID, m.MolalityMolPerKg, x.ValidMolPerKg()))
+	}
+	if mf, ok := x.MolalityFromMolarity(m.FeedFaceDrawMolPerM3); !ok || mf > x.SolubilityMolPerKg() {
+		w = append(w, fmt.Sprintf("%s exceeds its solubility at the feed-side face of the active layer", c.sol.ID))
+	}
+	if m.Scaling.Any && m.Scaling.Max > 0 {
+		for k := Mineral(0); k < NumMinerals; k++ {
+			if m.Scaling.Has[k] && m.Scaling.SI[k] > 0 {
+				w = append(w, fmt.Sprintf("%s: %s supersaturated at the feed-side membrane surface (SI %.2f)", c.sol.ID, k.Name(), m.Scaling.SI[k]))
+			}
+		}
+	}
+	if m.Scaling.IonicStrengthMolPerL > 0.5 {
+		w = append(w, fmt.Sprintf("%s: ionic strength %.2g mol/L at the feed-side surface is beyond the Davies equation's range; saturation indices are indicative", c.sol.ID, m.Scaling.IonicStrengthMolPerL))
+	}
+	if m.SolubilityMargin < 0.1 && !math.IsInf(m.SolubilityMolPerKg, 1) {
+		w = append(w, fmt.Sprintf("%s: within 10 %% of its solubility", c.sol.ID))
+	}
+	if len(c.sol.HazardFlags) > 0 {
+		w = append(w, fmt.Sprintf("%s: handle per its safety data sheet (flags: %v)", c.sol.ID, c.sol.HazardFlags))
+	}
+	return w
+}
+
+// KWhPerM3 converts J/m³ to kWh/m³.
+func KWhPerM3(j float64) float64 { return j / JPerKWh }
+
+// LMH converts m/s to L m⁻² h⁻¹.
+func LMH(v float64) float64 { return v / thermo.MPerSPerLMH }

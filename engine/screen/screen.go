@@ -1,0 +1,310 @@
+// Package screen ranks candidate draw solutes for a forward-osmosis
+// scenario: it brings each candidate to the scenario's basis of comparison
+// (equal bulk osmotic pressure, equal concentration or equal water flux),
+// computes every metric behind a defensible choice (concentration and its
+// margin to solubility, real and van 't Hoff osmotic pressure, water and
+// reverse solute flux with ICP and ECP from package transport, specific
+// reverse solute flux and replenishment cost, viscosity, the minimum
+// energy to re-concentrate the diluted draw, hazard flags and a scaling
+// check), then normalises the metrics, scores them with the user's
+// weights, marks the Pareto front, lists the candidates that fail a hard
+// limit apart with their reason, and measures how robust the ranking is
+// with a Monte Carlo run over the stated uncertainties.
+//
+// Everything inside is SI (Pa, m/s, mol/m³, kg/m³, J/m³); names carry the
+// unit. The package knows no JSON: engine/api maps the contract to
+// Scenario and back.
+package screen
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"drawsift/engine/library"
+	"drawsift/engine/thermo"
+	"drawsift/engine/transport"
+)
+
+// Objective is one metric that can be weighted in the score or used as an
+// axis of the Pareto front.
+type Objective int
+
+// Objectives. The key is the name used in requests ("weights",
+// "pareto_objectives").
+const (
+	ObjWaterFlux         Objective = iota // water flux, maximised
+	ObjSRSF                               // specific reverse solute flux (g/L), minimised
+	ObjReplenishment                      // replenishment cost (USD/m³, mid price), minimised
+	ObjRegeneration                       // minimum re-concentration energy (kWh/m³), minimised
+	ObjViscosity                          // draw viscosity (mPa·s), minimised
+	ObjSolubilityMargin                   // 1 − m/m_sat, maximised
+	ObjScaling                            // max(0, highest saturation index), minimised
+	ObjFluxEfficiency                     // Jw / (A·Δπ_bulk), maximised
+	ObjMassConcentration                  // draw mass concentration (g/L), minimised
+	NumObjectives
+)
+
+type objectiveInfo struct {
+	Key      string
+	Unit     string
+	Maximise bool
+}
+
+var objectives = [NumObjectives]objectiveInfo{
+	ObjWaterFlux:         {"water_flux", "LMH", true},
+	ObjSRSF:              {"specific_reverse_solute_flux", "g/L", false},
+	ObjReplenishment:     {"replenishment_cost", "USD/m3", false},
+	ObjRegeneration:      {"regeneration_energy", "kWh/m3", false},
+	ObjViscosity:         {"viscosity", "mPa s", false},
+	ObjSolubilityMargin:  {"solubility_margin", "fraction", true},
+	ObjScaling:           {"scaling", "saturation index", false},
+	ObjFluxEfficiency:    {"flux_efficiency", "fraction", true},
+	ObjMassConcentration: {"mass_concentration", "g/L", false},
+}
+
+// Key returns the objective's request name.
+func (o Objective) Key() string { return objectives[o].Key }
+
+// Unit returns the unit of the objective's value as reported.
+func (o Objective) Unit() string { return objectives[o].Unit }
+
+// Maximise reports whether larger is better.
+func (o Objective) Maximise() bool { return objectives[o].Maximise }
+
+// ParseObjective finds an objective by its key.
+func ParseObjective(key string) (Objective, bool) {
+	k := strings.ToLower(strings.TrimSpace(key))
+	for i, o := range objectives {
+		if o.Key == k {
+			return Objective(i), true
+		}
+	}
+	return 0, false
+}
+
+// ObjectiveKeys lists the objective keys in order.
+func ObjectiveKeys() []string {
+	out := make([]string, NumObjectives)
+	for i, o := range objectives {
+		out[i] = o.Key
+	}
+	return out
+}
+
+// Weights holds one non-negative weight per objective.
+type Weights [NumObjectives]float64
+
+// DefaultWeights: water flux 0.25, specific reverse solute flux 0.20,
+// replenishment cost 0.15, regeneration energy 0.10, viscosity 0.10,
+// solubility margin 0.10, scaling 0.10; flux efficiency and mass
+// concentration 0 (they are reported, and flux efficiency is already
+// inside the water flux). Our own choice, in the spirit of the criteria
+// of Achilli, Cath & Childress (2010) J. Membr. Sci. 364:233 (flux, reverse
+// salt flux, replenishment cost, re-concentration).
+var DefaultWeights = Weights{
+	ObjWaterFlux: 0.25, ObjSRSF: 0.20, ObjReplenishment: 0.15, ObjRegeneration: 0.10,
+	ObjViscosity: 0.10, ObjSolubilityMargin: 0.10, ObjScaling: 0.10,
+}
+
+// DefaultPareto are the default Pareto objectives.
+var DefaultPareto = []Objective{ObjWaterFlux, ObjSRSF, ObjReplenishment}
+
+// BasisKind is the basis of comparison.
+type BasisKind int
+
+// Bases of comparison.
+const (
+	BasisOsmoticPressure BasisKind = iota // equal bulk osmotic pressure
+	BasisConcentration                    // equal concentration in a unit (mol/L, g/L, …)
+	BasisWaterFlux                        // equal water flux
+)
+
+// Basis is the basis of comparison and its target.
+type Basis struct {
+	Kind BasisKind
+	// PiPa is the target bulk osmotic pressure, used when MultipleOfFeed
+	// is zero.
+	PiPa float64
+	// MultipleOfFeed sets the target to this multiple of the feed's π.
+	MultipleOfFeed float64
+	// Concentration and Unit: equal concentration.
+	Concentration float64
+	Unit          thermo.Unit
+	// JwMPerS: equal water flux (in the ranking orientation).
+	JwMPerS float64
+}
+
+// FeedIon is one feed ion at bulk: mol per litre of feed (PerKg false) or
+// per kg of feed (PerKg true).
+type FeedIon struct {
+	Symbol string
+	Charge int
+	Conc   float64
+}
+
+// Feed is the resolved feed water.
+type Feed struct {
+	ID string // preset ID, or "custom"
+	// Solute carries the feed's osmotic pressure; nil for pure water.
+	Solute        *library.Solute
+	Concentration float64
+	Unit          thermo.Unit
+	// OsmoticMethod describes how π was set (for the reproducibility record).
+	OsmoticMethod string
+	Ions          []FeedIon
+	IonsPerKg     bool
+	PH            float64
+}
+
+// Membrane holds the membrane in SI.
+type Membrane struct {
+	ID         string // preset ID or "custom"
+	AMPerSPa   float64
+	SM         float64
+	BNaClMPerS float64
+	// BDrawMPerS, when positive, is used as B for every candidate.
+	BDrawMPerS float64
+	BBySolute  map[string]float64 // measured B (m/s) by solute ID
+	// Relative standard deviations for the robustness run.
+	ARelSD, BRelSD, SRelSD float64
+}
+
+// Channel is a crossflow channel for the Sherwood correlations of
+// package transport.
+type Channel struct {
+	HeightM, WidthM, LengthM float64
+	VelocityMPerS            float64
+	FeedVelocityMPerS        float64 // 0 → VelocityMPerS
+	Spacer                   bool
+}
+
+// Uncertainty describes the Monte Carlo robustness run.
+type Uncertainty struct {
+	Samples int
+	// Relative standard deviations (log-normal factors with median 1).
+	ARelSD, BRelSD, SRelSD float64
+	OsmoticRelSD           float64 // of each candidate's π model
+	// DefaultOsmotic replaces OsmoticRelSD by each candidate's default
+	// (DefaultOsmoticRelSD, or DefaultVantHoffRelSD for a record without
+	// a non-ideal model).
+	DefaultOsmotic   bool
+	DiffusivityRelSD float64 // of each candidate's D
+	// Prices: draw each price uniformly within its range.
+	Prices bool
+}
+
+// DefaultOsmoticRelSD and DefaultDiffusivityRelSD apply when a scenario
+// asks for robustness without naming them: 2 % on π for a fitted model
+// within its data (the Pitzer fits reproduce osmotic data to about 1 %,
+// science brief §2.1, computed) and 10 % for a van 't Hoff-only record;
+// 5 % on D (common practice, from memory).
+const (
+	DefaultOsmoticRelSD     = 0.02
+	DefaultVantHoffRelSD    = 0.10
+	DefaultDiffusivityRelSD = 0.05
+)
+
+// Scenario is everything a screen needs, resolved and in SI.
+type Scenario struct {
+	Feed         Feed
+	Membrane     Membrane
+	Orientations []transport.Orientation // [0] is ranked; the rest reported
+	TemperatureK float64
+	// KDrawMPerS, KFeedMPerS: given mass-transfer coefficients; 0 means
+	// from Channel; +Inf means no external CP on that side.
+	KDrawMPerS, KFeedMPerS float64
+	Channel                Channel
+	Candidates             []*library.Solute
+	Basis                  Basis
+	VantHoff               bool // osmotic model "van-t-hoff" instead of "real"
+	Weights                Weights
+	Pareto                 []Objective
+	ExcludeHazards         []string
+	// AllowExtrapolation keeps candidates needed above their osmotic
+	// model's data limit (flagged); otherwise they are excluded.
+	AllowExtrapolation bool
+	// RegenerationRecovery is the fraction of the diluted draw's water
+	// recovered as product when it is re-concentrated (default 0.5).
+	RegenerationRecovery float64
+	Uncertainty          *Uncertainty
+	Seed                 uint64
+}
+
+// InputError reports a scenario the screen cannot run. Field uses the
+// contract's names.
+type InputError struct {
+	Field string
+	Limit any
+	Msg   string
+}
+
+func (e *InputError) Error() string { return e.Field + ": " + e.Msg }
+
+func inputErr(field string, limit any, format string, a ...any) *InputError {
+	return &InputError{Field: field, Limit: limit, Msg: fmt.Sprintf(format, a...)}
+}
+
+// validate checks the resolved scenario.
+func (sc *Scenario) validate() error {
+	if len(sc.Candidates) == 0 {
+		return inputErr("candidates", "at least one solute", "the candidate list is empty")
+	}
+	if len(sc.Orientations) == 0 {
+		return inputErr("orientation", []string{"AL-FS", "AL-DS"}, "no orientation")
+	}
+	if !(sc.TemperatureK >= thermo.ZeroCelsiusK+thermo.MinTemperatureC && sc.TemperatureK <= thermo.ZeroCelsiusK+thermo.MaxTemperatureC) {
+		return inputErr("temperature_c", "0–100 °C", "temperature outside 0–100 °C")
+	}
+	m := sc.Membrane
+	if !(m.AMPerSPa > 0) || !(m.SM > 0) || !(m.BNaClMPerS >= 0) || math.IsInf(m.AMPerSPa+m.SM+m.BNaClMPerS, 0) {
+		return inputErr("membrane", nil, "A and S must be positive and B non-negative")
+	}
+	sum := 0.0
+	for i, w := range sc.Weights {
+		if !(w >= 0) || math.IsInf(w, 0) {
+			return inputErr("weights."+Objective(i).Key(), "≥ 0", "weights must be finite and non-negative (got %g)", w)
+		}
+		sum += w
+	}
+	if !(sum > 0) {
+		return inputErr("weights", "at least one weight > 0", "all weights are zero")
+	}
+	if r := sc.RegenerationRecovery; !(r > 0 && r <= 0.95) {
+		return inputErr("regeneration_recovery", "0 < r ≤ 0.95", "regeneration recovery must lie in (0, 0.95] (got %g)", r)
+	}
+	b := sc.Basis
+	switch b.Kind {
+	case BasisOsmoticPressure:
+		if b.MultipleOfFeed == 0 && !(b.PiPa > 0 && b.PiPa < 1e9) {
+			return inputErr("basis.value", "> 0 bar", "the target osmotic pressure must be positive")
+		}
+		if b.MultipleOfFeed != 0 && !(b.MultipleOfFeed > 0 && b.MultipleOfFeed < 1e3) {
+			return inputErr("basis.multiple_of_feed", "> 0", "the multiple of the feed's osmotic pressure must be positive")
+		}
+	case BasisConcentration:
+		if !(b.Concentration > 0) || math.IsInf(b.Concentration, 0) {
+			return inputErr("basis.value", "> 0", "the basis concentration must be positive")
+		}
+	case BasisWaterFlux:
+		if !(b.JwMPerS > 0 && b.JwMPerS < 1e-3) {
+			return inputErr("basis.value", "> 0 LMH", "the target water flux must be positive")
+		}
+	default:
+		return inputErr("basis.kind", []string{"osmotic-pressure", "concentration", "water-flux"}, "unknown basis")
+	}
+	if u := sc.Uncertainty; u != nil {
+		if u.Samples < 0 || u.Samples > 100000 {
+			return inputErr("uncertainty.samples", "0–100000", "samples must lie within 0–100000")
+		}
+		for _, f := range []struct {
+			name string
+			v    float64
+		}{{"a_rel_sd", u.ARelSD}, {"b_rel_sd", u.BRelSD}, {"s_rel_sd", u.SRelSD}, {"osmotic_rel_sd", u.OsmoticRelSD}, {"diffusivity_rel_sd", u.DiffusivityRelSD}} {
+			if !(f.v >= 0 && f.v <= 2) {
+				return inputErr("uncertainty."+f.name, "0–2", "relative standard deviation must lie within 0–2")
+			}
+		}
+	}
+	return nil
+}

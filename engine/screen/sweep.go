@@ -1,0 +1,154 @@
+package screen
+
+import (
+	"context"
+	"math"
+
+	"drawsift/engine/library"
+	"drawsift/engine/thermo"
+	"drawsift/engine/transport"
+)
+
+// SweepVariable is the quantity a sweep varies.
+type SweepVariable int
+
+// Sweep variables.
+const (
+	SweepConcentration SweepVariable = iota // draw concentration (in Unit); the basis is set aside
+	SweepTemperature                        // K; the basis is re-applied at each point
+	SweepS                                  // structural parameter S, m; basis re-applied
+	SweepCrossflow                          // crossflow velocity on both sides, m/s; basis re-applied
+)
+
+// SweepSpec describes a sweep: Points values evenly spaced from From to
+// To (inclusive), in SI except a concentration, which is in Unit.
+type SweepSpec struct {
+	Variable SweepVariable
+	From, To float64
+	Points   int
+	Unit     thermo.Unit
+}
+
+// SweepPoint is one point of a series: the metrics, or why there are none.
+type SweepPoint struct {
+	X       float64
+	Metrics *Metrics
+	Reason  string
+}
+
+// SweepSeries is one candidate in one orientation across the sweep.
+type SweepSeries struct {
+	Solute      *library.Solute
+	Orientation transport.Orientation
+	Points      []SweepPoint
+}
+
+// MaxSweepPoints bounds a sweep's length.
+const MaxSweepPoints = 1000
+
+// Sweep evaluates every candidate in every requested orientation across
+// the values of one variable, for plots. A point that fails a hard limit
+// carries its reason instead of metrics; the rest of the sweep goes on.
+func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSpec) ([]SweepSeries, error) {
+	if spec.Points < 2 || spec.Points > MaxSweepPoints {
+		return nil, inputErr("sweep.points", "2–1000", "a sweep needs 2–1000 points")
+	}
+	if !(spec.From >= 0 && spec.To > spec.From) || math.IsInf(spec.To, 0) {
+		return nil, inputErr("sweep.to", "> from ≥ 0", "the sweep range must be finite and increasing")
+	}
+	local := *sc // the sweep varies its own copy
+	xs := make([]float64, spec.Points)
+	for i := range xs {
+		xs[i] = spec.From + (spec.To-spec.From)*float64(i)/float64(spec.Points-1)
+	}
+	switch spec.Variable {
+	case SweepTemperature:
+		lo, hi := thermo.ZeroCelsiusK+thermo.MinTemperatureC, thermo.ZeroCelsiusK+thermo.MaxTemperatureC
+		if spec.From < lo || spec.To > hi {
+			return nil, inputErr("sweep.to", "0–100 °C", "the temperature sweep must stay within 0–100 °C")
+		}
+	case SweepS:
+		if !(spec.From > 0) {
+			return nil, inputErr("sweep.from", "> 0 µm", "S must be positive")
+		}
+	case SweepCrossflow:
+		if !(spec.From > 0) {
+			return nil, inputErr("sweep.from", "> 0 m/s", "the crossflow velocity must be positive")
+		}
+		if local.KDrawMPerS != 0 || local.KFeedMPerS != 0 {
+			return nil, inputErr("sweep.variable", nil, "a crossflow sweep needs k from the channel: omit k_draw_m_per_s and k_feed_m_per_s")
+		}
+	}
+	series := make([]SweepSeries, 0, len(sc.Candidates)*len(sc.Orientations))
+	for _, s := range sc.Candidates {
+		for _, o := range sc.Orientations {
+			series = append(series, SweepSeries{Solute: s, Orientation: o, Points: make([]SweepPoint, spec.Points)})
+		}
+	}
+	var scratch transport.Result
+	var e *env
+	var err error
+	if spec.Variable == SweepConcentration || spec.Variable == SweepS || spec.Variable == SweepCrossflow {
+		if spec.Variable == SweepS {
+			local.Membrane.SM = xs[0]
+		}
+		if spec.Variable == SweepCrossflow {
+			local.Channel.VelocityMPerS, local.Channel.FeedVelocityMPerS = xs[0], 0
+		}
+		if e, err = prepare(&local, lib); err != nil {
+			return nil, err
+		}
+	}
+	for i, x := range xs {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		switch spec.Variable {
+		case SweepTemperature:
+			local.TemperatureK = x
+			if e, err = prepare(&local, lib); err != nil {
+				return nil, err
+			}
+		case SweepS:
+			local.Membrane.SM = x
+		case SweepCrossflow:
+			local.Channel.VelocityMPerS = x
+			if e.feedX != nil {
+				if e.kFeed, err = channelK(local.Channel, true, e.feedX.DensityKgPerM3(e.feedM), e.feedX.ViscosityPaS(e.feedM), e.feedD); err != nil {
+					return nil, err
+				}
+			}
+		}
+		k := 0
+		for ci := range e.cands {
+			c := &e.cands[ci]
+			for _, o := range sc.Orientations {
+				pt := &series[k].Points[i]
+				k++
+				pt.X = x
+				var m Metrics
+				var ex *exclusion
+				switch {
+				case c.excl != nil:
+					ex = c.excl
+				case spec.Variable == SweepConcentration:
+					mm, err := c.x.ToMolality(x, spec.Unit)
+					if err != nil {
+						ex = &exclusion{ReasonInsoluble, err.Error()}
+					} else {
+						ex = e.metricsAt(c, o, mm, &nominal, &m, &scratch)
+					}
+				default:
+					ex = e.evaluate(c, o, &nominal, &m, &scratch)
+				}
+				if ex != nil {
+					pt.Reason = ex.Error()
+					continue
+				}
+				mc := m
+				pt.Metrics = &mc
+			}
+		}
+	}
+	return series, nil
+}
