@@ -1,0 +1,147 @@
+// Command drawsift is the command-line host of the Drawsift engine.
+//
+//	drawsift osmotic [-f FILE] [--format json|csv|table]   osmotic properties of one solution
+//	drawsift flux    [-f FILE] [--format json|csv|table]   FO water and solute flux
+//	drawsift screen  [-f FILE] [--format json|csv|table]   rank candidate draw solutes
+//	drawsift demo                                          the built-in demo table
+//
+// Requests are the contract's JSON (see the README), read from standard
+// input or FILE. Errors are printed as the contract's error object on
+// standard output with exit status 2.
+package main
+
+import (
+	"bytes"
+	"context"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"strings"
+
+	"drawsift/engine/api"
+)
+
+const usage = `usage: drawsift <command> [flags]
+
+commands:
+  osmotic   osmotic pressure and properties of one solution (request JSON on stdin or -f)
+  flux      water and reverse solute flux through an FO membrane
+  screen    rank candidate draw solutes for a scenario (or many: JSON array or NDJSON)
+  serve     serve the JSON API at /v1/ and the page at / (drawsift serve -h)
+  bundle    write the single-file offline page (drawsift bundle -o FILE.html)
+  demo      print the built-in demo table
+  version   print the engine version
+
+flags for osmotic, flux, screen:
+  -f FILE             read the request from FILE instead of standard input
+  --format FORMAT     json (default), csv or table
+`
+
+func main() {
+	os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
+}
+
+// run is main without the process: it returns the exit status.
+// 0 success, 2 a request error (printed as the contract's error object),
+// 1 a usage or I/O error.
+func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	if len(args) == 0 {
+		fmt.Fprint(stderr, usage)
+		return 1
+	}
+	cmd, rest := args[0], args[1:]
+	switch cmd {
+	case api.OpOsmotic, api.OpFlux, api.OpScreen:
+		return runOp(cmd, rest, stdin, stdout, stderr)
+	case "serve":
+		return runServe(rest, stdout, stderr)
+	case "bundle":
+		return runBundle(rest, stdout, stderr)
+	case "demo":
+		return runDemo(stdout, stderr)
+	case "version", "--version":
+		fmt.Fprintln(stdout, "drawsift engine", api.EngineVersion)
+		return 0
+	case "help", "-h", "--help":
+		fmt.Fprint(stdout, usage)
+		return 0
+	}
+	fmt.Fprintf(stderr, "drawsift: unknown command %q\n\n%s", cmd, usage)
+	return 1
+}
+
+func runOp(op string, args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	fs := flag.NewFlagSet(op, flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	file := fs.String("f", "", "read the request from `FILE`")
+	format := fs.String("format", "json", "output `FORMAT`: json, csv or table")
+	var demo *bool
+	if op == api.OpScreen {
+		demo = fs.Bool("demo", false, "screen the built-in demo scenario (a brackish-water field station)")
+	}
+	var batch *batchFlags
+	if op == api.OpScreen {
+		batch = addBatchFlags(fs)
+	}
+	if err := fs.Parse(args); err != nil {
+		return 1
+	}
+	if fs.NArg() > 0 {
+		fmt.Fprintf(stderr, "drawsift %s: unexpected argument %q\n", op, fs.Arg(0))
+		return 1
+	}
+	f := strings.ToLower(*format)
+	if f != "json" && f != "csv" && f != "table" {
+		fmt.Fprintf(stderr, "drawsift %s: unknown format %q (json, csv or table)\n", op, *format)
+		return 1
+	}
+	var in io.Reader = stdin
+	if demo != nil && *demo {
+		in = bytes.NewReader(demoScenario)
+	} else if *file != "" {
+		fh, err := os.Open(*file)
+		if err != nil {
+			fmt.Fprintf(stderr, "drawsift %s: %v\n", op, err)
+			return 1
+		}
+		defer fh.Close()
+		in = fh
+	}
+	body, err := io.ReadAll(io.LimitReader(in, maxRequestBytes+1))
+	if err != nil {
+		fmt.Fprintf(stderr, "drawsift %s: reading request: %v\n", op, err)
+		return 1
+	}
+	if len(body) > maxRequestBytes {
+		writeErr(stdout, &api.Error{Field: "", Message: fmt.Sprintf("request larger than %d bytes", maxRequestBytes), Limit: maxRequestBytes})
+		return 2
+	}
+	if batch != nil {
+		if code, handled := batch.runBatch(op, body, f, stdout, stderr); handled {
+			return code
+		}
+	}
+	out, e := api.Dispatch(context.Background(), op, body)
+	if e != nil {
+		stdout.Write(out)
+		fmt.Fprintln(stdout)
+		if e.Kind == api.KindInternal {
+			fmt.Fprintln(stderr, "drawsift: internal error:", api.LastInternalError())
+		}
+		return 2
+	}
+	if err := render(stdout, op, f, out); err != nil {
+		fmt.Fprintf(stderr, "drawsift %s: %v\n", op, err)
+		return 1
+	}
+	return 0
+}
+
+// maxRequestBytes bounds a CLI request (64 MiB: batch files are large, but
+// not unbounded).
+const maxRequestBytes = 64 << 20
+
+func writeErr(w io.Writer, e *api.Error) {
+	fmt.Fprintf(w, `{"error":{"field":%q,"message":%q}}`+"\n", e.Field, e.Message)
+}

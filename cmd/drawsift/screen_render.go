@@ -1,0 +1,210 @@
+package main
+
+import (
+	"bytes"
+	_ "embed"
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"io"
+	"sort"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+
+	"drawsift/engine/api"
+)
+
+// demoScenario is the scenario of `drawsift screen --demo`: a small field
+// station treating brackish well water with a thin-film composite FO
+// membrane in a spacer-filled module at 22 °C, choosing among common draw
+// solutes at an equal 25 bar, toxic solutes excluded. A scenario of our
+// own; the numbers are the engine's.
+//
+//go:embed demo_scenario.json
+var demoScenario []byte
+
+// screenColumns are the CSV columns: header (with unit) and value.
+var screenColumns = []struct {
+	head string
+	val  func(c *api.ScreenCandidate) string
+}{
+	{"rank", func(c *api.ScreenCandidate) string { return strconv.Itoa(c.Rank) }},
+	{"solute", func(c *api.ScreenCandidate) string { return c.Solute }},
+	{"score (0-1)", func(c *api.ScreenCandidate) string { return num(c.Score) }},
+	{"pareto_optimal", func(c *api.ScreenCandidate) string { return strconv.FormatBool(c.ParetoOptimal) }},
+	{"orientation", func(c *api.ScreenCandidate) string { return c.Orientation }},
+	{"concentration (mol/L)", func(c *api.ScreenCandidate) string { return num(c.ConcentrationMolPerL) }},
+	{"concentration (g/L)", func(c *api.ScreenCandidate) string { return num(c.ConcentrationGPerL) }},
+	{"molality (mol/kg)", func(c *api.ScreenCandidate) string { return num(c.MolalityMolPerKg) }},
+	{"solubility (mol/kg)", func(c *api.ScreenCandidate) string { return optNum(c.SolubilityMolPerKg) }},
+	{"solubility margin (fraction)", func(c *api.ScreenCandidate) string { return num(c.SolubilityMarginFraction) }},
+	{"osmotic pressure (bar)", func(c *api.ScreenCandidate) string { return num(c.OsmoticPressureBar) }},
+	{"van 't Hoff (bar)", func(c *api.ScreenCandidate) string { return num(c.VantHoffBar) }},
+	{"osmotic pressure per mol/L (bar L/mol)", func(c *api.ScreenCandidate) string { return num(c.OsmoticPressurePerMolarityBarLPerMol) }},
+	{"van 't Hoff per mol/L (bar L/mol)", func(c *api.ScreenCandidate) string { return num(c.VantHoffPerMolarityBarLPerMol) }},
+	{"osmotic pressure per g/L (bar L/g)", func(c *api.ScreenCandidate) string { return num(c.OsmoticPressurePerMassBarLPerG) }},
+	{"van 't Hoff per g/L (bar L/g)", func(c *api.ScreenCandidate) string { return num(c.VantHoffPerMassBarLPerG) }},
+	{"water flux (LMH)", func(c *api.ScreenCandidate) string { return num(c.WaterFluxLMH) }},
+	{"flux efficiency (fraction)", func(c *api.ScreenCandidate) string { return num(c.FluxEfficiency) }},
+	{"reverse solute flux (g/m2/h)", func(c *api.ScreenCandidate) string { return num(c.ReverseSoluteFluxGMH) }},
+	{"reverse solute flux (mmol/m2/h)", func(c *api.ScreenCandidate) string { return num(c.ReverseSoluteFluxMmolPerM2H) }},
+	{"specific reverse solute flux (g/L)", func(c *api.ScreenCandidate) string { return num(c.SpecificReverseSoluteFluxGPerL) }},
+	{"replenishment cost (USD/m3)", func(c *api.ScreenCandidate) string { return optNum(c.ReplenishmentCostUSDPerM3) }},
+	{"replenishment cost min (USD/m3)", func(c *api.ScreenCandidate) string { return optNum(c.ReplenishmentCostMinUSDPerM3) }},
+	{"replenishment cost max (USD/m3)", func(c *api.ScreenCandidate) string { return optNum(c.ReplenishmentCostMaxUSDPerM3) }},
+	{"viscosity (mPa s)", func(c *api.ScreenCandidate) string { return num(c.ViscosityMPaS) }},
+	{"min regeneration energy (kWh/m3)", func(c *api.ScreenCandidate) string { return num(c.MinRegenerationEnergyKWhPerM3) }},
+	{"max saturation index (log10)", func(c *api.ScreenCandidate) string { return optNum(c.MaxSaturationIndex) }},
+	{"B (LMH)", func(c *api.ScreenCandidate) string { return num(c.BLMH) }},
+	{"B estimated", func(c *api.ScreenCandidate) string { return strconv.FormatBool(c.BEstimated) }},
+	{"hazard flags", func(c *api.ScreenCandidate) string { return strings.Join(c.HazardFlags, "; ") }},
+	{"P(first) (fraction)", func(c *api.ScreenCandidate) string {
+		if c.Robustness == nil {
+			return ""
+		}
+		return num(c.Robustness.ProbabilityFirst)
+	}},
+	{"P(top 3) (fraction)", func(c *api.ScreenCandidate) string {
+		if c.Robustness == nil {
+			return ""
+		}
+		return num(c.Robustness.ProbabilityTop3)
+	}},
+	{"rank 5-95 % interval", func(c *api.ScreenCandidate) string {
+		if c.Robustness == nil {
+			return ""
+		}
+		return fmt.Sprintf("%d-%d", c.Robustness.RankP05, c.Robustness.RankP95)
+	}},
+	{"excluded reason", func(c *api.ScreenCandidate) string { return "" }},
+}
+
+func num(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) }
+
+func optNum(v *float64) string {
+	if v == nil {
+		return ""
+	}
+	return num(*v)
+}
+
+// renderScreen writes a screen response as CSV (one row per candidate,
+// units in the header, the excluded after the ranked, then the
+// reproducibility record) or as a compact terminal table.
+func renderScreen(w io.Writer, format string, resp []byte) error {
+	var r api.ScreenResponse
+	if err := json.Unmarshal(resp, &r); err != nil {
+		return err
+	}
+	if format == "csv" {
+		return screenCSV(w, &r)
+	}
+	return screenTable(w, &r)
+}
+
+func screenCSV(w io.Writer, r *api.ScreenResponse) error {
+	cw := csv.NewWriter(w)
+	head := make([]string, len(screenColumns))
+	for i, c := range screenColumns {
+		head[i] = c.head
+	}
+	if err := cw.Write(head); err != nil {
+		return err
+	}
+	for i := range r.Candidates {
+		row := make([]string, len(screenColumns))
+		for j, c := range screenColumns {
+			row[j] = c.val(&r.Candidates[i])
+		}
+		cw.Write(row)
+	}
+	for _, x := range r.Excluded {
+		row := make([]string, len(screenColumns))
+		row[1] = x.Solute
+		row[len(row)-1] = x.Reason + ": " + x.Detail
+		cw.Write(row)
+	}
+	// Reproducibility record, below a blank row.
+	cw.Write([]string{})
+	scen, _ := json.Marshal(r.Scenario)
+	cw.Write([]string{"engine_version", r.EngineVersion})
+	cw.Write([]string{"scenario (JSON)", string(scen)})
+	keys := make([]string, 0, len(r.ModelChoices))
+	for k := range r.ModelChoices {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	for _, k := range keys {
+		cw.Write([]string{"model choice: " + k, r.ModelChoices[k]})
+	}
+	for _, s := range r.Sources {
+		cw.Write([]string{"source: " + s.Field, s.Reference})
+	}
+	for _, c := range r.Cautions {
+		cw.Write([]string{"caution", c})
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+func screenTable(w io.Writer, r *api.ScreenResponse) error {
+	var b bytes.Buffer
+	fmt.Fprintf(&b, "Drawsift screen — %s, basis %s", r.Orientation, basisText(&r.Basis))
+	fmt.Fprintf(&b, ", feed π %.3g bar\n", r.FeedOsmoticPressureBar)
+	tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)
+	rob := r.Robustness != nil
+	head := "#\tsolute\tscore\tc mol/L\tJw LMH\tSRSF g/L\tcost USD/m³\tE kWh/m³\tη mPa·s\tmax SI\tPareto\t"
+	if rob {
+		head += "P(1st)\tP(top3)\trank 5–95 %\t"
+	}
+	fmt.Fprintln(tw, head)
+	for _, c := range r.Candidates {
+		cost, si, par := "—", "—", ""
+		if c.ReplenishmentCostUSDPerM3 != nil {
+			cost = fmt.Sprintf("%.3g", *c.ReplenishmentCostUSDPerM3)
+		}
+		if c.MaxSaturationIndex != nil {
+			si = fmt.Sprintf("%.2f", *c.MaxSaturationIndex)
+		}
+		if c.ParetoOptimal {
+			par = "*"
+		}
+		line := fmt.Sprintf("%d\t%s\t%.3f\t%.3f\t%.2f\t%.3g\t%s\t%.3f\t%.2f\t%s\t%s\t", c.Rank, c.Solute, c.Score,
+			c.ConcentrationMolPerL, c.WaterFluxLMH, c.SpecificReverseSoluteFluxGPerL, cost, c.MinRegenerationEnergyKWhPerM3, c.ViscosityMPaS, si, par)
+		if rob && c.Robustness != nil {
+			line += fmt.Sprintf("%.2f\t%.2f\t%d–%d\t", c.Robustness.ProbabilityFirst, c.Robustness.ProbabilityTop3, c.Robustness.RankP05, c.Robustness.RankP95)
+		}
+		fmt.Fprintln(tw, line)
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	if rob {
+		fmt.Fprintf(&b, "robustness: %d Monte Carlo samples, seed %d\n", r.Robustness.Samples, r.Robustness.Seed)
+	}
+	if len(r.Excluded) > 0 {
+		fmt.Fprintln(&b, "excluded:")
+		for _, x := range r.Excluded {
+			fmt.Fprintf(&b, "  %s — %s: %s\n", x.Solute, x.Reason, x.Detail)
+		}
+	}
+	for _, c := range r.Cautions {
+		fmt.Fprintln(&b, "! "+c)
+	}
+	fmt.Fprintf(&b, "engine %s; full record (scenario, model choices, sources): --format json\n", r.EngineVersion)
+	_, err := w.Write(b.Bytes())
+	return err
+}
+
+func basisText(b *api.BasisReport) string {
+	switch {
+	case b.TargetOsmoticPressureBar != nil:
+		return fmt.Sprintf("equal π %.3g bar", *b.TargetOsmoticPressureBar)
+	case b.Concentration != nil:
+		return fmt.Sprintf("equal concentration %g %s", *b.Concentration, b.Unit)
+	case b.TargetWaterFluxLMH != nil:
+		return fmt.Sprintf("equal water flux %.3g LMH", *b.TargetWaterFluxLMH)
+	}
+	return b.Kind
+}

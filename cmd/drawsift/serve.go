@@ -1,0 +1,143 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"log"
+	"net"
+	"net/http"
+	"os"
+	"os/signal"
+	"strings"
+	"syscall"
+	"time"
+
+	"drawsift/engine/api/httpapi"
+)
+
+const serveUsage = `usage: drawsift serve [--addr 127.0.0.1:8080] [--wasm PATH] [--cors ORIGIN] [--max-body BYTES]
+
+Serves the JSON API at /v1/ (POST /v1/osmotic, /v1/flux, /v1/screen;
+GET /v1/solutes, /v1/health) and the page at /, until SIGINT or SIGTERM.
+`
+
+// Server timeouts: generous for a screen, short for slow or idle clients.
+const (
+	readHeaderTimeout = 5 * time.Second
+	readTimeout       = 30 * time.Second
+	writeTimeout      = 2 * time.Minute
+	idleTimeout       = 2 * time.Minute
+	shutdownTimeout   = 10 * time.Second
+	maxHeaderBytes    = 64 << 10
+)
+
+// serveConfig is what the serve flags set.
+type serveConfig struct {
+	addr    string
+	wasm    string
+	cors    []string
+	maxBody int64
+}
+
+// runServe is the serve command: it parses the flags and serves until
+// SIGINT or SIGTERM.
+func runServe(args []string, stdout, stderr io.Writer) int {
+	fs := flag.NewFlagSet("serve", flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	fs.Usage = func() { fmt.Fprint(stderr, serveUsage); fs.PrintDefaults() }
+	var cfg serveConfig
+	fs.StringVar(&cfg.addr, "addr", "127.0.0.1:8080", "listen on `HOST:PORT` (port 0 picks a free one)")
+	fs.StringVar(&cfg.wasm, "wasm", "build/drawsift.wasm", "serve the page's engine from `PATH`, built by `make wasm`")
+	cors := fs.String("cors", "", "allow browser calls from `ORIGIN` (comma-separated list, or *); off by default")
+	fs.Int64Var(&cfg.maxBody, "max-body", httpapi.DefaultMaxBodyBytes, "cap request bodies at `BYTES`")
+	if err := fs.Parse(args); err != nil {
+		return 1
+	}
+	if fs.NArg() > 0 {
+		fmt.Fprintf(stderr, "drawsift serve: unexpected argument %q\n", fs.Arg(0))
+		return 1
+	}
+	if cfg.maxBody <= 0 {
+		fmt.Fprintf(stderr, "drawsift serve: --max-body must be a positive number of bytes (got %d)\n", cfg.maxBody)
+		return 1
+	}
+	for _, o := range strings.Split(*cors, ",") {
+		if o = strings.TrimSpace(o); o != "" {
+			cfg.cors = append(cfg.cors, o)
+		}
+	}
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	if err := serve(ctx, cfg, stdout, stderr, nil); err != nil {
+		fmt.Fprintf(stderr, "drawsift serve: %v\n", err)
+		return 1
+	}
+	return 0
+}
+
+// newServeHandler mounts the API at /v1/ and the page at /.
+func newServeHandler(cfg serveConfig, logf func(string, ...any)) (http.Handler, error) {
+	site, err := newSiteHandler(cfg.wasm)
+	if err != nil {
+		return nil, err
+	}
+	mux := http.NewServeMux()
+	mux.Handle("/v1/", httpapi.New(httpapi.Options{MaxBodyBytes: cfg.maxBody, CORSOrigins: cfg.cors, Logf: logf}))
+	mux.Handle("/", site)
+	return mux, nil
+}
+
+// serve listens on cfg.addr and serves until ctx ends, then shuts down
+// gracefully. ready, if not nil, receives the bound address once the
+// listener is open. A busy port is an error returned at once.
+func serve(ctx context.Context, cfg serveConfig, stdout, stderr io.Writer, ready func(addr string)) error {
+	logger := log.New(stderr, "drawsift serve: ", log.LstdFlags)
+	h, err := newServeHandler(cfg, logger.Printf)
+	if err != nil {
+		return err
+	}
+	ln, err := net.Listen("tcp", cfg.addr)
+	if err != nil {
+		if errors.Is(err, syscall.EADDRINUSE) {
+			return fmt.Errorf("cannot listen on %s: the address is already in use (another server is running there; choose another with --addr HOST:PORT)", cfg.addr)
+		}
+		return fmt.Errorf("cannot listen on %s: %v", cfg.addr, err)
+	}
+	addr := ln.Addr().String()
+	if host, _, _ := net.SplitHostPort(addr); !net.ParseIP(host).IsLoopback() {
+		fmt.Fprintf(stderr, "drawsift serve: warning: %s is reachable from other machines; the API has no authentication\n", addr)
+	}
+	srv := &http.Server{
+		Handler:           h,
+		ReadHeaderTimeout: readHeaderTimeout,
+		ReadTimeout:       readTimeout,
+		WriteTimeout:      writeTimeout,
+		IdleTimeout:       idleTimeout,
+		MaxHeaderBytes:    maxHeaderBytes,
+		ErrorLog:          logger,
+	}
+	fmt.Fprintf(stdout, "drawsift serve: page at http://%s/ , API at http://%s/v1/ (Ctrl-C stops)\n", addr, addr)
+	if ready != nil {
+		ready(addr)
+	}
+	errc := make(chan error, 1)
+	go func() { errc <- srv.Serve(ln) }()
+	select {
+	case err := <-errc:
+		return err
+	case <-ctx.Done():
+	}
+	fmt.Fprintln(stdout, "drawsift serve: shutting down")
+	sctx, cancel := context.WithTimeout(context.Background(), shutdownTimeout)
+	defer cancel()
+	if err := srv.Shutdown(sctx); err != nil {
+		return fmt.Errorf("shutdown: %v", err)
+	}
+	if err := <-errc; err != nil && !errors.Is(err, http.ErrServerClosed) {
+		return err
+	}
+	return nil
+}

@@ -1,0 +1,200 @@
+package main
+
+import (
+	"bytes"
+	"compress/gzip"
+	"crypto/sha256"
+	"encoding/base64"
+	"fmt"
+	"io/fs"
+	"net/http"
+	"os"
+	"path"
+	"path/filepath"
+	"strings"
+	"sync"
+	"time"
+
+	"drawsift/site"
+)
+
+// siteCSP is the page's Content-Security-Policy: its own scripts, styles
+// and worker only; WebAssembly compilation ('wasm-unsafe-eval', not
+// 'unsafe-eval'); no inline script or style; network requests to its own
+// origin only. data: and blob: images let a chart be drawn on a canvas for
+// PNG export.
+const siteCSP = "default-src 'none'; script-src 'self' 'wasm-unsafe-eval'; worker-src 'self'; " +
+	"connect-src 'self'; style-src 'self'; img-src 'self' data: blob:; manifest-src 'self'; " +
+	"base-uri 'none'; form-action 'none'; frame-ancestors 'none'"
+
+// contentTypes maps the extensions the site uses to their media types, so
+// that nothing depends on the host's MIME tables.
+var contentTypes = map[string]string{
+	".html":        "text/html; charset=utf-8",
+	".js":          "text/javascript; charset=utf-8",
+	".css":         "text/css; charset=utf-8",
+	".svg":         "image/svg+xml",
+	".png":         "image/png",
+	".json":        "application/json",
+	".webmanifest": "application/manifest+json",
+	".wasm":        "application/wasm",
+}
+
+// siteFile is one file ready to serve: its bytes, the gzip form when that
+// is smaller, its media type and an ETag.
+type siteFile struct {
+	body, gz []byte
+	ctype    string
+	etag     string
+	mod      time.Time
+}
+
+func newSiteFile(name string, b []byte, mod time.Time) *siteFile {
+	sum := sha256.Sum256(b)
+	f := &siteFile{body: b, ctype: contentTypes[path.Ext(name)], mod: mod,
+		etag: `"` + base64.RawURLEncoding.EncodeToString(sum[:12]) + `"`}
+	if f.ctype == "" {
+		f.ctype = "application/octet-stream"
+	}
+	if len(b) > 1024 && path.Ext(name) != ".png" {
+		var buf bytes.Buffer
+		zw, _ := gzip.NewWriterLevel(&buf, gzip.BestCompression)
+		zw.Write(b)
+		zw.Close()
+		if buf.Len() < len(b) {
+			f.gz = buf.Bytes()
+		}
+	}
+	return f
+}
+
+// siteHandler serves the embedded page, the engine's wasm and the
+// toolchain's wasm_exec.js (both build products, read from disk and
+// re-read when they change).
+type siteHandler struct {
+	static   map[string]*siteFile // "/index.html" → file
+	wasmPath string
+	execPath string
+
+	mu    sync.Mutex
+	disk  map[string]*siteFile // build products by path
+	stamp map[string]time.Time
+}
+
+// newSiteHandler serves the static page and the engine's wasm, read from
+// wasmPath (a build product; `make wasm`), with wasm_exec.js from the same
+// directory. A missing wasm is not an error here (the API still serves):
+// its URL answers 404 with a hint, and the page says the engine is missing.
+func newSiteHandler(wasmPath string) (http.Handler, error) {
+	h := &siteHandler{static: map[string]*siteFile{}, wasmPath: wasmPath,
+		execPath: filepath.Join(filepath.Dir(wasmPath), "wasm_exec.js"),
+		disk:     map[string]*siteFile{}, stamp: map[string]time.Time{}}
+	start := time.Now()
+	err := fs.WalkDir(site.FS, ".", func(p string, d fs.DirEntry, err error) error {
+		if err != nil || d.IsDir() {
+			return err
+		}
+		b, err := fs.ReadFile(site.FS, p)
+		if err != nil {
+			return err
+		}
+		h.static["/"+p] = newSiteFile(p, b, start)
+		return nil
+	})
+	if err != nil {
+		return nil, fmt.Errorf("site files: %w", err)
+	}
+	if h.static["/index.html"] == nil {
+		return nil, fmt.Errorf("site files: index.html is missing")
+	}
+	return h, nil
+}
+
+// fromDisk returns a build product, reloaded when its size or time changes.
+func (h *siteHandler) fromDisk(p string) (*siteFile, error) {
+	st, err := os.Stat(p)
+	if err != nil {
+		return nil, err
+	}
+	h.mu.Lock()
+	defer h.mu.Unlock()
+	if f := h.disk[p]; f != nil && h.stamp[p].Equal(st.ModTime()) && int64(len(f.body)) == st.Size() {
+		return f, nil
+	}
+	b, err := os.ReadFile(p)
+	if err != nil {
+		return nil, err
+	}
+	f := newSiteFile(p, b, st.ModTime())
+	h.disk[p], h.stamp[p] = f, st.ModTime()
+	return f, nil
+}
+
+func (h *siteHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
+	hd := w.Header()
+	hd.Set("Content-Security-Policy", siteCSP)
+	hd.Set("X-Content-Type-Options", "nosniff")
+	hd.Set("Referrer-Policy", "no-referrer")
+	hd.Set("Cross-Origin-Opener-Policy", "same-origin")
+	if r.Method != http.MethodGet && r.Method != http.MethodHead {
+		hd.Set("Allow", "GET, HEAD")
+		http.Error(w, "method not allowed", http.StatusMethodNotAllowed)
+		return
+	}
+	p := r.URL.Path
+	if p == "/" {
+		p = "/index.html"
+	}
+	var f *siteFile
+	switch p {
+	case "/drawsift.wasm", "/wasm_exec.js":
+		src := h.wasmPath
+		if p == "/wasm_exec.js" {
+			src = h.execPath
+		}
+		var err error
+		if f, err = h.fromDisk(src); err != nil {
+			http.Error(w, fmt.Sprintf("%s is not built: run `make wasm` (looked for %s)", strings.TrimPrefix(p, "/"), filepath.Base(src)), http.StatusNotFound)
+			return
+		}
+	default:
+		f = h.static[p]
+	}
+	if f == nil {
+		http.NotFound(w, r)
+		return
+	}
+	// Always revalidate: a new build must reach the page at once (the
+	// page also checks the engine's version against its own).
+	hd.Set("Cache-Control", "no-cache")
+	hd.Set("Vary", "Accept-Encoding")
+	body, etag := f.body, f.etag
+	gz := f.gz != nil && acceptsGzip(r)
+	if gz {
+		body, etag = f.gz, strings.TrimSuffix(f.etag, `"`)+`-gz"`
+	}
+	hd.Set("ETag", etag)
+	if inm := r.Header.Get("If-None-Match"); inm != "" && strings.Contains(inm, etag) {
+		w.WriteHeader(http.StatusNotModified)
+		return
+	}
+	hd.Set("Content-Type", f.ctype)
+	if gz {
+		hd.Set("Content-Encoding", "gzip")
+	}
+	hd.Set("Content-Length", fmt.Sprint(len(body)))
+	if r.Method == http.MethodHead {
+		return
+	}
+	w.Write(body)
+}
+
+func acceptsGzip(r *http.Request) bool {
+	for _, part := range strings.Split(r.Header.Get("Accept-Encoding"), ",") {
+		enc, q, _ := strings.Cut(strings.TrimSpace(part), ";")
+		if strings.EqualFold(strings.TrimSpace(enc), "gzip") && strings.ReplaceAll(strings.TrimSpace(q), " ", "") != "q=0" {
+			return true
+		}
+	}
+	return false
+}

@@ -1,0 +1,176 @@
+package httpapi
+
+import (
+	"bytes"
+	"encoding/json"
+	"fmt"
+	"math"
+	"net/http"
+	"net/http/httptest"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// Fuzz targets for request decoding and validation, one per endpoint plus
+// the transport. Each checks, for any input: no panic and no 500; a body
+// that is one JSON value whose numbers are all finite (no NaN or Inf can
+// hide as an overflowing literal); every rejection is the contract's error
+// object. Seed corpora live in testdata/fuzz/<FuzzName>.
+//
+//	go test -run '^$' -fuzz '^FuzzFlux$' -fuzztime 20s ./engine/api/httpapi/
+
+// checkAnswer applies the invariants to one answer.
+func checkAnswer(t *testing.T, status int, body []byte) {
+	t.Helper()
+	switch status {
+	case http.StatusOK, http.StatusBadRequest, http.StatusNotFound, http.StatusMethodNotAllowed,
+		http.StatusRequestEntityTooLarge, http.StatusUnsupportedMediaType, http.StatusNoContent:
+	default:
+		t.Fatalf("status %d: %s", status, body)
+	}
+	if status == http.StatusNoContent {
+		return
+	}
+	dec := json.NewDecoder(bytes.NewReader(body))
+	dec.UseNumber()
+	var v any
+	if err := dec.Decode(&v); err != nil {
+		t.Fatalf("answer is not JSON (%v): %s", err, body)
+	}
+	if err := allFinite(v); err != nil {
+		t.Fatalf("%v in %s", err, body)
+	}
+	if status == http.StatusOK {
+		if _, ok := v.(map[string]any); !ok {
+			t.Fatalf("200 answer is not an object: %s", body)
+		}
+		return
+	}
+	var e errorReply
+	strict := json.NewDecoder(bytes.NewReader(body))
+	strict.DisallowUnknownFields()
+	if err := strict.Decode(&e); err != nil || e.Error == nil || e.Error.Message == "" {
+		t.Fatalf("status %d without the contract's error object (%v): %s", status, err, body)
+	}
+}
+
+// allFinite reports a number that does not parse to a finite float64.
+func allFinite(v any) error {
+	switch v := v.(type) {
+	case json.Number:
+		f, err := strconv.ParseFloat(string(v), 64)
+		if err != nil || math.IsNaN(f) || math.IsInf(f, 0) {
+			return fmt.Errorf("non-finite number %s", v)
+		}
+	case map[string]any:
+		for _, x := range v {
+			if err := allFinite(x); err != nil {
+				return err
+			}
+		}
+	case []any:
+		for _, x := range v {
+			if err := allFinite(x); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
+}
+
+func fuzzPost(f *testing.F, path string, seeds ...string) {
+	for _, s := range seeds {
+		f.Add([]byte(s))
+	}
+	h := New(Options{})
+	f.Fuzz(func(t *testing.T, body []byte) {
+		rec := do(h, http.MethodPost, path, "application/json", bytes.NewReader(body))
+		checkAnswer(t, rec.Code, rec.Body.Bytes())
+	})
+}
+
+func FuzzOsmotic(f *testing.F) {
+	fuzzPost(f, "/v1/osmotic", osmoticNaCl,
+		`{"solute":"seawater","concentration":35,"unit":"g/kg","temperature_c":10}`,
+		`{"solute":"MgCl2","concentration":20,"unit":"wt%"}`,
+		`{"solute":"sucrose","concentration":300,"unit":"g/L"}`,
+		`{"solute":"NaCl","concentration":-1e-300,"unit":"mol/L"}`)
+}
+
+func FuzzFlux(f *testing.F) {
+	fuzzPost(f, "/v1/flux", fluxBase,
+		`{"membrane":{"preset":"tfc-standard"},"orientation":"AL-DS","draw":{"solute":"MgCl2","concentration":2,"unit":"mol/kg"},"feed":{"solute":"seawater","concentration":35,"unit":"g/kg"},"delta_p_bar":10}`,
+		`{"membrane":{"a_lmh_per_bar":3,"b_lmh":0,"s_um":300},"orientation":"AL-FS","draw":{"solute":"NaCl","concentration":3,"unit":"mol/L"},"external_cp":false,"osmotic_model":"van-t-hoff"}`,
+		`{"membrane":{"a_lmh_per_bar":1,"b_nacl_lmh":0.2,"s_um":600},"orientation":"AL-FS","draw":{"solute":"Na2SO4","concentration":1,"unit":"mol/L"},"channel":{"height_mm":1,"width_mm":20,"length_mm":100,"crossflow_velocity_m_per_s":0.1,"spacer":true}}`)
+}
+
+func FuzzScreen(f *testing.F) {
+	fuzzPost(f, "/v1/screen",
+		`{"feed":{"solute":"seawater","concentration":35,"unit":"g/kg"},"membrane":{"a_lmh_per_bar":2,"b_lmh":0.4,"s_um":400},"orientation":"AL-FS","temperature_c":25,"candidates":["NaCl","MgCl2","Na2SO4"],"basis":{"kind":"osmotic-pressure","value":60,"unit":"bar"}}`,
+		`{"feed":{"solute":"NaCl","concentration":0.1,"unit":"mol/L"},"membrane":{"preset":"tfc-standard"},"candidates":["KCl"],"basis":{"kind":"water-flux","value":10,"unit":"LMH"}}`,
+		`{"candidates":["NaCl"],"basis":{"kind":"concentration","value":1,"unit":"mol/L"}}`,
+		`{"no_such_field":1}`)
+}
+
+// FuzzFluxFields builds well-formed flux requests from fuzzed values, to
+// reach the range checks and the solver behind the decoder.
+func FuzzFluxFields(f *testing.F) {
+	f.Add(1.0, 0.3, 500.0, 1.0, 0.0, 25.0, 5e-5, 0.0, "NaCl", "mol/L", "AL-FS")
+	f.Add(2.0, 0.0, 300.0, 4.0, 35.0, 40.0, 1e-5, 20.0, "MgCl2", "mol/kg", "AL-DS")
+	f.Add(1e-3, 100.0, 1e5, 0.0, 0.0, 0.0, 1.0, -1000.0, "sucrose", "g/L", "AL-FS")
+	h := New(Options{})
+	f.Fuzz(func(t *testing.T, a, b, s, cDraw, cFeed, temp, k, dp float64, solute, unit, orientation string) {
+		body := fmt.Sprintf(`{"membrane":{"a_lmh_per_bar":%s,"b_lmh":%s,"s_um":%s},"orientation":%s,`+
+			`"draw":{"solute":%s,"concentration":%s,"unit":%s},"feed":{"solute":"NaCl","concentration":%s,"unit":"g/L"},`+
+			`"temperature_c":%s,"k_draw_m_per_s":%s,"k_feed_m_per_s":%s,"delta_p_bar":%s}`,
+			jnum(a), jnum(b), jnum(s), jstr(orientation), jstr(solute), jnum(cDraw), jstr(unit), jnum(cFeed),
+			jnum(temp), jnum(k), jnum(k), jnum(dp))
+		rec := do(h, http.MethodPost, "/v1/flux", "application/json", strings.NewReader(body))
+		checkAnswer(t, rec.Code, rec.Body.Bytes())
+	})
+}
+
+// FuzzOsmoticFields builds well-formed osmotic requests from fuzzed values.
+func FuzzOsmoticFields(f *testing.F) {
+	f.Add("NaCl", 1.0, "mol/kg", 25.0)
+	f.Add("seawater", 70.0, "g/kg", 60.0)
+	f.Add("(NH4)2SO4", 40.0, "wt%", 100.0)
+	h := New(Options{})
+	f.Fuzz(func(t *testing.T, solute string, c float64, unit string, temp float64) {
+		body := fmt.Sprintf(`{"solute":%s,"concentration":%s,"unit":%s,"temperature_c":%s}`, jstr(solute), jnum(c), jstr(unit), jnum(temp))
+		rec := do(h, http.MethodPost, "/v1/osmotic", "application/json", strings.NewReader(body))
+		checkAnswer(t, rec.Code, rec.Body.Bytes())
+	})
+}
+
+// FuzzTransport fuzzes the method, path and Content-Type.
+func FuzzTransport(f *testing.F) {
+	f.Add("POST", "/v1/osmotic", "application/json", []byte(osmoticNaCl))
+	f.Add("GET", "/v1/health", "", []byte(nil))
+	f.Add("OPTIONS", "/v1/flux", "text/plain; charset=utf-8", []byte("{}"))
+	f.Add("PATCH", "/v1/solutes?x=1", "application/json; charset=\"utf-8\"", []byte("[]"))
+	h := New(Options{CORSOrigins: []string{"https://lab.example"}})
+	f.Fuzz(func(t *testing.T, method, path, ct string, body []byte) {
+		req, err := http.NewRequest(method, "http://drawsift.test"+path, bytes.NewReader(body))
+		if err != nil || req.URL.Path == "" {
+			return // not a request a server could receive
+		}
+		req.Header.Set("Content-Type", ct)
+		req.Header.Set("Origin", "https://lab.example")
+		rec := httptest.NewRecorder()
+		h.ServeHTTP(rec, req)
+		checkAnswer(t, rec.Code, rec.Body.Bytes())
+	})
+}
+
+// jnum writes a float as a JSON number; NaN and ±Inf, which JSON cannot
+// carry, are written as the bare words a careless client might send.
+func jnum(x float64) string {
+	return strconv.FormatFloat(x, 'g', -1, 64)
+}
+
+func jstr(s string) string {
+	b, _ := json.Marshal(s)
+	return string(b)
+}

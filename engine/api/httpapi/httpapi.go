@@ -1,0 +1,381 @@
+// Package httpapi serves the Drawsift contract over HTTP: one
+// http.Handler used unchanged by the native server (drawsift serve) and by
+// the edge-worker build (wasm/edge). It only decodes the transport, calls
+// api.Dispatch and writes the answer; the science and the JSON request
+// decoding live in the engine.
+//
+// Routes (one table, routes below):
+//
+//	POST /v1/osmotic   osmotic properties of one solution
+//	POST /v1/flux      FO water and solute flux
+//	POST /v1/screen    rank candidate draw solutes for a scenario
+//	GET  /v1/solutes   the solute library with its sources
+//	GET  /v1/health    status and engine version
+//
+// Every failure is the contract's error object,
+// {"error": {"field", "message", "limit"}}, with the status chosen in one
+// table (statusOf). Each response carries an X-Request-Id header; an
+// internal error (500) also carries it in the body so that a user can quote
+// it, while the details go only to Options.Logf.
+//
+// The handler keeps no state between requests: everything it holds is the
+// read-only configuration given to New. It imports only the standard
+// library and engine/api, so it compiles for js/wasm.
+package httpapi
+
+import (
+	"bytes"
+	"context"
+	"crypto/rand"
+	"encoding/hex"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"mime"
+	"net/http"
+	"runtime/debug"
+	"strconv"
+	"strings"
+
+	"drawsift/engine/api"
+)
+
+// DefaultMaxBodyBytes caps a request body (1 MiB): a screen scenario is a
+// few kilobytes; a client splits a large sweep into many requests.
+const DefaultMaxBodyBytes = 1 << 20
+
+// RequestIDHeader names the header that carries the request id both ways:
+// a client may send its own (see validRequestID), else one is generated.
+const RequestIDHeader = "X-Request-Id"
+
+// Options configure the handler. The zero value is a working, closed
+// configuration: 1 MiB body cap, no CORS, no logging.
+type Options struct {
+	// MaxBodyBytes caps a request body; ≤ 0 means DefaultMaxBodyBytes.
+	MaxBodyBytes int64
+	// CORSOrigins lists the origins allowed to call the API from a browser
+	// ("*" allows any). Empty (the default) sends no CORS headers, and
+	// browsers then refuse cross-origin calls.
+	CORSOrigins []string
+	// Logf receives the details of internal errors, tagged with the
+	// request id. Nil discards them.
+	Logf func(format string, args ...any)
+
+	// dispatch replaces api.Dispatch in this package's tests.
+	dispatch func(ctx context.Context, op string, body []byte) ([]byte, *api.Error)
+}
+
+// route is one entry of the route table.
+type route struct {
+	path   string
+	method string
+	op     string // the api.Dispatch operation
+}
+
+// routes is the route table: path and method → Dispatch operation. New
+// endpoints are added here and nowhere else.
+var routes = []route{
+	{"/v1/" + api.OpOsmotic, http.MethodPost, api.OpOsmotic},
+	{"/v1/" + api.OpFlux, http.MethodPost, api.OpFlux},
+	{"/v1/" + api.OpScreen, http.MethodPost, api.OpScreen},
+	{"/v1/" + api.OpSolutes, http.MethodGet, api.OpSolutes},
+	{"/v1/" + api.OpHealth, http.MethodGet, api.OpHealth},
+}
+
+// lookup finds the route of a path.
+func lookup(path string) (route, bool) {
+	for _, rt := range routes {
+		if rt.path == path {
+			return rt, true
+		}
+	}
+	return route{}, false
+}
+
+// Kinds of errors raised by the transport itself (the engine's kinds are
+// api.KindInvalid, api.KindNotFound and api.KindInternal).
+const (
+	kindMethod    = "method"    // 405
+	kindTooLarge  = "too-large" // 413
+	kindMediaType = "media"     // 415
+)
+
+// statusOf maps every error kind to its HTTP status: the one place where
+// that choice is made.
+var statusOf = map[string]int{
+	api.KindInvalid:  http.StatusBadRequest,
+	api.KindNotFound: http.StatusNotFound,
+	api.KindInternal: http.StatusInternalServerError,
+	kindMethod:       http.StatusMethodNotAllowed,
+	kindTooLarge:     http.StatusRequestEntityTooLarge,
+	kindMediaType:    http.StatusUnsupportedMediaType,
+}
+
+// status returns the HTTP status of an error kind; an unknown kind is a
+// bug and answers 500.
+func status(kind string) int {
+	if s, ok := statusOf[kind]; ok {
+		return s
+	}
+	return http.StatusInternalServerError
+}
+
+// handler is the http.Handler returned by New. Its fields are read-only
+// after New.
+type handler struct {
+	maxBody  int64
+	origins  map[string]bool
+	anyOrig  bool
+	logf     func(format string, args ...any)
+	dispatch func(ctx context.Context, op string, body []byte) ([]byte, *api.Error)
+}
+
+// New returns the API handler. It serves the paths in the route table
+// (mount it at "/v1/" or at the root) and answers every other path with a
+// 404 error object.
+func New(opts Options) http.Handler {
+	h := &handler{
+		maxBody:  opts.MaxBodyBytes,
+		logf:     opts.Logf,
+		dispatch: opts.dispatch,
+		origins:  map[string]bool{},
+	}
+	if h.maxBody <= 0 {
+		h.maxBody = DefaultMaxBodyBytes
+	}
+	if h.logf == nil {
+		h.logf = func(string, ...any) {}
+	}
+	if h.dispatch == nil {
+		h.dispatch = api.Dispatch
+	}
+	for _, o := range opts.CORSOrigins {
+		o = strings.TrimRight(strings.TrimSpace(o), "/")
+		switch o {
+		case "":
+		case "*":
+			h.anyOrig = true
+		default:
+			h.origins[o] = true
+		}
+	}
+	return h
+}
+
+func (h *handler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
+	id := requestID(r)
+	w.Header().Set(RequestIDHeader, id)
+	defer func() {
+		if p := recover(); p != nil {
+			if p == http.ErrAbortHandler {
+				panic(p)
+			}
+			h.logf("request %s: panic: %v\n%s", id, p, debug.Stack())
+			// Headers may already be written; if so this body is lost,
+			// but the connection still ends cleanly.
+			h.writeError(w, id, &api.Error{Message: "internal error", Kind: api.KindInternal})
+		}
+	}()
+	h.cors(w, r)
+
+	rt, ok := lookup(r.URL.Path)
+	if !ok {
+		h.writeError(w, id, &api.Error{Field: "path", Message: fmt.Sprintf("no endpoint %q; endpoints: %s", r.URL.Path, endpointList()), Kind: api.KindNotFound})
+		return
+	}
+	if r.Method == http.MethodOptions && h.corsEnabled() {
+		// A CORS preflight: the headers were set by h.cors.
+		w.Header().Set("Allow", rt.method+", OPTIONS")
+		w.WriteHeader(http.StatusNoContent)
+		return
+	}
+	if r.Method != rt.method {
+		w.Header().Set("Allow", rt.method)
+		h.writeError(w, id, &api.Error{Field: "method", Limit: rt.method, Kind: kindMethod,
+			Message: fmt.Sprintf("%s is not allowed on %s; use %s", r.Method, r.URL.Path, rt.method)})
+		return
+	}
+	var body []byte
+	if rt.method == http.MethodPost {
+		if e := checkContentType(r.Header.Get("Content-Type")); e != nil {
+			h.writeError(w, id, e)
+			return
+		}
+		var e *api.Error
+		if body, e = h.readBody(w, r); e != nil {
+			h.writeError(w, id, e)
+			return
+		}
+	}
+	out, e := h.dispatch(r.Context(), rt.op, body)
+	if e != nil {
+		if e.Kind == api.KindInternal {
+			h.logf("request %s: %s: internal error: %s", id, rt.op, api.LastInternalError())
+		}
+		h.writeError(w, id, e)
+		return
+	}
+	writeJSON(w, http.StatusOK, out)
+}
+
+// readBody reads the request body up to the cap.
+func (h *handler) readBody(w http.ResponseWriter, r *http.Request) ([]byte, *api.Error) {
+	tooLarge := &api.Error{Field: "body", Limit: h.maxBody, Kind: kindTooLarge,
+		Message: fmt.Sprintf("request body larger than %d bytes; split a large sweep into several requests", h.maxBody)}
+	if r.ContentLength > h.maxBody {
+		return nil, tooLarge
+	}
+	if r.Body == nil {
+		return nil, nil
+	}
+	// Read one byte past the cap to tell "exactly at the cap" from "over".
+	b, err := io.ReadAll(io.LimitReader(r.Body, h.maxBody+1))
+	if err != nil {
+		var mb *http.MaxBytesError
+		if errors.As(err, &mb) {
+			return nil, tooLarge
+		}
+		return nil, &api.Error{Field: "body", Message: "reading the request body: " + err.Error(), Kind: api.KindInvalid}
+	}
+	if int64(len(b)) > h.maxBody {
+		return nil, tooLarge
+	}
+	return b, nil
+}
+
+// checkContentType accepts application/json (or a +json type) in UTF-8.
+func checkContentType(ct string) *api.Error {
+	bad := func(msg string) *api.Error {
+		return &api.Error{Field: "Content-Type", Limit: "application/json", Kind: kindMediaType, Message: msg}
+	}
+	if ct == "" {
+		return bad("a Content-Type header is required: application/json")
+	}
+	mt, params, err := mime.ParseMediaType(ct)
+	if err != nil {
+		return bad(fmt.Sprintf("malformed Content-Type %q: %v", ct, err))
+	}
+	if mt != "application/json" && !(strings.HasPrefix(mt, "application/") && strings.HasSuffix(mt, "+json")) {
+		return bad(fmt.Sprintf("Content-Type %q is not JSON; send application/json", mt))
+	}
+	if cs, ok := params["charset"]; ok && !strings.EqualFold(cs, "utf-8") {
+		return bad(fmt.Sprintf("charset %q is not supported; JSON is UTF-8", cs))
+	}
+	return nil
+}
+
+// writeError writes the contract's error object with the status of its
+// kind. A 500 also carries the request id.
+func (h *handler) writeError(w http.ResponseWriter, id string, e *api.Error) {
+	st := status(e.Kind)
+	body := errorBody{Error: errorObject{Field: e.Field, Message: e.Message, Limit: e.Limit}}
+	if st == http.StatusInternalServerError {
+		body.Error.Message = "internal error"
+		body.Error.Field = ""
+		body.Error.Limit = nil
+		body.Error.RequestID = id
+	}
+	writeJSON(w, st, encodeError(body))
+}
+
+// errorObject is api.Error as it travels, plus the request id of a 500.
+type errorObject struct {
+	Field     string `json:"field"`
+	Message   string `json:"message"`
+	Limit     any    `json:"limit,omitempty"`
+	RequestID string `json:"request_id,omitempty"`
+}
+
+type errorBody struct {
+	Error errorObject `json:"error"`
+}
+
+func writeJSON(w http.ResponseWriter, status int, b []byte) {
+	hd := w.Header()
+	hd.Set("Content-Type", "application/json")
+	hd.Set("Content-Length", strconv.Itoa(len(b)+1))
+	hd.Set("X-Content-Type-Options", "nosniff")
+	hd.Set("Cache-Control", "no-store")
+	w.WriteHeader(status)
+	w.Write(b)
+	w.Write([]byte{'\n'})
+}
+
+// cors sets the CORS response headers when the request's Origin is allowed.
+func (h *handler) cors(w http.ResponseWriter, r *http.Request) {
+	if !h.corsEnabled() {
+		return
+	}
+	hd := w.Header()
+	hd.Add("Vary", "Origin")
+	origin := r.Header.Get("Origin")
+	if origin == "" {
+		return
+	}
+	switch {
+	case h.anyOrig:
+		hd.Set("Access-Control-Allow-Origin", "*")
+	case h.origins[origin]:
+		hd.Set("Access-Control-Allow-Origin", origin)
+	default:
+		return
+	}
+	hd.Set("Access-Control-Expose-Headers", RequestIDHeader)
+	if r.Method == http.MethodOptions {
+		hd.Set("Access-Control-Allow-Methods", "GET, POST, OPTIONS")
+		hd.Set("Access-Control-Allow-Headers", "Content-Type, "+RequestIDHeader)
+		hd.Set("Access-Control-Max-Age", "600")
+	}
+}
+
+func (h *handler) corsEnabled() bool { return h.anyOrig || len(h.origins) > 0 }
+
+// requestID returns the client's X-Request-Id when it is short and plain,
+// else a new random one.
+func requestID(r *http.Request) string {
+	if id := r.Header.Get(RequestIDHeader); validRequestID(id) {
+		return id
+	}
+	var b [12]byte
+	if _, err := rand.Read(b[:]); err != nil {
+		return "unknown"
+	}
+	return hex.EncodeToString(b[:])
+}
+
+// validRequestID accepts 1–64 characters of [A-Za-z0-9._-], so that an id
+// can be echoed into headers and logs without escaping.
+func validRequestID(s string) bool {
+	if len(s) == 0 || len(s) > 64 {
+		return false
+	}
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		if !(c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= '0' && c <= '9' || c == '.' || c == '_' || c == '-') {
+			return false
+		}
+	}
+	return true
+}
+
+// endpointList names the endpoints for the 404 message.
+func endpointList() string {
+	s := make([]string, len(routes))
+	for i, rt := range routes {
+		s[i] = rt.method + " " + rt.path
+	}
+	return strings.Join(s, ", ")
+}
+
+// encodeError encodes an error body. The transport's own errors use
+// encoding/json, which every build links anyway (goccy/go-json imports it).
+func encodeError(b errorBody) []byte {
+	var buf bytes.Buffer
+	enc := json.NewEncoder(&buf)
+	enc.SetEscapeHTML(false)
+	if err := enc.Encode(b); err != nil {
+		return []byte(`{"error":{"field":"","message":"internal error"}}`)
+	}
+	return bytes.TrimRight(buf.Bytes(), "\n")
+}

@@ -1,0 +1,40 @@
+# Edge-worker host of the JSON API (wasm/edge) and the short fuzz run of the
+# HTTP handler. Included by the main Makefile.
+#
+#   make edge       build/edge/: app.wasm + generated glue + wrangler.toml, ready to deploy
+#   make edge-size  raw and gzip sizes of the bundle (budget: < 3 MiB gzip)
+#   make test-edge  the edge bundle under Node answering as the native handler does
+#   make fuzz       every fuzz target of the handler for FUZZTIME each (CI: 20s)
+
+EDGE_DIR  ?= build/edge
+EDGE_TAGS ?= stdjson
+FUZZTIME  ?= 20s
+FUZZ_PKG  := ./engine/api/httpapi/
+FUZZ_TARGETS := FuzzOsmotic FuzzFlux FuzzScreen FuzzOsmoticFields FuzzFluxFields FuzzTransport
+
+.PHONY: edge edge-size test-edge fuzz
+
+# The edge build uses encoding/json (-tags stdjson): goccy/go-json would add
+# ~1 MB gzip and leave too little room under the platform's 3 MiB; each edge
+# request starts a fresh instance, so start-up, not JSON speed, dominates.
+edge:
+	$(GO) run github.com/syumai/workers/cmd/workers-assets-gen -mode=go -o $(EDGE_DIR)
+	GOOS=js GOARCH=wasm $(GO) build $(GOFLAGS) -tags '$(EDGE_TAGS)' -ldflags='-s -w' -o $(EDGE_DIR)/app.wasm ./wasm/edge
+	cp wasm/edge/wrangler.toml $(EDGE_DIR)/wrangler.toml
+	@$(MAKE) --no-print-directory edge-size
+
+edge-size:
+	@total=0; for f in $(EDGE_DIR)/app.wasm $(EDGE_DIR)/wasm_exec.js $(EDGE_DIR)/worker.mjs $(EDGE_DIR)/runtime.mjs; do \
+	  raw=$$(wc -c < $$f); gz=$$(gzip -9 -c $$f | wc -c); total=$$((total + gz)); \
+	  printf '%-28s %10d B raw %10d B gzip\n' $$f $$raw $$gz; done; \
+	  printf 'edge bundle gzip total: %d B (budget 3145728 B)\n' $$total; \
+	  test $$total -lt 3145728 || (echo 'edge bundle over budget' && false)
+
+test-edge:
+	$(GO) test -count=1 -v -run 'TestEdge' ./wasm/edge/
+
+fuzz:
+	@for t in $(FUZZ_TARGETS); do \
+	  echo "fuzz $$t ($(FUZZTIME))"; \
+	  $(GO) test -run '^$$' -fuzz "^$$t\$$" -fuzztime $(FUZZTIME) $(FUZZ_PKG) || exit 1; \
+	done

@@ -1,0 +1,120 @@
+// Drawsift engine client: starts the engine worker, checks its version
+// against the page's, and turns worker messages into promises.
+"use strict";
+
+(function () {
+  const expected = document.querySelector('meta[name="drawsift-engine-version"]').content;
+
+  // Bundle mode: the single-file page carries the worker source and the
+  // gzip-compressed wasm in non-executed script elements.
+  function bundled() {
+    return document.getElementById("ds-wasm") !== null;
+  }
+
+  async function wasmBytes() {
+    const b64 = document.getElementById("ds-wasm").textContent.trim();
+    const bin = atob(b64);
+    const gz = new Uint8Array(bin.length);
+    for (let i = 0; i < bin.length; i++) gz[i] = bin.charCodeAt(i);
+    const stream = new Blob([gz]).stream().pipeThrough(new DecompressionStream("gzip"));
+    return await new Response(stream).arrayBuffer();
+  }
+
+  let bundleBytes = null; // decompressed once, copied for each (re)start
+
+  class Engine {
+    constructor() {
+      this.worker = null;
+      this.pending = new Map();
+      this.seq = 0;
+      this.version = null;
+      this.onstatus = () => {};
+    }
+
+    // start creates the worker and resolves with the engine's version.
+    async start() {
+      let w, init;
+      if (bundled()) {
+        const src = document.getElementById("ds-worker").textContent;
+        const url = URL.createObjectURL(new Blob([src], { type: "text/javascript" }));
+        w = new Worker(url);
+        URL.revokeObjectURL(url);
+        if (!bundleBytes) bundleBytes = await wasmBytes();
+        const copy = bundleBytes.slice(0);
+        init = () => w.postMessage({ type: "init", bytes: copy }, [copy]);
+      } else {
+        w = new Worker("worker.js");
+        const url = new URL("drawsift.wasm?v=" + encodeURIComponent(expected), document.baseURI).href;
+        init = () => w.postMessage({ type: "init", url: url });
+      }
+      this.worker = w;
+      const ready = new Promise((resolve, reject) => {
+        w.onmessage = ev => {
+          const m = ev.data;
+          if (m.type === "ready") resolve(m.version);
+          else if (m.type === "failed") reject(new Error(m.message));
+          else this.message(m);
+        };
+        w.onerror = ev => { ev.preventDefault(); reject(new Error(ev.message || "the engine worker failed")); };
+      });
+      init();
+      const v = await ready;
+      w.onmessage = ev => this.message(ev.data);
+      this.version = v;
+      if (v !== expected) {
+        throw new Error("The engine (version " + v + ") does not match this page (version " + expected +
+          "). Reload the page; if that does not help, clear this site's stored data.");
+      }
+      return v;
+    }
+
+    message(m) {
+      const p = this.pending.get(m.id);
+      if (!p) return;
+      if (m.type === "progress") { if (p.onProgress) p.onProgress(m.fraction); return; }
+      if (m.type === "done") {
+        this.pending.delete(m.id);
+        let data;
+        try { data = JSON.parse(m.text); } catch (e) { data = { error: { field: "", message: "unreadable engine reply" } }; }
+        p.resolve({ ok: m.ok, data: data });
+      }
+    }
+
+    // call runs op on body (an object); resolves {ok, data}. opts:
+    // onProgress(fraction), and signal (an AbortSignal) to cancel.
+    call(op, body, opts) {
+      opts = opts || {};
+      const id = "r" + (++this.seq);
+      return new Promise((resolve, reject) => {
+        this.pending.set(id, { resolve, reject, onProgress: opts.onProgress });
+        if (opts.signal) {
+          opts.signal.addEventListener("abort", () => this.cancel(id), { once: true });
+        }
+        this.worker.postMessage({ type: "call", id: id, op: op, body: JSON.stringify(body === undefined ? {} : body) });
+      });
+    }
+
+    // cancel asks the engine to stop; if it has not stopped within a
+    // second (a long step that never yields), the worker is replaced.
+    cancel(id) {
+      const p = this.pending.get(id);
+      if (!p) return;
+      this.worker.postMessage({ type: "cancel", id: id });
+      setTimeout(() => {
+        if (!this.pending.has(id)) return;
+        this.restart();
+      }, 1000);
+    }
+
+    restart() {
+      const old = this.worker;
+      for (const [, p] of this.pending) p.resolve({ ok: false, cancelled: true, data: { error: { field: "", message: "cancelled" } } });
+      this.pending.clear();
+      if (old) old.terminate();
+      this.onstatus("restarting");
+      return this.start().then(v => { this.onstatus("ready"); return v; });
+    }
+  }
+
+  window.DrawsiftEngine = Engine;
+})();

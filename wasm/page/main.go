@@ -1,0 +1,255 @@
+//go:build js && wasm
+
+// Command page is the engine as the page's Web Worker runs it: a js/wasm
+// build of engine/api.Dispatch, built with -tags stdjson (encoding/json
+// keeps the download within its 1.5 MB gzip budget).
+//
+// It registers three functions on the worker's global object:
+//
+//	drawsiftCall(id, op, body, onProgress, onDone)  start an operation
+//	drawsiftCancel(id)                              cancel it (its context)
+//	drawsiftEngineVersion                           api.EngineVersion (a string)
+//
+// drawsiftCall returns at once; the operation runs on its own goroutine
+// and ends with onDone(ok, text), text being the response or the
+// contract's error object. Long operations report onProgress(fraction).
+// While one runs it yields to the worker's event loop every few tens of
+// milliseconds, so that a cancel message posted by the page is seen.
+//
+// Besides the contract's operations it answers two of the page's own:
+// "presets" (membrane and feed presets, read from the engine's library)
+// and "batch" (a list of {op, body} run in one call, for the plots).
+// Both only decode, call the engine and encode.
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"fmt"
+	"sync"
+	"syscall/js"
+	"time"
+
+	"drawsift/engine/api"
+	"drawsift/engine/library"
+)
+
+func main() {
+	g := js.Global()
+	g.Set("drawsiftEngineVersion", api.EngineVersion)
+	g.Set("drawsiftCall", js.FuncOf(call))
+	g.Set("drawsiftCancel", js.FuncOf(cancel))
+	if ready := g.Get("drawsiftReady"); ready.Type() == js.TypeFunction {
+		ready.Invoke(api.EngineVersion)
+	}
+	select {}
+}
+
+var (
+	mu      sync.Mutex
+	running = map[string]context.CancelFunc{}
+)
+
+// call is drawsiftCall(id, op, body, onProgress, onDone).
+func call(this js.Value, args []js.Value) any {
+	if len(args) < 5 {
+		panic("drawsiftCall(id, op, body, onProgress, onDone)")
+	}
+	id, op, body := args[0].String(), args[1].String(), []byte(args[2].String())
+	onProgress, onDone := args[3], args[4]
+	ctx, stop := context.WithCancel(context.Background())
+	mu.Lock()
+	running[id] = stop
+	mu.Unlock()
+	go func() {
+		defer func() {
+			mu.Lock()
+			delete(running, id)
+			mu.Unlock()
+			stop()
+		}()
+		y := &yielder{last: time.Now()}
+		progress := func(f float64) {
+			if onProgress.Type() == js.TypeFunction {
+				onProgress.Invoke(f)
+			}
+			y.maybe()
+		}
+		out, e := run(ctx, op, body, progress, y)
+		onDone.Invoke(e == nil, string(out))
+	}()
+	return nil
+}
+
+// cancel is drawsiftCancel(id).
+func cancel(this js.Value, args []js.Value) any {
+	if len(args) < 1 {
+		return false
+	}
+	mu.Lock()
+	stop, ok := running[args[0].String()]
+	mu.Unlock()
+	if ok {
+		stop()
+	}
+	return ok
+}
+
+// yielder lets the worker's event loop run now and then during a long
+// computation: a goroutine that sleeps parks, the Go scheduler finds
+// nothing else to run and returns to JavaScript until the timer fires.
+type yielder struct{ last time.Time }
+
+// yieldEvery bounds the time between two yields (a cancel waits at most
+// about this long), and so the overhead (one timer, ~1–4 ms, per period).
+const yieldEvery = 40 * time.Millisecond
+
+func (y *yielder) maybe() {
+	if time.Since(y.last) < yieldEvery {
+		return
+	}
+	time.Sleep(time.Millisecond)
+	y.last = time.Now()
+}
+
+// run answers one operation.
+func run(ctx context.Context, op string, body []byte, progress func(float64), y *yielder) (out []byte, e *api.Error) {
+	defer func() {
+		if r := recover(); r != nil {
+			e = &api.Error{Message: "internal error", Kind: api.KindInternal}
+			out = encodeError(e)
+			fmt.Println("drawsift: internal error:", r)
+		}
+	}()
+	switch op {
+	case "presets":
+		return presets()
+	case "batch":
+		return batch(ctx, body, y)
+	case api.OpScreen:
+		return screen(ctx, body, progress)
+	}
+	out, e = api.Dispatch(ctx, op, body)
+	if e != nil && e.Kind == api.KindInternal {
+		fmt.Println("drawsift: internal error:", api.LastInternalError())
+	}
+	return out, e
+}
+
+// screen runs the screen with a progress callback. The request is decoded
+// as strictly as Dispatch decodes it; when decoding fails, Dispatch itself
+// answers, so the error is the contract's exact one.
+func screen(ctx context.Context, body []byte, progress func(float64)) ([]byte, *api.Error) {
+	var req api.ScreenRequest
+	if err := decodeStrict(body, &req); err != nil {
+		return api.Dispatch(ctx, api.OpScreen, body)
+	}
+	resp, e := api.Screen(ctx, &req, func(done, total int) {
+		if total > 0 {
+			progress(float64(done) / float64(total))
+		}
+	})
+	if e != nil {
+		return encodeError(e), e
+	}
+	return encode(resp)
+}
+
+// PresetsResponse lists the membrane and feed presets.
+type PresetsResponse struct {
+	Membranes     []*library.Membrane `json:"membranes"`
+	Feeds         []*library.Feed     `json:"feeds"`
+	EngineVersion string              `json:"engine_version"`
+}
+
+func presets() ([]byte, *api.Error) {
+	ms, err := library.Membranes()
+	if err != nil {
+		return internal("membrane presets: " + err.Error())
+	}
+	fs, err := library.Feeds()
+	if err != nil {
+		return internal("feed presets: " + err.Error())
+	}
+	return encode(PresetsResponse{Membranes: ms, Feeds: fs, EngineVersion: api.EngineVersion})
+}
+
+// batchItem is one operation of a batch.
+type batchItem struct {
+	Op   string          `json:"op"`
+	Body json.RawMessage `json:"body"`
+}
+
+// batchResult is one answer: the response or the error object.
+type batchResult struct {
+	OK     bool            `json:"ok"`
+	Result json.RawMessage `json:"result"`
+}
+
+// maxBatch bounds a batch (the plots need a few thousand points at most).
+const maxBatch = 20000
+
+// batch runs a list of osmotic and flux requests; one failure does not
+// stop the rest.
+func batch(ctx context.Context, body []byte, y *yielder) ([]byte, *api.Error) {
+	var items []batchItem
+	if err := decodeStrict(body, &items); err != nil {
+		e := api.Invalid("batch", nil, "malformed batch: %v", err)
+		return encodeError(e), e
+	}
+	if len(items) > maxBatch {
+		e := api.Invalid("batch", maxBatch, "a batch holds at most %d requests (got %d)", maxBatch, len(items))
+		return encodeError(e), e
+	}
+	res := make([]batchResult, len(items))
+	for i, it := range items {
+		if ctx.Err() != nil {
+			e := api.Invalid("batch", nil, "cancelled")
+			return encodeError(e), e
+		}
+		if it.Op != api.OpOsmotic && it.Op != api.OpFlux {
+			e := api.Invalid(fmt.Sprintf("batch[%d].op", i), []string{api.OpOsmotic, api.OpFlux}, "a batch runs osmotic and flux requests only (got %q)", it.Op)
+			res[i] = batchResult{OK: false, Result: encodeError(e)}
+			continue
+		}
+		out, e := api.Dispatch(ctx, it.Op, it.Body)
+		res[i] = batchResult{OK: e == nil, Result: out}
+		y.maybe()
+	}
+	return encode(res)
+}
+
+func decodeStrict(b []byte, v any) error {
+	dec := json.NewDecoder(bytes.NewReader(b))
+	dec.DisallowUnknownFields()
+	if err := dec.Decode(v); err != nil {
+		return err
+	}
+	if dec.More() {
+		return fmt.Errorf("unexpected data after the JSON value")
+	}
+	return nil
+}
+
+func encode(v any) ([]byte, *api.Error) {
+	b, err := json.Marshal(v)
+	if err != nil {
+		return internal("encoding the response: " + err.Error())
+	}
+	return b, nil
+}
+
+func internal(detail string) ([]byte, *api.Error) {
+	fmt.Println("drawsift: internal error:", detail)
+	e := &api.Error{Message: "internal error", Kind: api.KindInternal}
+	return encodeError(e), e
+}
+
+func encodeError(e *api.Error) []byte {
+	b, err := json.Marshal(api.ErrorBody{Error: e})
+	if err != nil {
+		return []byte(`{"error":{"field":"","message":"internal error"}}`)
+	}
+	return b
+}
