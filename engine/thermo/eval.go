@@ -232,6 +232,15 @@ func (x *Solution) ToMolality(v float64, u Unit) (float64, error) {
 		w = v / 100
 	case GPerKg:
 		w = v / 1000
+	case OsmolPerKg:
+		// ν·m·φ = v ⇔ π = (R T M_w/V̄_w)·v: invert π(m).
+		m, err := x.MolalityForPi(v * x.piPerG)
+		if err != nil {
+			lim := x.FromMolality(x.solMolal, u)
+			return 0, &InputError{Field: "concentration", Value: v, Limit: trimFloat(lim) + " " + u.String(),
+				Msg: fmt.Sprintf("%s cannot reach this osmolality below its solubility at %s °C", x.Solute.ID, trimFloat(x.tC))}
+		}
+		return m, nil
 	case MolPerL, GPerL:
 		k := v * x.mKg * 1000 // kg/m³
 		if u == GPerL {
@@ -264,6 +273,9 @@ func (x *Solution) FromMolality(m float64, u Unit) float64 {
 		return 1000 * x.massFractionFromMolality(m)
 	case WtPercent:
 		return 100 * x.massFractionFromMolality(m)
+	case OsmolPerKg:
+		pi, _ := x.piMono(m)
+		return pi / x.piPerG
 	}
 	return m
 }

@@ -73,7 +73,7 @@ func TestUnitRoundTrip(t *testing.T) {
 		}
 		for _, frac := range []float64{0.01, 0.3, 0.9} {
 			m := frac * math.Min(x.SolubilityMolPerKg(), x.CapMolPerKg())
-			for u := MolPerKg; u <= WtPercent; u++ {
+			for u := MolPerKg; u <= OsmolPerKg; u++ {
 				v := x.FromMolality(m, u)
 				back, err := x.ToMolality(v, u)
 				if err != nil {

@@ -11,14 +11,15 @@ type Unit int
 // Concentration units. Mass-based "g/kg" and "wt%" are per kilogram of
 // solution (the salinity convention); "mol/kg" is per kilogram of water.
 const (
-	MolPerKg  Unit = iota // molality, mol per kg of water
-	MolPerL               // molarity, mol per litre of solution
-	GPerL                 // grams of solute per litre of solution
-	GPerKg                // grams of solute per kg of solution
-	WtPercent             // mass percent of solute in solution
+	MolPerKg   Unit = iota // molality, mol per kg of water
+	MolPerL                // molarity, mol per litre of solution
+	GPerL                  // grams of solute per litre of solution
+	GPerKg                 // grams of solute per kg of solution
+	WtPercent              // mass percent of solute in solution
+	OsmolPerKg             // osmolality ν·m·φ, osmol per kg of water
 )
 
-var unitNames = [...]string{"mol/kg", "mol/L", "g/L", "g/kg", "wt%"}
+var unitNames = [...]string{"mol/kg", "mol/L", "g/L", "g/kg", "wt%", "osmol/kg"}
 
 // String returns the contract's spelling of the unit.
 func (u Unit) String() string {
@@ -46,6 +47,8 @@ func ParseUnit(s string) (Unit, error) {
 		return GPerKg, nil
 	case "wt%", "%", "wt.%", "mass%":
 		return WtPercent, nil
+	case "osmol/kg", "osm/kg":
+		return OsmolPerKg, nil
 	}
 	return 0, fmt.Errorf("unknown unit %q (accepted: %s)", s, strings.Join(unitNames[:], ", "))
 }

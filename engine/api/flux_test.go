@@ -1,0 +1,166 @@
+package api
+
+import (
+	"fmt"
+	"math"
+	"testing"
+)
+
+func fluxOK(t *testing.T, body string) map[string]any {
+	t.Helper()
+	m, e := dispatch(t, OpFlux, body)
+	if e != nil {
+		t.Fatalf("%s: %v", body, e)
+	}
+	return m
+}
+
+func num(t *testing.T, m map[string]any, k string) float64 {
+	t.Helper()
+	v, ok := m[k].(float64)
+	if !ok {
+		t.Fatalf("response lacks number %q", k)
+	}
+	return v
+}
+
+func TestFluxContract(t *testing.T) {
+	m := fluxOK(t, `{"membrane":{"a_lmh_per_bar":1.0,"b_lmh":0.3,"s_um":500},"orientation":"AL-FS",
+		"draw":{"solute":"NaCl","concentration":1.0,"unit":"mol/L"},
+		"feed":{"solute":"NaCl","concentration":0.0,"unit":"mol/L"},
+		"temperature_c":25,"k_draw_m_per_s":5e-5,"k_feed_m_per_s":5e-5,"external_cp":true,
+		"diffusivity_m2_per_s":1.47e-9,"osmotic_model":"real","delta_p_bar":0}`)
+	for _, k := range []string{"water_flux_lmh", "reverse_solute_flux_gmh", "reverse_solute_flux_mmol_per_m2_h",
+		"specific_reverse_solute_flux_g_per_l", "draw_osmotic_pressure_bar", "feed_osmotic_pressure_bar",
+		"flux_efficiency", "profiles", "warnings", "solver"} {
+		if _, ok := m[k]; !ok {
+			t.Errorf("flux response lacks %q", k)
+		}
+	}
+	jw := num(t, m, "water_flux_lmh")
+	if !(jw > 0 && jw < 49) { // below A·π_bulk = 1 LMH/bar × 47 bar
+		t.Errorf("Jw = %g LMH", jw)
+	}
+	// gMH = mmol/m²/h × M(NaCl) / 1000 (arithmetic).
+	if g, mm := num(t, m, "reverse_solute_flux_gmh"), num(t, m, "reverse_solute_flux_mmol_per_m2_h"); math.Abs(g-mm*58.4398/1000) > 1e-9*g {
+		t.Errorf("gMH %g vs mmol %g", g, mm)
+	}
+}
+
+// Phillip, Yong & Elimelech (2010): with van 't Hoff draws,
+// Js/Jw = B/(A·ν·R·T) for any S, k and concentration. For B = 0.3 LMH,
+// A = 1 LMH/bar, NaCl at 25 °C: 0.3/(1·2·0.0831446·298.15) = 6.051e-3 mol/L
+// = 0.3536 g/L (science.md §10.4, arithmetic).
+func TestFluxSRSFVantHoff(t *testing.T) {
+	for _, o := range []string{"AL-FS", "AL-DS"} {
+		for _, s := range []int{100, 500, 2000} {
+			m := fluxOK(t, fmt.Sprintf(`{"membrane":{"a_lmh_per_bar":1,"b_lmh":0.3,"s_um":%d},"orientation":%q,
+				"draw":{"solute":"NaCl","concentration":1.5,"unit":"mol/L"},"osmotic_model":"van-t-hoff",
+				"k_draw_m_per_s":3e-5,"k_feed_m_per_s":8e-5}`, s, o))
+			want := 0.3 / (1 * 2 * 0.0831446261815324 * 298.15)
+			if got := num(t, m, "specific_reverse_solute_flux_mol_per_l"); math.Abs(got/want-1) > 1e-9 {
+				t.Errorf("%s S=%d: SRSF %.10g mol/L, want %.10g", o, s, got, want)
+			}
+			if got := num(t, m, "specific_reverse_solute_flux_g_per_l"); math.Abs(got-0.3536) > 5e-4 {
+				t.Errorf("%s S=%d: SRSF %.4g g/L, want 0.3536", o, s, got)
+			}
+		}
+	}
+}
+
+// Trends the model must show (McCutcheon & Elimelech 2006): AL-DS beats
+// AL-FS for a pure-water feed when S/D ≫ 1/k. Without polarization a real
+// MgCl2 draw gives more flux than van 't Hoff predicts at 2 mol/L (its
+// φ > 1 there; CRC γ±, Robinson & Stokes). With strong ICP the order can
+// flip, because the diluted face sits where MgCl2's φ < 1 — the reason
+// interface concentrations, not scaled bulk π, feed the real model.
+func TestFluxTrends(t *testing.T) {
+	body := `{"membrane":{"preset":"tfc-standard"},"orientation":%q,"draw":{"solute":"NaCl","concentration":1,"unit":"mol/L"},"k_draw_m_per_s":1e-4,"k_feed_m_per_s":1e-4}`
+	fs := num(t, fluxOK(t, fmt.Sprintf(body, "AL-FS")), "water_flux_lmh")
+	ds := num(t, fluxOK(t, fmt.Sprintf(body, "AL-DS")), "water_flux_lmh")
+	if !(ds > fs) {
+		t.Errorf("AL-DS %g LMH should exceed AL-FS %g LMH for DI feed", ds, fs)
+	}
+	mg := `{"membrane":{"a_lmh_per_bar":0.2,"b_lmh":0,"s_um":1},"external_cp":false,"draw":{"solute":"MgCl2","concentration":2,"unit":"mol/L"},"osmotic_model":%q}`
+	real := num(t, fluxOK(t, fmt.Sprintf(mg, "real")), "water_flux_lmh")
+	ideal := num(t, fluxOK(t, fmt.Sprintf(mg, "van-t-hoff")), "water_flux_lmh")
+	if !(real > ideal) {
+		t.Errorf("MgCl2 2 M: real-π flux %g should exceed van 't Hoff %g", real, ideal)
+	}
+}
+
+// A draw and a different feed solute: each crosses with its own B; the
+// seawater feed's salt moves into the draw (forward flux > 0).
+func TestFluxTwoSolutes(t *testing.T) {
+	m := fluxOK(t, `{"membrane":{"preset":"tfc-high-flux"},"orientation":"AL-FS",
+		"draw":{"solute":"MgCl2","concentration":2,"unit":"mol/L"},
+		"feed":{"solute":"seawater","concentration":35,"unit":"g/kg"}}`)
+	fwd, ok := m["forward_solute_flux_gmh"].(float64)
+	if !ok || !(fwd > 0) {
+		t.Errorf("forward solute flux = %v", m["forward_solute_flux_gmh"])
+	}
+	if p := m["profiles"].([]any); len(p) != 2 {
+		t.Errorf("want two species profiles, got %d", len(p))
+	}
+	if fp := num(t, m, "feed_osmotic_pressure_bar"); math.Abs(fp-25.9) > 0.3 {
+		// Sharqawy et al. (2010): 35 g/kg at 25 °C → 25.89 bar.
+		t.Errorf("seawater feed π = %g bar", fp)
+	}
+}
+
+func TestFluxPressureAndReverseFlow(t *testing.T) {
+	m := fluxOK(t, `{"membrane":{"preset":"tfc-standard"},"orientation":"AL-DS","draw":{"solute":"NaCl","concentration":1,"unit":"mol/L"},"delta_p_bar":10}`)
+	if w, ok := m["power_density_w_per_m2"].(float64); !ok || !(w > 0) {
+		t.Errorf("PRO power density = %v", m["power_density_w_per_m2"])
+	}
+	m = fluxOK(t, `{"membrane":{"preset":"tfc-standard"},"draw":{"solute":"NaCl","concentration":0.1,"unit":"mol/L"},"feed":{"solute":"seawater","concentration":35,"unit":"g/kg"}}`)
+	if jw := num(t, m, "water_flux_lmh"); !(jw < 0) {
+		t.Errorf("feed π above draw π must give reverse flow, got %g LMH", jw)
+	}
+	if w := m["warnings"].([]any); len(w) == 0 {
+		t.Error("reverse flow must carry a warning")
+	}
+}
+
+func TestFluxErrors(t *testing.T) {
+	draw := `"draw":{"solute":"NaCl","concentration":1,"unit":"mol/L"}`
+	for _, tc := range []struct{ name, body, field string }{
+		{"no membrane", `{` + draw + `}`, "membrane"},
+		{"unknown preset", `{"membrane":{"preset":"graphene-dream"},` + draw + `}`, "membrane.preset"},
+		{"negative A", `{"membrane":{"a_lmh_per_bar":-1,"b_lmh":0.3,"s_um":500},` + draw + `}`, "membrane.a_lmh_per_bar"},
+		{"zero S", `{"membrane":{"a_lmh_per_bar":1,"b_lmh":0.3,"s_um":0},` + draw + `}`, "membrane.s_um"},
+		{"negative B", `{"membrane":{"a_lmh_per_bar":1,"b_lmh":-0.3,"s_um":500},` + draw + `}`, "membrane.b_lmh"},
+		{"custom without B", `{"membrane":{"a_lmh_per_bar":1,"s_um":500},` + draw + `}`, "membrane.b_lmh"},
+		{"orientation", `{"membrane":{"preset":"tfc-standard"},"orientation":"sideways",` + draw + `}`, "orientation"},
+		{"model", `{"membrane":{"preset":"tfc-standard"},"osmotic_model":"magic",` + draw + `}`, "osmotic_model"},
+		{"no draw", `{"membrane":{"preset":"tfc-standard"}}`, "draw"},
+		{"draw solute", `{"membrane":{"preset":"tfc-standard"},"draw":{"solute":"xx","concentration":1,"unit":"mol/L"}}`, "draw.solute"},
+		{"draw solubility", `{"membrane":{"preset":"tfc-standard"},"draw":{"solute":"K2SO4","concentration":2,"unit":"mol/L"}}`, "draw.concentration"},
+		{"feed unit", `{"membrane":{"preset":"tfc-standard"},` + draw + `,"feed":{"solute":"NaCl","concentration":1,"unit":"ppm"}}`, "feed.unit"},
+		{"k range", `{"membrane":{"preset":"tfc-standard"},` + draw + `,"k_draw_m_per_s":-1}`, "k_draw_m_per_s"},
+		{"D range", `{"membrane":{"preset":"tfc-standard"},` + draw + `,"diffusivity_m2_per_s":1}`, "diffusivity_m2_per_s"},
+		{"delta p", `{"membrane":{"preset":"tfc-standard"},` + draw + `,"delta_p_bar":1e6}`, "delta_p_bar"},
+		{"temperature", `{"membrane":{"preset":"tfc-standard"},` + draw + `,"temperature_c":-20}`, "temperature_c"},
+		{"channel", `{"membrane":{"preset":"tfc-standard"},` + draw + `,"channel":{"height_mm":0,"width_mm":26,"length_mm":77,"crossflow_velocity_m_per_s":0.25}}`, "channel.height_mm"},
+	} {
+		_, e := dispatch(t, OpFlux, tc.body)
+		if e == nil || e.Field != tc.field {
+			t.Errorf("%s: got %+v, want error on %q", tc.name, e, tc.field)
+		}
+	}
+}
+
+// No external CP: both k reported as "none"; with S → 0 and B = 0 the flux
+// equals A·(π_D − π_F) (ideal semipermeable membrane, no polarization).
+func TestFluxNoPolarizationLimit(t *testing.T) {
+	m := fluxOK(t, `{"membrane":{"a_lmh_per_bar":0.1,"b_lmh":0,"s_um":1},"external_cp":false,
+		"draw":{"solute":"NaCl","concentration":1,"unit":"mol/L"},"feed":{"solute":"NaCl","concentration":0.1,"unit":"mol/L"}}`)
+	// Residual ICP: J·S/D ≈ 2.4e-6 m/s × 667 s/m ≈ 0.16 %.
+	want := 0.1 * (num(t, m, "draw_osmotic_pressure_bar") - num(t, m, "feed_osmotic_pressure_bar"))
+	if got := num(t, m, "water_flux_lmh"); math.Abs(got/want-1) > 2e-3 {
+		t.Errorf("Jw = %g, A·Δπ = %g", got, want)
+	}
+	if m["k_draw"].(map[string]any)["origin"] != "none" {
+		t.Errorf("k_draw origin %v", m["k_draw"])
+	}
+}
