@@ -115,8 +115,9 @@ type SweepSpec struct {
 	Unit     string  `json:"unit,omitempty"`
 }
 
-// CustomSolute is a user-defined candidate: van 't Hoff osmotic pressure
-// (no non-ideal model), flagged as such.
+// CustomSolute is a user-defined candidate. With a measured π table
+// (pi_table) its osmotic pressure is interpolated monotonically from the
+// table; without one it is the van 't Hoff value, flagged as such.
 type CustomSolute struct {
 	ID                 string      `json:"id"`
 	Name               string      `json:"name,omitempty"`
@@ -130,6 +131,9 @@ type CustomSolute struct {
 	PriceUSDPerKgMax   *float64    `json:"price_usd_per_kg_max,omitempty"`
 	HazardFlags        []string    `json:"hazard_flags,omitempty"`
 	Source             string      `json:"source,omitempty"`
+	// PiTable is a measured osmotic-pressure table: {"temperature_c",
+	// "unit", "points": [{"concentration", "osmotic_pressure_bar"}, …]}.
+	PiTable *library.PiTable `json:"pi_table,omitempty"`
 }
 
 // CustomIon is one ion of a custom solute.
@@ -829,6 +833,26 @@ func customSolute(i int, cs *CustomSolute, lib *library.Library) (*library.Solut
 		VantHoffNu: cs.VantHoffFactor}
 	if cs.VantHoffFactor < 0 || cs.VantHoffFactor > 10 {
 		return nil, Invalid(field("van_t_hoff_factor"), "0–10", "van_t_hoff_factor = %g is outside 0–10", cs.VantHoffFactor)
+	}
+	if t := cs.PiTable; t != nil {
+		if _, err := thermo.ParseUnit(t.Unit); err != nil || t.Unit == thermo.OsmolPerKg.String() {
+			return nil, Invalid(field("pi_table.unit"), []string{"mol/kg", "mol/L", "g/L", "g/kg", "wt%"}, "unknown table unit %q", t.Unit)
+		}
+		if !(t.TemperatureC >= thermo.MinTemperatureC && t.TemperatureC <= thermo.MaxTemperatureC) {
+			return nil, Invalid(field("pi_table.temperature_c"), "0–100 °C", "table temperature %g °C is outside 0–100 °C", t.TemperatureC)
+		}
+		if len(t.Points) < 2 || len(t.Points) > 1000 {
+			return nil, Invalid(field("pi_table.points"), "2–1000 points", "a measured table needs 2 to 1000 points")
+		}
+		prevC, prevP := 0.0, 0.0
+		for j, p := range t.Points {
+			if !(p.Concentration > prevC) || !(p.OsmoticPressureBar > prevP) || math.IsInf(p.Concentration, 0) || p.OsmoticPressureBar > 1e4 {
+				return nil, Invalid(fmt.Sprintf("custom_solutes[%d].pi_table.points[%d]", i, j), "increasing, positive",
+					"concentration and osmotic pressure must both be positive and increase from point to point")
+			}
+			prevC, prevP = p.Concentration, p.OsmoticPressureBar
+		}
+		s.Osmotic = library.OsmoticModel{Kind: library.ModelTable, Table: t, VantHoffNu: cs.VantHoffFactor}
 	}
 	switch {
 	case cs.Miscible:

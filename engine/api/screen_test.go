@@ -216,3 +216,35 @@ func TestScreenSweepAndWaterFluxBasis(t *testing.T) {
 		t.Fatalf("sweep malformed: %+v", r.Sweep)
 	}
 }
+
+// A custom solute with a pasted, measured π table is screened with the
+// table's osmotic pressure (monotone interpolation), and a malformed table
+// is an error naming the point.
+func TestScreenCustomPiTable(t *testing.T) {
+	body := `{"candidates":["NaCl","poly"],"basis":{"kind":"osmotic-pressure","value":20,"unit":"bar"},
+		"custom_solutes":[{"id":"poly","molar_mass_g_per_mol":20000,"diffusivity_m2_per_s":1e-10,"solubility_mol_per_kg":0.05,
+		"pi_table":{"temperature_c":25,"unit":"g/L","points":[{"concentration":100,"osmotic_pressure_bar":5},
+		{"concentration":200,"osmotic_pressure_bar":15},{"concentration":300,"osmotic_pressure_bar":32}]}}]}`
+	m, e := dispatch(t, OpScreen, body)
+	if e != nil {
+		t.Fatal(e)
+	}
+	found := false
+	for _, c := range m["candidates"].([]any) {
+		c := c.(map[string]any)
+		if c["solute"] == "poly" {
+			found = true
+			if g := c["concentration_g_per_l"].(float64); !(g > 200 && g < 300) {
+				t.Errorf("20 bar lies between the 200 and 300 g/L points; got %g g/L", g)
+			}
+		}
+	}
+	if !found {
+		t.Errorf("custom table solute not ranked: %v", m["excluded"])
+	}
+	bad := strings.Replace(body, `"osmotic_pressure_bar":15`, `"osmotic_pressure_bar":3`, 1)
+	_, e = dispatch(t, OpScreen, bad)
+	if e == nil || e.Field != "custom_solutes[0].pi_table.points[1]" {
+		t.Errorf("non-increasing table: %+v", e)
+	}
+}
