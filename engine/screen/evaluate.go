@@ -100,19 +100,30 @@ type perturb struct {
 var nominal = perturb{fA: 1, fB: 1, fS: 1, fPi: 1, fD: 1, price: -1}
 
 // scaledPi multiplies a solution's π(c) by a factor (model uncertainty, or
-// van 't Hoff mode).
+// van 't Hoff mode). The real π comes from the Solution's tabulated
+// FastOsmoticFunc (within 1e-8 of the model), since screens and robustness
+// runs call it millions of times.
 type scaledPi struct {
 	x    *thermo.Solution
 	f    float64
 	vh   bool
 	nuRT float64
+	fast func(float64) (float64, float64)
+}
+
+func newScaledPi(x *thermo.Solution, vh bool, tK float64) scaledPi {
+	s := scaledPi{x: x, f: 1, vh: vh, nuRT: x.Nu() * thermo.GasConstant * tK}
+	if !vh {
+		s.fast = x.FastOsmoticFunc()
+	}
+	return s
 }
 
 func (s *scaledPi) fn(c float64) (float64, float64) {
 	if s.vh {
 		return s.f * s.nuRT * c, s.f * s.nuRT
 	}
-	p, d := s.x.OsmoticFunc(c)
+	p, d := s.fast(c)
 	return s.f * p, s.f * d
 }
 
@@ -196,7 +207,7 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 		e.feedX, e.feedSol, e.feedM = x, f.Solute, m
 		e.feedC = x.MolarityMolPerM3(m)
 		e.feedD = x.DiffusivityM2PerS(m)
-		e.feedPi = scaledPi{x: x, f: 1, vh: sc.VantHoff, nuRT: x.Nu() * thermo.GasConstant * e.tK}
+		e.feedPi = newScaledPi(x, sc.VantHoff, e.tK)
 		e.feedFn = e.feedPi.fn
 		e.feedPiPa, _ = e.feedFn(e.feedC)
 		for _, w := range x.Warnings {
@@ -256,7 +267,7 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 		}
 		c.x = x
 		c.warnings = append(c.warnings, x.Warnings...)
-		c.pi = scaledPi{x: x, f: 1, vh: sc.VantHoff, nuRT: x.Nu() * thermo.GasConstant * e.tK}
+		c.pi = newScaledPi(x, sc.VantHoff, e.tK)
 		c.piFn = c.pi.fn
 		c.osmRelSD = DefaultOsmoticRelSD
 		if s.Osmotic.Kind == library.ModelNone {

@@ -52,6 +52,8 @@ type Solution struct {
 
 	// Warnings that hold for every concentration at this temperature.
 	Warnings []string
+
+	fastState // the table behind FastOsmoticFunc, built on first use
 }
 
 // NewSolution prepares s at tK kelvin. It fails with an *InputError if tK
