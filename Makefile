@@ -14,11 +14,14 @@ all: build
 build:
 	$(GO) build $(GOFLAGS) -o $(BIN)/drawsift ./cmd/drawsift
 
-# The main job on the built-in demo.
+# The main job on the built-in demo: the ranked screen of a brackish-water
+# field station (drawsift screen --demo).
 run: build
-	./$(BIN)/drawsift demo
+	./$(BIN)/drawsift screen --demo --format table
 
-demo: run
+# The osmotic-pressure table of six common draws, real vs van 't Hoff.
+demo: build
+	./$(BIN)/drawsift demo
 
 # Everything CI checks.
 test: vet lint test-native test-wasm refcheck
