@@ -24,12 +24,12 @@ demo: build
 	./$(BIN)/drawsift demo
 
 # Everything CI checks.
-test: vet lint test-native test-wasm refcheck
+test: vet lint test-native test-wasm refcheck fuzz
 
 vet:
 	@test -z "$$(gofmt -l $$(git ls-files '*.go' 2>/dev/null || find . -name '*.go'))" || (echo 'gofmt needed:'; gofmt -l .; false)
 	$(GO) vet ./...
-	GOOS=js GOARCH=wasm $(GO) vet ./engine/...
+	GOOS=js GOARCH=wasm $(GO) vet ./engine/... ./wasm/...
 
 # The engine stays pure: no syscall/js, and only the standard library,
 # gonum and our own packages (plus go-json behind engine/internal/jsonx).

@@ -127,7 +127,7 @@ func runOp(op string, args []string, stdin io.Reader, stdout, stderr io.Writer) 
 		stdout.Write(out)
 		fmt.Fprintln(stdout)
 		if e.Kind == api.KindInternal {
-			fmt.Fprintln(stderr, "drawsift: internal error:", api.LastInternalError())
+			fmt.Fprintln(stderr, "drawsift: internal error:", e.Detail())
 		}
 		return 2
 	}

@@ -43,7 +43,14 @@ type Error struct {
 	Message string `json:"message"`
 	Limit   any    `json:"limit,omitempty"`
 	Kind    string `json:"-"`
+	// detail holds what an internal error hides from users, for host logs.
+	detail string
 }
+
+// Detail returns the internal details of a KindInternal error (a panic's
+// value and stack, or the failing step) for host logs; users only see
+// "internal error".
+func (e *Error) Detail() string { return e.detail }
 
 func (e *Error) Error() string {
 	if e.Field == "" {
@@ -66,13 +73,12 @@ func Invalid(field string, limit any, format string, a ...any) *Error {
 // response. On failure it returns the encoded error object and the
 // *Error (whose Kind selects the HTTP status). A panic inside the engine
 // becomes a KindInternal error: the message says "internal error" and the
-// details go to the returned error's unexported log text.
+// details are kept for host logs in the returned error's Detail.
 func Dispatch(ctx context.Context, op string, body []byte) (out []byte, e *Error) {
 	defer func() {
 		if r := recover(); r != nil {
-			e = &Error{Message: "internal error", Kind: KindInternal}
+			e = &Error{Message: "internal error", Kind: KindInternal, detail: fmt.Sprintf("panic: %v\n%s", r, debug.Stack())}
 			out = encodeError(e)
-			lastPanic.Store(fmt.Sprintf("%v\n%s", r, debug.Stack()))
 		}
 	}()
 	var resp any
@@ -106,8 +112,7 @@ func Dispatch(ctx context.Context, op string, body []byte) (out []byte, e *Error
 	if err != nil {
 		// Only a non-finite float can fail here; the engine guards against
 		// them, so this is a bug.
-		e = &Error{Message: "internal error", Kind: KindInternal}
-		lastPanic.Store("marshal: " + err.Error())
+		e = &Error{Message: "internal error", Kind: KindInternal, detail: "marshal: " + err.Error()}
 		return encodeError(e), e
 	}
 	return b, nil

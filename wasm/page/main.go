@@ -132,7 +132,7 @@ func run(ctx context.Context, op string, body []byte, progress func(float64), y 
 	}
 	out, e = api.Dispatch(ctx, op, body)
 	if e != nil && e.Kind == api.KindInternal {
-		fmt.Println("drawsift: internal error:", api.LastInternalError())
+		fmt.Println("drawsift: internal error:", e.Detail())
 	}
 	return out, e
 }

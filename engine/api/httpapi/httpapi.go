@@ -211,7 +211,7 @@ func (h *handler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	out, e := h.dispatch(r.Context(), rt.op, body)
 	if e != nil {
 		if e.Kind == api.KindInternal {
-			h.logf("request %s: %s: internal error: %s", id, rt.op, api.LastInternalError())
+			h.logf("request %s: %s: internal error: %s", id, rt.op, e.Detail())
 		}
 		h.writeError(w, id, e)
 		return

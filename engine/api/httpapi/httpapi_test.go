@@ -136,8 +136,9 @@ func TestSolutes(t *testing.T) {
 func TestOsmotic(t *testing.T) {
 	m := okJSON(t, post(New(Options{}), "/v1/osmotic", osmoticNaCl))
 	// 1 mol/kg NaCl at 25 °C: φ = 0.936 (Robinson & Stokes 1959, Electrolyte
-	// Solutions, appendix 8.10), so π ≈ 46 bar; the engine's own tests
-	// check the figures; here the transport must carry them intact.
+	// Solutions, appendix 8.10; value from memory), so π ≈ 46 bar. The
+	// engine's own tests check the figures against their sources; here the
+	// transport must carry them intact.
 	if phi := num(t, m, "osmotic_coefficient"); math.Abs(phi-0.936) > 0.005 {
 		t.Errorf("osmotic_coefficient = %g, want 0.936 ± 0.005", phi)
 	}

@@ -1,0 +1,116 @@
+package main
+
+import (
+	"encoding/json"
+	"strings"
+	"testing"
+)
+
+// TestCLIBadInput: named bad inputs to the CLI. A request error prints the
+// contract's error object on standard output, naming the exact field, with
+// exit status 2; in a batch it is the failing scenario's line.
+func TestCLIBadInput(t *testing.T) {
+	osm := `{"solute":"NaCl","concentration":1,"unit":"mol/kg"}`
+	flux := `{"membrane":{"a_lmh_per_bar":1,"b_lmh":0.3,"s_um":500},"orientation":"AL-FS","draw":{"solute":"NaCl","concentration":1,"unit":"mol/L"}}`
+	with := func(s, old, new string) string {
+		if !strings.Contains(s, old) {
+			t.Fatalf("%q not in %s", old, s)
+		}
+		return strings.Replace(s, old, new, 1)
+	}
+	for _, tc := range []struct {
+		name  string
+		args  []string
+		stdin string
+		field string
+		line  int // for a batch: the output line holding the error (-1: single)
+	}{
+		{"osmotic malformed JSON", []string{"osmotic"}, `{"solute":"NaCl",`, "", -1},
+		{"osmotic empty input", []string{"osmotic"}, "", "", -1},
+		{"osmotic wrong type", []string{"osmotic"}, with(osm, `1,`, `[1],`), "concentration", -1},
+		{"osmotic unknown solute", []string{"osmotic"}, with(osm, "NaCl", "NaCI"), "solute", -1},
+		{"osmotic NaN", []string{"osmotic"}, with(osm, `1,`, `NaN,`), "", -1},
+		{"osmotic negative", []string{"osmotic"}, with(osm, `1,`, `-1,`), "concentration", -1},
+		{"osmotic unknown unit", []string{"osmotic"}, with(osm, "mol/kg", "mmol/kg"), "unit", -1},
+		{"osmotic unknown field", []string{"osmotic"}, with(osm, `"unit"`, `"temp":25,"unit"`), "temp", -1},
+		{"osmotic deeply nested", []string{"osmotic"}, `{"solute":` + strings.Repeat("[", 50000) + strings.Repeat("]", 50000) + `}`, "", -1},
+		{"flux unknown orientation", []string{"flux"}, with(flux, "AL-FS", "FS-AL"), "orientation", -1},
+		{"flux missing draw", []string{"flux", "--format", "csv"}, with(flux, `,"draw":{"solute":"NaCl","concentration":1,"unit":"mol/L"}`, ``), "draw", -1},
+		{"flux huge S", []string{"flux"}, with(flux, `"s_um":500`, `"s_um":5e8`), "membrane.s_um", -1},
+		{"screen unknown candidate", []string{"screen"}, `{"candidates":["Unobtainium"]}`, "candidates[0]", -1},
+		{"screen batch malformed element", []string{"screen"}, `[{"candidates":["NaCl"]}, {"candidates": ]`, "[1]", -1},
+		{"screen batch empty array", []string{"screen"}, `[ ]`, "[0]", -1},
+		{"screen batch trailing data", []string{"screen"}, `[{"candidates":["NaCl"]}] {}`, "", -1},
+		{"screen NDJSON malformed line", []string{"screen"}, `{"candidates":["NaCl"]}` + "\n" + `{"candidates":` + "\n", "", 1},
+		{"screen NDJSON unknown field", []string{"screen"}, `{"candidates":["NaCl"]}` + "\n" + `{"candidatez":["NaCl"]}` + "\n", "candidatez", 1},
+		{"screen array wrong type", []string{"screen"}, `[{"candidates":"NaCl"}]`, "candidates", 0},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			code, out, errOut := runCLI(t, tc.stdin, tc.args...)
+			if code != 2 {
+				t.Fatalf("exit %d, want 2 (stderr %q, stdout %.200s)", code, errOut, out)
+			}
+			lines := strings.Split(strings.TrimSpace(out), "\n")
+			var e struct {
+				Index *int `json:"index"`
+				Error *struct {
+					Field   string `json:"field"`
+					Message string `json:"message"`
+					Limit   any    `json:"limit"`
+				} `json:"error"`
+				Result json.RawMessage `json:"result"`
+			}
+			text := lines[0]
+			if tc.line >= 0 {
+				if tc.line >= len(lines) {
+					t.Fatalf("no output line %d: %s", tc.line, out)
+				}
+				text = lines[tc.line]
+			} else if len(lines) != 1 {
+				t.Fatalf("want one error object, got %d lines: %.300s", len(lines), out)
+			}
+			dec := json.NewDecoder(strings.NewReader(text))
+			dec.DisallowUnknownFields()
+			if err := dec.Decode(&e); err != nil || e.Error == nil || e.Error.Message == "" {
+				t.Fatalf("not the contract's error object (%v): %s", err, text)
+			}
+			if e.Error.Field != tc.field {
+				t.Errorf("field %q, want %q (message %q)", e.Error.Field, tc.field, e.Error.Message)
+			}
+			if tc.line >= 0 && (e.Index == nil || *e.Index != tc.line) {
+				t.Errorf("batch line %d: index %v", tc.line, e.Index)
+			}
+		})
+	}
+}
+
+// TestCLIBadFlags: misuse of the batch and serve flags is a usage error
+// (exit 1) naming the flag.
+func TestCLIBadFlags(t *testing.T) {
+	batch := `[{"candidates":["NaCl"]},{"candidates":["KCl"]}]`
+	for _, tc := range []struct {
+		name  string
+		args  []string
+		stdin string
+		want  string
+	}{
+		{"remote not a URL", []string{"screen", "--remote", "127.0.0.1:8080"}, batch, "--remote"},
+		{"remote bad scheme", []string{"screen", "--remote", "ftp://host/"}, batch, "--remote"},
+		{"concurrency too high", []string{"screen", "--concurrency", "100000"}, batch, "--concurrency"},
+		{"concurrency negative", []string{"screen", "--concurrency", "-2"}, batch, "--concurrency"},
+		{"retries too many", []string{"screen", "--retries", "99"}, batch, "--retries"},
+		{"timeout zero", []string{"screen", "--timeout", "0s"}, batch, "--timeout"},
+		{"table for a batch", []string{"screen", "--format", "table"}, batch, "--format table"},
+		{"concurrency not a number", []string{"screen", "--concurrency", "many"}, batch, "-concurrency"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			code, out, errOut := runCLI(t, tc.stdin, tc.args...)
+			if code != 1 {
+				t.Errorf("exit %d, want 1 (stdout %.200s)", code, out)
+			}
+			if !strings.Contains(errOut, tc.want) {
+				t.Errorf("stderr should name %s: %q", tc.want, errOut)
+			}
+		})
+	}
+}
