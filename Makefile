@@ -7,16 +7,24 @@ GOFLAGS  ?= -trimpath -buildvcs=false
 WASMEXEC := $(shell $(GO) env GOROOT)/lib/wasm/go_js_wasm_exec
 BIN      := bin
 
-.PHONY: all build run demo test test-native test-wasm vet lint refcheck refdata bench bench-wasm clean
+PORT ?= 8080
+
+.PHONY: all build run demo demo-screen test test-native test-wasm vet lint refcheck refdata bench bench-wasm clean
 
 all: build
 
 build:
 	$(GO) build $(GOFLAGS) -o $(BIN)/drawsift ./cmd/drawsift
 
-# The main job on the built-in demo: the ranked screen of a brackish-water
-# field station (drawsift screen --demo).
-run: build
+# The main job on the built-in demo: the page (engine as WebAssembly in
+# the browser) with the demo scenario loaded on first visit, served with
+# the HTTP API on 127.0.0.1:$(PORT). The same screen on the terminal:
+# make demo-screen.
+run: build wasm
+	./$(BIN)/drawsift serve --addr 127.0.0.1:$(PORT) --wasm $(PAGE_WASM)
+
+# The ranked demo screen of a brackish-water field station, in the terminal.
+demo-screen: build
 	./$(BIN)/drawsift screen --demo --format table
 
 # The osmotic-pressure table of six common draws, real vs van 't Hoff.

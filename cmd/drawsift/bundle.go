@@ -77,7 +77,8 @@ var (
 //
 // The page's scripts move, in order, to the end of <body> as inline
 // scripts (inline scripts cannot be deferred). The worker's source
-// (wasm_exec.js, then worker.js) and the gzip-compressed wasm travel in
+// (wasm_exec.js, then worker.js), the demo scenario and the
+// gzip-compressed wasm travel in
 // <script> elements of non-script types, which the browser never runs;
 // engine.js builds the worker from a Blob and decompresses the wasm with
 // DecompressionStream. The manifest is dropped (file:// has no service
@@ -129,7 +130,11 @@ func buildBundle(files fs.FS, wasm, wasmExec []byte) ([]byte, error) {
 		return nil, err
 	}
 	workerSrc := string(wasmExec) + "\n" + worker
-	for _, s := range append([]string{css, workerSrc}, scripts...) {
+	demo, err := read("demo.json")
+	if err != nil {
+		return nil, err
+	}
+	for _, s := range append([]string{css, workerSrc, demo}, scripts...) {
 		if strings.Contains(strings.ToLower(s), "</script") || strings.Contains(strings.ToLower(s), "</style") {
 			return nil, fmt.Errorf("a script or style contains a closing tag and cannot be inlined")
 		}
@@ -142,6 +147,7 @@ func buildBundle(files fs.FS, wasm, wasmExec []byte) ([]byte, error) {
 	}
 
 	var tail strings.Builder
+	tail.WriteString(`<script type="application/json" id="ds-demo">` + demo + "</script>\n")
 	tail.WriteString(`<script type="text/plain" id="ds-worker">` + workerSrc + "</script>\n")
 	tail.WriteString(`<script type="application/octet-stream" id="ds-wasm">`)
 	tail.WriteString(base64.StdEncoding.EncodeToString(gz.Bytes()))

@@ -6,6 +6,7 @@ import (
 	"crypto/sha256"
 	"encoding/base64"
 	"fmt"
+	"io"
 	"io/fs"
 	"net/http"
 	"os"
@@ -43,10 +44,10 @@ var contentTypes = map[string]string{
 // siteFile is one file ready to serve: its bytes, the gzip form when that
 // is smaller, its media type and an ETag.
 type siteFile struct {
-	body, gz []byte
-	ctype    string
-	etag     string
-	mod      time.Time
+	body, gz, br []byte
+	ctype        string
+	etag         string
+	mod          time.Time
 }
 
 func newSiteFile(name string, b []byte, mod time.Time) *siteFile {
@@ -126,8 +127,38 @@ func (h *siteHandler) fromDisk(p string) (*siteFile, error) {
 		return nil, err
 	}
 	f := newSiteFile(p, b, st.ModTime())
+	// Precompressed forms written by `make wasm` (gzip -9, and brotli where
+	// the brotli tool is installed) are used when they are not older than
+	// the file: smaller than Go's own gzip, and brotli far smaller.
+	if gz := fresher(p+".gz", st.ModTime()); gz != nil && gunzipEqual(gz, b) {
+		f.gz = gz
+	}
+	f.br = fresher(p+".br", st.ModTime())
 	h.disk[p], h.stamp[p] = f, st.ModTime()
 	return f, nil
+}
+
+// fresher returns the contents of p if it exists and is not older than mod.
+func fresher(p string, mod time.Time) []byte {
+	st, err := os.Stat(p)
+	if err != nil || st.ModTime().Before(mod) {
+		return nil
+	}
+	b, err := os.ReadFile(p)
+	if err != nil {
+		return nil
+	}
+	return b
+}
+
+// gunzipEqual reports whether gz decompresses to want.
+func gunzipEqual(gz, want []byte) bool {
+	zr, err := gzip.NewReader(bytes.NewReader(gz))
+	if err != nil {
+		return false
+	}
+	got, err := io.ReadAll(zr)
+	return err == nil && bytes.Equal(got, want)
 }
 
 func (h *siteHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
@@ -168,10 +199,12 @@ func (h *siteHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	// page also checks the engine's version against its own).
 	hd.Set("Cache-Control", "no-cache")
 	hd.Set("Vary", "Accept-Encoding")
-	body, etag := f.body, f.etag
-	gz := f.gz != nil && acceptsGzip(r)
-	if gz {
-		body, etag = f.gz, strings.TrimSuffix(f.etag, `"`)+`-gz"`
+	body, etag, enc := f.body, f.etag, ""
+	switch {
+	case f.br != nil && accepts(r, "br"):
+		body, etag, enc = f.br, strings.TrimSuffix(f.etag, `"`)+`-br"`, "br"
+	case f.gz != nil && accepts(r, "gzip"):
+		body, etag, enc = f.gz, strings.TrimSuffix(f.etag, `"`)+`-gz"`, "gzip"
 	}
 	hd.Set("ETag", etag)
 	if inm := r.Header.Get("If-None-Match"); inm != "" && strings.Contains(inm, etag) {
@@ -179,8 +212,8 @@ func (h *siteHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	hd.Set("Content-Type", f.ctype)
-	if gz {
-		hd.Set("Content-Encoding", "gzip")
+	if enc != "" {
+		hd.Set("Content-Encoding", enc)
 	}
 	hd.Set("Content-Length", fmt.Sprint(len(body)))
 	if r.Method == http.MethodHead {
@@ -189,10 +222,11 @@ func (h *siteHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	w.Write(body)
 }
 
-func acceptsGzip(r *http.Request) bool {
+// accepts reports whether the request accepts the content coding.
+func accepts(r *http.Request, coding string) bool {
 	for _, part := range strings.Split(r.Header.Get("Accept-Encoding"), ",") {
 		enc, q, _ := strings.Cut(strings.TrimSpace(part), ";")
-		if strings.EqualFold(strings.TrimSpace(enc), "gzip") && strings.ReplaceAll(strings.TrimSpace(q), " ", "") != "q=0" {
+		if strings.EqualFold(strings.TrimSpace(enc), coding) && strings.ReplaceAll(strings.TrimSpace(q), " ", "") != "q=0" {
 			return true
 		}
 	}

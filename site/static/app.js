@@ -339,7 +339,14 @@
     const pi = num("unc-pi");
     if (pi !== undefined) sc.uncertainty.osmotic_rel_sd = pi;
     sc.seed = num("seed");
-    const customs = state.custom.filter(c => sc.candidates.some(id => id.toLowerCase() === c.id.toLowerCase()));
+    // Fields the form does not show (set in an imported or linked file)
+    // are kept as they are.
+    for (const k of ["pareto_objectives", "exclude_hazards", "allow_extrapolation", "regeneration_recovery", "k_draw_m_per_s", "k_feed_m_per_s"]) {
+      if (prev[k] !== undefined) sc[k] = clone(prev[k]);
+    }
+    if (prev.feed && prev.feed.ph !== undefined && !sc.feed.preset) sc.feed.ph = prev.feed.ph;
+    if (prev.channel && prev.channel.feed_crossflow_velocity_m_per_s !== undefined) sc.channel.feed_crossflow_velocity_m_per_s = prev.channel.feed_crossflow_velocity_m_per_s;
+    const customs = state.custom.filter(c => (sc.candidates || []).some(id => id.toLowerCase() === c.id.toLowerCase()));
     if (customs.length) sc.custom_solutes = clone(customs);
     return prune(sc);
   }
@@ -435,6 +442,7 @@
     state.result = r.data;
     state.robust = null;
     renderResult(r.data, performance.now() - t0);
+    if (!document.body.dataset.firstResultMs) document.body.dataset.firstResultMs = String(Math.round(performance.now()));
     document.body.dataset.run = "done-" + seq;
     renderPlots(seq);
   }
@@ -449,7 +457,7 @@
       { key: "concentration_mol_per_l", label: "Draw conc.", unit: "mol/L", get: c => c.concentration_mol_per_l },
       { key: "concentration_g_per_l", label: "Draw conc.", unit: "g/L", get: c => c.concentration_g_per_l },
       { key: "osmotic_pressure_bar", label: "π real", unit: pUnit(), get: c => pConv(c.osmotic_pressure_bar) },
-      { key: "van_t_hoff_bar", label: "π van 't Hoff", unit: pUnit(), get: c => pConv(c.van_t_hoff_bar) },
+      { key: "van_t_hoff_bar", label: "π ideal", title: "van 't Hoff osmotic pressure, π = ν c R T", unit: pUnit(), get: c => pConv(c.van_t_hoff_bar) },
       { key: "water_flux_lmh", label: "Jw " + state.result.orientation, unit: fLabel(), get: c => fConv(c.water_flux_lmh) },
     ];
     if (other) for (let i = 0; i < other.length; i++) {
@@ -460,10 +468,10 @@
       { key: "reverse_solute_flux", label: "Js", unit: sfLabel(), get: sfValue },
       { key: "specific_reverse_solute_flux_g_per_l", label: "Js/Jw", unit: "g/L", get: c => c.specific_reverse_solute_flux_g_per_l },
       { key: "replenishment_cost_usd_per_m3", label: "Replenishment", unit: "USD/m³", get: c => c.replenishment_cost_usd_per_m3 },
-      { key: "min_regeneration_energy_kwh_per_m3", label: "Min. regen. energy", unit: "kWh/m³", get: c => c.min_regeneration_energy_kwh_per_m3 },
+      { key: "min_regeneration_energy_kwh_per_m3", label: "Regen. energy (min.)", unit: "kWh/m³", get: c => c.min_regeneration_energy_kwh_per_m3 },
       { key: "viscosity_mpa_s", label: "Viscosity", unit: "mPa·s", get: c => c.viscosity_mpa_s },
       { key: "solubility_margin_fraction", label: "Solubility margin", unit: "%", get: c => 100 * c.solubility_margin_fraction, fmt: v => v.toFixed(0) },
-      { key: "max_saturation_index", label: "Max. saturation index", unit: "log", get: c => c.max_saturation_index },
+      { key: "max_saturation_index", label: "Max. sat. index", unit: "log SI", get: c => c.max_saturation_index },
       { key: "flux_efficiency", label: "Flux efficiency", unit: "%", get: c => 100 * c.flux_efficiency, fmt: v => v.toFixed(1) },
     );
     return cols;
@@ -482,11 +490,17 @@
     const ex = clear($("excluded"));
     if (!res.excluded.length) ex.appendChild(h("li", { text: "None: every candidate passed the hard limits." }));
     for (const x of res.excluded) ex.appendChild(h("li", { "data-solute": x.solute }, h("strong", { text: x.solute }), " — ", h("span", { class: "reason", text: x.reason }), x.detail ? ": " + x.detail : ""));
+    // General warnings first; each candidate's own notes folded under it.
     const wl = clear($("warnings"));
-    const all = res.warnings.slice();
-    for (const c of res.candidates) for (const w of c.warnings || []) all.push(c.solute + ": " + w);
-    if (!all.length) wl.appendChild(h("li", { text: "None." }));
-    for (const w of all) wl.appendChild(h("li", { text: w }));
+    for (const w of res.warnings) wl.appendChild(h("li", { text: w }));
+    for (const c of res.candidates) {
+      const ws = (c.warnings || []).map(w => w.startsWith(c.solute + ": ") ? w.slice(c.solute.length + 2) : w);
+      if (!ws.length) continue;
+      const ul = h("ul", {});
+      for (const w of ws) ul.appendChild(h("li", { text: w }));
+      wl.appendChild(h("li", {}, h("details", {}, h("summary", { text: c.solute + " — " + ws.length + (ws.length === 1 ? " note" : " notes") }), ul)));
+    }
+    if (!wl.children.length) wl.appendChild(h("li", { text: "None." }));
     renderRobust();
     renderSources();
     renderReport();
@@ -501,7 +515,7 @@
     for (const c of cols) {
       const sorted = state.sort && state.sort.key === c.key;
       const th = h("th", { scope: "col", "aria-sort": sorted ? (state.sort.dir > 0 ? "ascending" : "descending") : null });
-      th.appendChild(h("button", { type: "button", "data-key": c.key, on: { click: () => sortBy(c.key) } },
+      th.appendChild(h("button", { type: "button", "data-key": c.key, title: c.title || null, on: { click: () => sortBy(c.key) } },
         c.label, c.unit ? h("span", { class: "unit", text: "(" + c.unit + ")" }) : null));
       tr.appendChild(th);
     }
@@ -610,6 +624,7 @@
     const t = $("robust-table");
     const head = clear(t.tHead), body = clear(t.tBodies[0] || t.appendChild(h("tbody")));
     const r = state.robust;
+    $("robust-note").textContent = "";
     if (!r) {
       body.appendChild(h("tr", {}, h("td", { colspan: "7", text: "Not run yet for this scenario. “Run robustness” samples the uncertainties set in the scenario form." })));
       return;
@@ -623,7 +638,8 @@
         h("td", { text: String(q.rank_p05) }), h("td", { text: String(q.rank_median) }), h("td", { text: String(q.rank_p95) }),
         h("td", { text: (100 * q.failed_fraction).toFixed(1) + " %" })));
     }
-    t.caption.textContent = "Ranks over " + r.robustness.samples + " Monte Carlo samples. " + r.robustness.distributions;
+    t.caption.textContent = "Ranks over " + r.robustness.samples + " Monte Carlo samples (seed " + r.robustness.seed + ").";
+    $("robust-note").textContent = "Sampling: " + r.robustness.distributions + ".";
   }
 
   // ---- plots ---------------------------------------------------------------------
@@ -691,7 +707,7 @@
       const nu = cs.van_t_hoff_factor || 1, T = tC + 273.15;
       series.push({ name: id + " (van 't Hoff)", color: colourOf(id), dash: "6 4", points: [[0, 0], [cmax, pConv(nu * cmax * R_BAR_L * T)]] });
       if (cs.osmotic_table) series.push({ name: id + " (measured, " + cs.osmotic_table.unit + ")", color: colourOf(id), markers: true, points: cs.osmotic_table.points.map(p => [p.concentration, pConv(p.osmotic_pressure_bar)]) });
-      legendItems.push({ name: id + " (custom)", color: colourOf(id) });
+      legendItems.push({ name: id + " (custom" + (cs.osmotic_table ? "; dots: measured π" : "") + ")", color: colourOf(id), marker: !!cs.osmotic_table });
     }
     legendItems.push({ name: "solid: real; dashed: van 't Hoff", color: "#16202a" });
     box.appendChild(figure("osmotic-pressure", C.line({ title: "Osmotic pressure vs concentration, " + tC + " °C", xLabel: "draw concentration (mol/L)", yLabel: "π (" + pu + ")",
@@ -802,7 +818,7 @@
   }
   function showSolute(s) {
     const d = clear($("lib-detail"));
-    d.appendChild(h("h3", { text: s.id + " — " + (s.name || "") }));
+    d.appendChild(h("h3", { text: s.id + " — " + (s.name || "user-defined solute") }));
     const dl = h("dl", {});
     const add = (k, v) => { if (v !== undefined && v !== null && v !== "") { dl.appendChild(h("dt", { text: k })); dl.appendChild(h("dd", { text: String(v) })); } };
     add("Family", s.family);
@@ -955,7 +971,9 @@
     for (const b of t.querySelectorAll(".bar")) b.remove();
     rr.appendChild(t);
     rr.appendChild(h("h3", { text: "Left out" }));
-    rr.appendChild($("excluded").cloneNode(true));
+    const ex = $("excluded").cloneNode(true);
+    ex.removeAttribute("id");
+    rr.appendChild(ex);
     if (state.robust) {
       rr.appendChild(h("h3", { text: "Robustness" }));
       const rt = $("robust-table").cloneNode(true);
@@ -963,7 +981,10 @@
       rr.appendChild(rt);
     }
     rr.appendChild(h("h3", { text: "Warnings" }));
-    rr.appendChild($("warnings").cloneNode(true));
+    const wn = $("warnings").cloneNode(true);
+    wn.removeAttribute("id");
+    for (const d of wn.querySelectorAll("details")) d.open = true;
+    rr.appendChild(wn);
     const pl = clear($("rp-plots"));
     for (const k in state.plots) {
       const svg = state.plots[k].cloneNode(true);

@@ -46,34 +46,34 @@
 
   // frame draws the plot area, axes, grid and labels and returns scales.
   function frame(svg, o, xr, yr) {
-    const W = o.width || 640, H = o.height || 380;
-    const m = { l: 64, r: 16, t: 34, b: 50 };
+    const W = o.width || 560, H = o.height || 360;
+    const m = { l: 62, r: 14, t: 34, b: o.categorical ? 64 : 48 };
     const pw = W - m.l - m.r, ph = H - m.t - m.b;
     const xt = niceTicks(xr[0], xr[1], 6), yt = niceTicks(yr[0], yr[1], 5);
     const sx = v => m.l + (v - xt.lo) / (xt.hi - xt.lo) * pw;
     const sy = v => m.t + ph - (v - yt.lo) / (yt.hi - yt.lo) * ph;
     el("rect", { x: 0, y: 0, width: W, height: H, fill: "#ffffff" }, svg);
-    text(svg, m.l, 20, o.title, { "font-size": 14, "font-weight": 600 });
+    text(svg, 8, 20, o.title, { "font-size": 15, "font-weight": 600 });
     const g = el("g", { "aria-hidden": "true" }, svg);
     for (const v of yt.ticks) {
       el("line", { x1: m.l, x2: m.l + pw, y1: sy(v), y2: sy(v), stroke: GRID, "stroke-width": 1 }, g);
-      text(g, m.l - 6, sy(v) + 4, fmtTick(v, yt.step), { "text-anchor": "end", fill: MUTED, "font-size": 11 });
+      text(g, m.l - 6, sy(v) + 4, fmtTick(v, yt.step), { "text-anchor": "end", fill: MUTED, "font-size": 12 });
     }
     if (!o.categorical) {
       for (const v of xt.ticks) {
         el("line", { x1: sx(v), x2: sx(v), y1: m.t, y2: m.t + ph, stroke: GRID, "stroke-width": 1 }, g);
-        text(g, sx(v), m.t + ph + 16, fmtTick(v, xt.step), { "text-anchor": "middle", fill: MUTED, "font-size": 11 });
+        text(g, sx(v), m.t + ph + 17, fmtTick(v, xt.step), { "text-anchor": "middle", fill: MUTED, "font-size": 12 });
       }
     }
     el("rect", { x: m.l, y: m.t, width: pw, height: ph, fill: "none", stroke: INK, "stroke-width": 1 }, g);
-    text(svg, m.l + pw / 2, H - 10, o.xLabel, { "text-anchor": "middle" });
-    const yl = text(svg, 0, 0, o.yLabel, { "text-anchor": "middle", transform: "translate(16," + (m.t + ph / 2) + ") rotate(-90)" });
+    text(svg, m.l + pw / 2, H - 8, o.xLabel, { "text-anchor": "middle", "font-size": 13 });
+    const yl = text(svg, 0, 0, o.yLabel, { "text-anchor": "middle", "font-size": 13, transform: "translate(16," + (m.t + ph / 2) + ") rotate(-90)" });
     yl.setAttribute("x", 0);
     return { sx, sy, m, pw, ph, W, H, xt, yt };
   }
 
   function root(o) {
-    const W = o.width || 640, H = o.height || 380;
+    const W = o.width || 560, H = o.height || 360;
     const svg = el("svg", { xmlns: NS, viewBox: "0 0 " + W + " " + H, width: W, height: H, role: "img", class: "chart" });
     const id = "c" + Math.random().toString(36).slice(2, 9);
     svg.setAttribute("aria-labelledby", id + "t " + id + "d");
@@ -96,13 +96,13 @@
     const g = el("g", {}, svg);
     let y = f.m.t + 14;
     const x = f.m.l + 10;
-    const w = Math.min(240, 26 + 7 * Math.max(...items.map(i => i.name.length)));
-    el("rect", { x: x - 6, y: f.m.t + 4, width: w, height: items.length * 16 + 6, fill: "#ffffff", "fill-opacity": 0.9, stroke: GRID }, g);
+    const w = Math.min(f.pw - 12, 28 + 6.6 * Math.max(...items.map(i => i.name.length)));
+    el("rect", { x: x - 6, y: f.m.t + 4, width: w, height: items.length * 16 + 6, fill: "#ffffff", "fill-opacity": 0.92, stroke: GRID }, g);
     for (const it of items) {
       if (it.bar) el("rect", { x: x, y: y - 8, width: 16, height: 9, fill: it.color }, g);
       else el("line", { x1: x, x2: x + 16, y1: y - 4, y2: y - 4, stroke: it.color, "stroke-width": 2.2, "stroke-dasharray": it.dash || null }, g);
       if (it.marker) el("circle", { cx: x + 8, cy: y - 4, r: 3.5, fill: it.color }, g);
-      text(g, x + 22, y, it.name, { "font-size": 11 });
+      text(g, x + 22, y, it.name, { "font-size": 12 });
       y += 16;
     }
   }
@@ -141,10 +141,10 @@
       const x = f.m.l + i * bw + bw * 0.15, w = bw * 0.7;
       const y0 = f.sy(Math.max(0, f.yt.lo)), y1 = f.sy(c.value);
       el("rect", { x: x, y: Math.min(y0, y1), width: w, height: Math.abs(y0 - y1), fill: c.color || PALETTE[0] }, svg);
-      const lab = text(svg, x + w / 2, f.m.t + f.ph + 14, c.name, { "text-anchor": "end", "font-size": 11,
+      const lab = text(svg, x + w / 2, f.m.t + f.ph + 14, c.name, { "text-anchor": "end", "font-size": 12,
         transform: "rotate(-30 " + (x + w / 2) + " " + (f.m.t + f.ph + 14) + ")" });
       lab.setAttribute("dy", "0.3em");
-      text(svg, x + w / 2, Math.min(y0, y1) - 4, o.format ? o.format(c.value) : String(c.value), { "text-anchor": "middle", "font-size": 10, fill: MUTED });
+      text(svg, x + w / 2, Math.min(y0, y1) - 4, o.format ? o.format(c.value) : String(c.value), { "text-anchor": "middle", "font-size": 11, fill: MUTED });
     });
     return svg;
   }
@@ -159,11 +159,23 @@
       const d = front.map((p, i) => (i ? "L" : "M") + f.sx(p.x).toFixed(1) + " " + f.sy(p.y).toFixed(1)).join("");
       el("path", { d: d, fill: "none", stroke: INK, "stroke-width": 1.5, "stroke-dasharray": "5 3" }, svg);
     }
-    for (const p of o.points) {
+    // Labels: right of the point, moved down (then up) past labels
+    // already placed, so that clustered candidates stay readable.
+    const placed = [];
+    const hits = (b) => placed.some(q => b.x < q.x + q.w && q.x < b.x + b.w && b.y < q.y + q.h && q.y < b.y + b.h);
+    const order = o.points.slice().sort((a, b) => f.sy(a.y) - f.sy(b.y));
+    for (const p of order) {
       const cx = f.sx(p.x), cy = f.sy(p.y);
       if (p.front) el("circle", { cx: cx, cy: cy, r: 7.5, fill: "none", stroke: INK, "stroke-width": 1.5 }, svg);
       el("circle", { cx: cx, cy: cy, r: 4.5, fill: p.color || PALETTE[0] }, svg);
-      text(svg, cx + 9, cy - 6, p.name, { "font-size": 11 });
+      const w = 6.8 * p.name.length + 4, hgt = 13;
+      let x = cx + 9;
+      if (x + w > f.m.l + f.pw) x = cx - 9 - w;
+      let y = cy - 6, tries = 0;
+      while (hits({ x: x, y: y - hgt + 3, w: w, h: hgt }) && tries < 40) { y += (tries % 2 ? -1 : 1) * (tries + 1) * 7; tries++; }
+      placed.push({ x: x, y: y - hgt + 3, w: w, h: hgt });
+      if (Math.abs(y - (cy - 6)) > 10) el("line", { x1: cx, y1: cy, x2: x, y2: y - 4, stroke: GRID, "stroke-width": 1 }, svg);
+      text(svg, x, y, p.name, { "font-size": 12 });
     }
     legend(svg, f, [{ name: "on the Pareto front", color: INK, marker: true }, { name: "front (dashed)", color: INK, dash: "5 3" }]);
     return svg;

@@ -1,0 +1,1122 @@
+//go:build !js
+
+// End-to-end tests of the page in a real headless Chromium (Debian's
+// chromium), driven with chromedp against `drawsift serve` on 127.0.0.1 and
+// against the single-file bundle opened from file://. Each test builds what
+// it needs (the page's wasm, wasm_exec.js, the drawsift binary) with the go
+// command, once per run, under build/test-page/ in the module. Without a
+// chromium on PATH the tests skip. Screenshots go to testdata/artifacts/
+// at the module root (git-ignored).
+//
+// The speed and size figures are a benchmark, never a timed test:
+//
+//	go test -run '^$' -bench PageFirstResult -benchtime 5x ./cmd/drawsift/
+package site_test
+
+import (
+	"bufio"
+	"bytes"
+	"context"
+	"encoding/json"
+	"fmt"
+	"math"
+	"net/http"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"sync"
+	"syscall"
+	"testing"
+	"time"
+
+	"compress/gzip"
+	"compress/zlib"
+	"io"
+	"io/fs"
+	"net/http/httptest"
+
+	cdpbrowser "github.com/chromedp/cdproto/browser"
+	"github.com/chromedp/cdproto/emulation"
+	"github.com/chromedp/cdproto/network"
+	"github.com/chromedp/chromedp"
+	"github.com/chromedp/chromedp/kb"
+
+	"drawsift/engine/api"
+	"drawsift/site"
+)
+
+// ---- build products ---------------------------------------------------------
+
+type pageProducts struct {
+	dir, wasm, exec, bin, bundle string
+}
+
+var (
+	buildOnce sync.Once
+	built     pageProducts
+	buildErr  error
+)
+
+// moduleRoot is the directory of go.mod.
+func moduleRoot(t testing.TB) string {
+	t.Helper()
+	out, err := exec.Command("go", "env", "GOMOD").Output()
+	if err != nil {
+		t.Fatalf("go env GOMOD: %v", err)
+	}
+	return filepath.Dir(strings.TrimSpace(string(out)))
+}
+
+// pageBuild builds the page's wasm exactly as `make wasm` does, copies the
+// toolchain's wasm_exec.js beside it, builds the drawsift binary and the
+// single-file bundle, once per test run.
+func pageBuild(t testing.TB) pageProducts {
+	t.Helper()
+	root := moduleRoot(t)
+	buildOnce.Do(func() {
+		dir := filepath.Join(root, "build", "test-page")
+		if buildErr = os.MkdirAll(dir, 0o755); buildErr != nil {
+			return
+		}
+		p := pageProducts{dir: dir, wasm: filepath.Join(dir, "drawsift.wasm"), exec: filepath.Join(dir, "wasm_exec.js"),
+			bin: filepath.Join(dir, "drawsift"), bundle: filepath.Join(dir, "drawsift.html")}
+		run := func(env []string, args ...string) error {
+			cmd := exec.Command("go", args...)
+			cmd.Dir = root
+			cmd.Env = append(os.Environ(), env...)
+			if out, err := cmd.CombinedOutput(); err != nil {
+				return fmt.Errorf("go %s: %v\n%s", strings.Join(args, " "), err, out)
+			}
+			return nil
+		}
+		if buildErr = run([]string{"GOOS=js", "GOARCH=wasm"}, "build", "-tags", "stdjson", "-trimpath", "-ldflags=-s -w", "-o", p.wasm, "./wasm/page"); buildErr != nil {
+			return
+		}
+		goroot, err := exec.Command("go", "env", "GOROOT").Output()
+		if err != nil {
+			buildErr = err
+			return
+		}
+		b, err := os.ReadFile(filepath.Join(strings.TrimSpace(string(goroot)), "lib", "wasm", "wasm_exec.js"))
+		if err != nil {
+			buildErr = err
+			return
+		}
+		if buildErr = os.WriteFile(p.exec, b, 0o644); buildErr != nil {
+			return
+		}
+		if buildErr = run(nil, "build", "-trimpath", "-o", p.bin, "./cmd/drawsift"); buildErr != nil {
+			return
+		}
+		out, err := exec.Command(p.bin, "bundle", "-o", p.bundle, "--wasm", p.wasm).CombinedOutput()
+		if err != nil {
+			buildErr = fmt.Errorf("drawsift bundle: %v\n%s", err, out)
+			return
+		}
+		built = p
+	})
+	if buildErr != nil {
+		t.Fatal(buildErr)
+	}
+	return built
+}
+
+// startServe runs `drawsift serve` on a free loopback port and returns the page's URL.
+func startServe(t testing.TB, p pageProducts) (url string, stop func()) {
+	t.Helper()
+	cmd := exec.Command(p.bin, "serve", "--addr", "127.0.0.1:0", "--wasm", p.wasm)
+	stdout, err := cmd.StdoutPipe()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var stderr bytes.Buffer
+	cmd.Stderr = &stderr
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	found := make(chan string, 1)
+	go func() {
+		sc := bufio.NewScanner(stdout)
+		re := regexp.MustCompile(`http://127\.0\.0\.1:\d+/`)
+		for sc.Scan() {
+			if m := re.FindString(sc.Text()); m != "" {
+				select {
+				case found <- m:
+				default:
+				}
+			}
+		}
+	}()
+	var once sync.Once
+	stop = func() {
+		once.Do(func() {
+			cmd.Process.Signal(syscall.SIGINT)
+			done := make(chan struct{})
+			go func() { cmd.Wait(); close(done) }()
+			select {
+			case <-done:
+			case <-time.After(5 * time.Second):
+				cmd.Process.Kill()
+				<-done
+			}
+		})
+	}
+	t.Cleanup(stop)
+	select {
+	case url = <-found:
+	case <-time.After(20 * time.Second):
+		stop()
+		t.Fatalf("drawsift serve did not print its address; stderr:\n%s", stderr.String())
+	}
+	return url, stop
+}
+
+// ---- the browser -------------------------------------------------------------
+
+type browserSession struct {
+	ctx     context.Context
+	mu      sync.Mutex
+	console []string
+}
+
+// browser starts a fresh headless Chromium (its own profile: a first
+// visit) for one test.
+func browser(t testing.TB) *browserSession {
+	t.Helper()
+	exe, err := exec.LookPath("chromium")
+	if err != nil {
+		t.Skip("no chromium on PATH (Debian package chromium); .ci/run installs it")
+	}
+	opts := []chromedp.ExecAllocatorOption{
+		chromedp.ExecPath(exe), chromedp.Flag("headless", true), chromedp.NoSandbox, chromedp.DisableGPU,
+		chromedp.Flag("disable-background-networking", true), chromedp.Flag("disable-component-update", true),
+		chromedp.Flag("disable-sync", true), chromedp.NoFirstRun, chromedp.UserDataDir(t.TempDir()),
+		chromedp.WindowSize(1280, 900),
+	}
+	actx, c1 := chromedp.NewExecAllocator(context.Background(), opts...)
+	ctx, c2 := chromedp.NewContext(actx)
+	ctx, c3 := context.WithTimeout(ctx, 120*time.Second)
+	b := &browserSession{ctx: ctx}
+	t.Cleanup(func() {
+		c3()
+		c2()
+		c1()
+	})
+	// Start the browser and collect the console for failure reports.
+	if err := chromedp.Do(ctx, chromedp.Navigate("about:blank")); err != nil {
+		t.Fatalf("starting chromium: %v", err)
+	}
+	msgs := chromedp.Console(ctx)
+	go func() {
+		for m, err := range msgs {
+			if err != nil {
+				return
+			}
+			b.mu.Lock()
+			b.console = append(b.console, m.String())
+			b.mu.Unlock()
+		}
+	}()
+	t.Cleanup(func() {
+		if t.Failed() {
+			b.mu.Lock()
+			defer b.mu.Unlock()
+			for _, m := range b.console {
+				t.Log("console:", m)
+			}
+		}
+	})
+	return b
+}
+
+func (b *browserSession) do(t testing.TB, steps ...chromedp.Action[chromedp.Void]) {
+	t.Helper()
+	if err := chromedp.Do(b.ctx, steps...); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// eval evaluates a JS expression and decodes its value into T.
+func eval[T any](t testing.TB, b *browserSession, js string) T {
+	t.Helper()
+	v, err := chromedp.Run(b.ctx, chromedp.Evaluate[T](js, chromedp.EvalAwaitPromise))
+	if err != nil {
+		t.Fatalf("evaluating %s: %v", js, err)
+	}
+	return v
+}
+
+// waitFor polls a JS condition until it is true.
+func (b *browserSession) waitFor(t testing.TB, cond string, timeout time.Duration) {
+	t.Helper()
+	if _, err := chromedp.Run(b.ctx, chromedp.Poll[bool](cond, chromedp.WithPollingTimeout(timeout))); err != nil {
+		b.screenshot(t, "timeout")
+		t.Fatalf("waiting for %s: %v", cond, err)
+	}
+}
+
+// screenshot saves a full-page PNG into testdata/artifacts/.
+func (b *browserSession) screenshot(t testing.TB, name string) {
+	t.Helper()
+	png, err := chromedp.Run(b.ctx, chromedp.FullScreenshot(100))
+	if err != nil {
+		t.Logf("screenshot %s: %v", name, err)
+		return
+	}
+	dir := filepath.Join(moduleRoot(t), "testdata", "artifacts")
+	os.MkdirAll(dir, 0o755)
+	file := filepath.Join(dir, strings.ReplaceAll(t.Name(), "/", "_")+"-"+name+".png")
+	if err := os.WriteFile(file, png, 0o644); err != nil {
+		t.Logf("screenshot %s: %v", name, err)
+	}
+}
+
+// ---- what the page shows and what the engine says -----------------------------------
+
+type pageRow struct {
+	Solute string  `json:"solute"`
+	Rank   int     `json:"rank"`
+	Score  float64 `json:"score"`
+}
+
+const jsRows = `Array.from(document.querySelectorAll("#ranking tbody tr")).map(tr => ({solute: tr.dataset.solute, rank: Number(tr.dataset.rank), score: Number(tr.dataset.score)}))`
+
+// waitRun waits for a screen after the given run marker and returns the new marker.
+func (b *browserSession) waitRun(t testing.TB, after string) string {
+	t.Helper()
+	b.waitFor(t, fmt.Sprintf(`(document.body.dataset.run || "").startsWith("done-") && document.body.dataset.run !== %q`, after), 60*time.Second)
+	return eval[string](t, b, `document.body.dataset.run`)
+}
+
+// pageScenario is the scenario the page has stored (what it sent, before
+// its own additions are stripped).
+func pageScenario(t testing.TB, b *browserSession) map[string]any {
+	t.Helper()
+	s := eval[string](t, b, `localStorage.getItem("drawsift.scenario.v1") || ""`)
+	var sc map[string]any
+	if err := json.Unmarshal([]byte(s), &sc); err != nil {
+		t.Fatalf("stored scenario %q: %v", s, err)
+	}
+	return sc
+}
+
+type nativeResult struct {
+	Candidates []pageRow `json:"candidates"`
+	Excluded   []struct {
+		Solute string `json:"solute"`
+		Reason string `json:"reason"`
+	} `json:"excluded"`
+}
+
+// native runs the scenario through the engine natively, as the page's
+// live ranking does (no robustness run; page-only fields removed).
+func native(t testing.TB, sc map[string]any) nativeResult {
+	t.Helper()
+	req := map[string]any{}
+	for k, v := range sc {
+		req[k] = v
+	}
+	delete(req, "uncertainty")
+	if cs, ok := req["custom_solutes"].([]any); ok {
+		for _, c := range cs {
+			m := c.(map[string]any)
+			delete(m, "hazards")
+			delete(m, "regeneration")
+			delete(m, "osmotic_table")
+		}
+	}
+	body, _ := json.Marshal(req)
+	out, e := api.Dispatch(context.Background(), api.OpScreen, body)
+	if e != nil {
+		t.Fatalf("native screen of %s: %s", body, out)
+	}
+	var r nativeResult
+	if err := json.Unmarshal(out, &r); err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+// sameRanking compares the page's table with the native ranking: the same
+// solutes in the same order with the same ranks, and scores equal within
+// 1e-9 (js/wasm and amd64 math differ in the last bits, tooling.md §3).
+func sameRanking(t testing.TB, page []pageRow, want nativeResult) {
+	t.Helper()
+	if len(page) != len(want.Candidates) {
+		t.Fatalf("page ranks %d candidates, native %d:\npage   %v\nnative %v", len(page), len(want.Candidates), page, want.Candidates)
+	}
+	for i, w := range want.Candidates {
+		g := page[i]
+		if g.Solute != w.Solute || g.Rank != w.Rank || math.Abs(g.Score-w.Score) > 1e-9*math.Max(1, math.Abs(w.Score)) {
+			t.Errorf("row %d: page %+v, native %+v", i, g, w)
+		}
+	}
+}
+
+func demoScenario(t testing.TB) map[string]any {
+	t.Helper()
+	b, err := site.FS.(interface{ ReadFile(string) ([]byte, error) }).ReadFile("demo.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var sc map[string]any
+	if err := json.Unmarshal(b, &sc); err != nil {
+		t.Fatal(err)
+	}
+	return sc
+}
+
+// ---- tests --------------------------------------------------------------------------
+
+// TestPageDemoMatchesEngine loads the demo on a first visit, and checks
+// that the ranked table is the engine's native ranking of the same
+// scenario, and of the demo file itself.
+func TestPageDemoMatchesEngine(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	b.waitRun(t, "")
+	rows := eval[[]pageRow](t, b, jsRows)
+	sc := pageScenario(t, b)
+	sameRanking(t, rows, native(t, sc))
+	sameRanking(t, rows, native(t, demoScenario(t)))
+	if len(rows) < 5 {
+		t.Errorf("the demo ranks only %d candidates", len(rows))
+	}
+	// Solutes that failed a hard limit are listed apart with the reason.
+	want := native(t, sc)
+	ex := eval[[]string](t, b, `Array.from(document.querySelectorAll("#excluded li[data-solute]")).map(li => li.dataset.solute + ": " + li.querySelector(".reason").textContent)`)
+	if len(ex) != len(want.Excluded) {
+		t.Errorf("excluded on the page %v, native %v", ex, want.Excluded)
+	}
+	for i, x := range want.Excluded {
+		if i < len(ex) && ex[i] != x.Solute+": "+x.Reason {
+			t.Errorf("excluded[%d] = %q, native %s: %s", i, ex[i], x.Solute, x.Reason)
+		}
+	}
+	// The cautions are on screen by default, not hidden.
+	if !eval[bool](t, b, `(() => { const r = document.getElementById("cautions").getBoundingClientRect(); return r.height > 40 && r.top < innerHeight; })()`) {
+		t.Error("the cautions are not visible on first view")
+	}
+	// Units are in every numeric header.
+	heads := eval[[]string](t, b, `Array.from(document.querySelectorAll("#ranking thead th")).map(th => th.textContent)`)
+	for _, h := range heads[2:] {
+		if !strings.Contains(h, "(") {
+			t.Errorf("header %q has no unit", h)
+		}
+	}
+	b.screenshot(t, "demo")
+	b.waitFor(t, `(document.body.dataset.plots || "").startsWith("done-")`, 60*time.Second)
+	b.do(t, chromedp.Click(chromedp.ID("tab-plots")))
+	n := eval[int](t, b, `document.querySelectorAll("#plots figure svg").length`)
+	if n != 4 {
+		t.Errorf("%d plots, want 4 (π, SRSF, trade-off, Jw)", n)
+	}
+	b.screenshot(t, "plots")
+}
+
+// TestPageFieldChange edits a field by keyboard and sees the ranking change
+// to the engine's native result for the edited scenario.
+func TestPageFieldChange(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	run := b.waitRun(t, "")
+	before := eval[[]pageRow](t, b, jsRows)
+	b.do(t, chromedp.Click(chromedp.ID("temp")), chromedp.Evaluate[chromedp.Void](`document.getElementById("temp").select()`),
+		chromedp.SendKeys(chromedp.ID("temp"), "45"))
+	b.waitRun(t, run)
+	b.waitFor(t, `document.getElementById("temp").value === "45"`, 5*time.Second)
+	// The debounced run may have started before the last key: wait for
+	// the stored scenario to settle.
+	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).temperature_c === 45`, 5*time.Second)
+	time.Sleep(400 * time.Millisecond)
+	b.waitFor(t, `(document.body.dataset.run || "").startsWith("done-")`, 30*time.Second)
+	after := eval[[]pageRow](t, b, jsRows)
+	sc := pageScenario(t, b)
+	if sc["temperature_c"] != 45.0 {
+		t.Fatalf("stored temperature %v, want 45", sc["temperature_c"])
+	}
+	sameRanking(t, after, native(t, sc))
+	changed := len(after) != len(before)
+	for i := range after {
+		if !changed && (after[i].Solute != before[i].Solute || after[i].Score != before[i].Score) {
+			changed = true
+		}
+	}
+	if !changed {
+		t.Error("the ranking did not change when the temperature went from 25 to 45 °C")
+	}
+	b.screenshot(t, "45C")
+}
+
+// TestPageReloadRestores edits the scenario, reloads, and finds it restored.
+func TestPageReloadRestores(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	run := b.waitRun(t, "")
+	b.do(t, chromedp.SetValue(chromedp.ID("basis-value"), "75"),
+		chromedp.Evaluate[chromedp.Void](`document.getElementById("basis-value").dispatchEvent(new Event("input", {bubbles: true}))`))
+	b.waitRun(t, run)
+	before := eval[[]pageRow](t, b, jsRows)
+	b.do(t, chromedp.Reload())
+	b.waitRun(t, "")
+	if v := eval[string](t, b, `document.getElementById("basis-value").value`); v != "75" {
+		t.Errorf("after reload the basis value is %q, want 75", v)
+	}
+	after := eval[[]pageRow](t, b, jsRows)
+	sameRanking(t, after, native(t, pageScenario(t, b)))
+	if fmt.Sprint(before) != fmt.Sprint(after) {
+		t.Errorf("ranking before reload %v, after %v", before, after)
+	}
+}
+
+// TestPageMalformedImport imports broken files: a clear message, and the
+// scenario untouched.
+func TestPageMalformedImport(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	b.waitRun(t, "")
+	stored := eval[string](t, b, `localStorage.getItem("drawsift.scenario.v1")`)
+	rows := eval[[]pageRow](t, b, jsRows)
+	dir := t.TempDir()
+	for _, tc := range []struct{ name, body, want string }{
+		{"truncated.json", `{"feed": {"preset": "seawater"}, "membrane": `, "not valid JSON"},
+		{"unknown-field.json", `{"feed": {"preset": "seawater"}, "membrane": {"preset": "tfc-standard", "colour": "blue"}}`, "membrane.colour"},
+		{"wrong-type.json", `{"temperature_c": "warm"}`, "temperature_c"},
+		{"engine-rejects.json", `{"temperature_c": 250}`, "temperature_c"},
+		{"script.json", `{"candidates": ["<img src=x onerror=alert(1)>"]}`, "candidates[0]"},
+	} {
+		f := filepath.Join(dir, tc.name)
+		os.WriteFile(f, []byte(tc.body), 0o644)
+		b.do(t, chromedp.Evaluate[chromedp.Void](`document.getElementById("banner").hidden = true`),
+			chromedp.SetUploadFiles(chromedp.ID("file-import"), []string{f}))
+		b.waitFor(t, `!document.getElementById("banner").hidden`, 20*time.Second)
+		msg := eval[string](t, b, `document.getElementById("banner").textContent`)
+		if !strings.Contains(msg, "Nothing was changed") || !strings.Contains(msg, tc.want) {
+			t.Errorf("%s: message %q, want it to say nothing changed and name %q", tc.name, msg, tc.want)
+		}
+		if s := eval[string](t, b, `localStorage.getItem("drawsift.scenario.v1")`); s != stored {
+			t.Errorf("%s: the stored scenario changed:\n%s\n→\n%s", tc.name, stored, s)
+		}
+		if r := eval[[]pageRow](t, b, jsRows); fmt.Sprint(r) != fmt.Sprint(rows) {
+			t.Errorf("%s: the ranking changed", tc.name)
+		}
+		if eval[int](t, b, `document.querySelectorAll("img").length`) != 0 {
+			t.Errorf("%s: imported text became markup", tc.name)
+		}
+	}
+	b.screenshot(t, "import-error")
+}
+
+// TestPageRobustness runs a long robustness job: progress arrives, the page
+// answers while it runs, the figures appear; a second run is cancelled.
+func TestPageRobustness(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	b.waitRun(t, "")
+	b.do(t, chromedp.SetValue(chromedp.ID("unc-samples"), "20000"),
+		chromedp.Evaluate[chromedp.Void](`document.getElementById("unc-samples").dispatchEvent(new Event("change", {bubbles: true}))`))
+	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).uncertainty.samples === 20000`, 5*time.Second)
+	time.Sleep(400 * time.Millisecond)
+	b.waitFor(t, `(document.body.dataset.run || "").startsWith("done-")`, 30*time.Second)
+	b.do(t, chromedp.Click(chromedp.ID("btn-robust")))
+	b.waitFor(t, `document.getElementById("robust-progress").value > 0 || document.body.dataset.robust === "done"`, 60*time.Second)
+	if eval[string](t, b, `document.body.dataset.robust`) == "running" {
+		// The page stays responsive: a tab switch answers at once while
+		// the engine works in its worker.
+		start := time.Now()
+		b.do(t, chromedp.Click(chromedp.ID("tab-sources")))
+		if eval[string](t, b, `document.getElementById("tab-sources").getAttribute("aria-selected")`) != "true" {
+			t.Error("the tab did not switch during the robustness run")
+		}
+		t.Logf("tab switch during the run took %v", time.Since(start))
+		b.screenshot(t, "running")
+		b.do(t, chromedp.Click(chromedp.ID("tab-ranking")))
+		if f := eval[float64](t, b, `document.getElementById("robust-progress").value`); !(f > 0 && f < 1) {
+			t.Logf("progress %v (the run may be nearly done)", f)
+		}
+	} else {
+		t.Error("the robustness run ended before any progress was seen; 20000 samples should take longer")
+	}
+	b.waitFor(t, `document.body.dataset.robust === "done"`, 90*time.Second)
+	n := eval[int](t, b, `document.querySelectorAll("#robust-table tbody tr[data-solute]").length`)
+	if n != len(eval[[]pageRow](t, b, jsRows)) {
+		t.Errorf("robustness rows %d, ranked candidates %d", n, len(eval[[]pageRow](t, b, jsRows)))
+	}
+	b.screenshot(t, "robust")
+
+	// Cancel a second run.
+	b.do(t, chromedp.Click(chromedp.ID("btn-robust")))
+	b.waitFor(t, `document.getElementById("robust-progress").value > 0`, 30*time.Second)
+	b.do(t, chromedp.Click(chromedp.ID("btn-robust-cancel")))
+	b.waitFor(t, `document.body.dataset.robust === "cancelled"`, 10*time.Second)
+	// The engine still answers after the cancel.
+	run := eval[string](t, b, `document.body.dataset.run`)
+	b.do(t, chromedp.Click(chromedp.ID("btn-screen")))
+	b.waitRun(t, run)
+}
+
+// TestPagePrintReport prints to PDF and finds the report's sections.
+func TestPagePrintReport(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	b.waitRun(t, "")
+	b.waitFor(t, `(document.body.dataset.plots || "").startsWith("done-")`, 60*time.Second)
+	// In print media the report shows and the controls do not.
+	if _, err := chromedp.Run(b.ctx, chromedp.Action[chromedp.Void](func(ctx context.Context, tg *chromedp.Target) (chromedp.Void, error) {
+		_, err := chromedp.Call(ctx, emulation.SetEmulatedMedia, emulation.SetEmulatedMediaParams{Media: "print"})
+		return chromedp.Void{}, err
+	})); err != nil {
+		t.Fatal(err)
+	}
+	sections := eval[[]string](t, b, `Array.from(document.querySelectorAll("#report h2")).filter(h => h.offsetParent !== null).map(h => h.textContent)`)
+	want := []string{"Cautions", "Inputs", "Model choices", "Results", "Plots", "Sources"}
+	if fmt.Sprint(sections) != fmt.Sprint(want) {
+		t.Errorf("printed sections %v, want %v", sections, want)
+	}
+	if eval[bool](t, b, `document.getElementById("scenario-form").offsetParent !== null`) {
+		t.Error("the form prints")
+	}
+	if n := eval[int](t, b, `document.querySelectorAll("#rp-results tbody tr").length`); n != len(eval[[]pageRow](t, b, jsRows)) {
+		t.Errorf("the report's table has %d rows", n)
+	}
+	if n := eval[int](t, b, `document.querySelectorAll("#rp-plots svg").length`); n != 4 {
+		t.Errorf("the report has %d plots, want 4", n)
+	}
+	pdf, err := chromedp.Run(b.ctx, chromedp.PrintToPDF(chromedp.PDFPaper(chromedp.PaperA4), chromedp.PDFOutlineAndTagged()))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.HasPrefix(pdf, []byte("%PDF-")) {
+		t.Fatalf("not a PDF: %q", pdf[:min(len(pdf), 20)])
+	}
+	// The printed pages hold the report's title and every section.
+	squash := func(s string) string { return strings.Join(strings.Fields(s), "") }
+	text := squash(pdfText(t, pdf))
+	for _, s := range append([]string{"Drawsift screening report", "Screening estimates, not a design"}, want...) {
+		if !strings.Contains(text, squash(s)) {
+			t.Errorf("the PDF's text lacks %q", s)
+		}
+	}
+	if !strings.Contains(text, "KCl") || !strings.Contains(text, "NaCl") {
+		t.Error("the PDF's text lacks the ranked solutes")
+	}
+	dir := filepath.Join(moduleRoot(t), "testdata", "artifacts")
+	os.MkdirAll(dir, 0o755)
+	os.WriteFile(filepath.Join(dir, "report.pdf"), pdf, 0o644)
+}
+
+// pdfText extracts the text of a PDF as Chromium writes it: Flate
+// content streams showing glyph codes of Type0 fonts (Identity-H), each
+// font with a ToUnicode CMap. Enough to find headings; not a general PDF
+// reader.
+func pdfText(t testing.TB, pdf []byte) string {
+	t.Helper()
+	objs := map[string][]byte{}
+	for _, m := range regexp.MustCompile(`(?s)(\d+) 0 obj(.*?)endobj`).FindAllSubmatch(pdf, -1) {
+		objs[string(m[1])] = m[2]
+	}
+	stream := func(o []byte) []byte {
+		i := bytes.Index(o, []byte("stream"))
+		j := bytes.LastIndex(o, []byte("endstream"))
+		if i < 0 || j < i {
+			return nil
+		}
+		data := bytes.TrimLeft(o[i+len("stream"):j], "\r\n")
+		if !bytes.Contains(o[:i], []byte("/FlateDecode")) {
+			return data
+		}
+		zr, err := zlib.NewReader(bytes.NewReader(data))
+		if err != nil {
+			return nil
+		}
+		out, _ := io.ReadAll(zr)
+		return out
+	}
+	hexRE := regexp.MustCompile(`<([0-9A-Fa-f]+)>`)
+	utf16 := func(h string) string {
+		var sb strings.Builder
+		for i := 0; i+3 < len(h); i += 4 {
+			var r rune
+			fmt.Sscanf(h[i:i+4], "%04X", &r)
+			sb.WriteRune(r)
+		}
+		return sb.String()
+	}
+	// Fonts: object number → code → text.
+	cmaps := map[string]map[string]string{}
+	for n, o := range objs {
+		m := regexp.MustCompile(`/ToUnicode (\d+) 0 R`).FindSubmatch(o)
+		if m == nil {
+			continue
+		}
+		cm := map[string]string{}
+		body := string(stream(objs[string(m[1])]))
+		for _, blk := range regexp.MustCompile(`(?s)beginbfchar(.*?)endbfchar`).FindAllStringSubmatch(body, -1) {
+			hs := hexRE.FindAllStringSubmatch(blk[1], -1)
+			for i := 0; i+1 < len(hs); i += 2 {
+				cm[strings.ToUpper(hs[i][1])] = utf16(hs[i+1][1])
+			}
+		}
+		for _, blk := range regexp.MustCompile(`(?s)beginbfrange(.*?)endbfrange`).FindAllStringSubmatch(body, -1) {
+			for _, line := range strings.Split(blk[1], "\n") {
+				hs := hexRE.FindAllStringSubmatch(line, -1)
+				if len(hs) != 3 {
+					continue
+				}
+				var lo, hi, dst int
+				fmt.Sscanf(hs[0][1], "%X", &lo)
+				fmt.Sscanf(hs[1][1], "%X", &hi)
+				fmt.Sscanf(hs[2][1], "%X", &dst)
+				for c := lo; c <= hi && c-lo < 65536; c++ {
+					cm[fmt.Sprintf("%0*X", len(hs[0][1]), c)] = string(rune(dst + c - lo))
+				}
+			}
+		}
+		cmaps[n] = cm
+	}
+	// Font resource names (/F5 5 0 R) → object numbers.
+	names := map[string]string{}
+	for _, m := range regexp.MustCompile(`/(F\d+) (\d+) 0 R`).FindAllSubmatch(pdf, -1) {
+		names[string(m[1])] = string(m[2])
+	}
+	var sb strings.Builder
+	tok := regexp.MustCompile(`/(F\d+)\s+[\d.]+\s+Tf|<([0-9A-Fa-f]*)>|\b(Td|TD|T\*|Tm|ET)\b`)
+	for _, o := range objs {
+		if bytes.Contains(o, []byte("/ToUnicode")) || !bytes.Contains(o, []byte("stream")) {
+			continue
+		}
+		content := stream(o)
+		if !bytes.Contains(content, []byte("Tf")) {
+			continue
+		}
+		var cm map[string]string
+		for _, m := range tok.FindAllSubmatch(content, -1) {
+			switch {
+			case m[1] != nil:
+				cm = cmaps[names[string(m[1])]]
+			case m[3] != nil:
+				sb.WriteByte('\n')
+			case cm != nil:
+				h := strings.ToUpper(string(m[2]))
+				for i := 0; i+3 < len(h); i += 4 {
+					sb.WriteString(cm[h[i:i+4]])
+				}
+			}
+		}
+	}
+	return sb.String()
+}
+
+// TestBundleFromFile opens the single-file bundle from file://: the demo
+// loads and ranks as the engine does natively, and the page asks the
+// network for nothing.
+func TestBundleFromFile(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	var mu sync.Mutex
+	var urls []string
+	if _, err := chromedp.Call(b.ctx, network.Enable, network.EnableParams{}); err != nil {
+		t.Fatal(err)
+	}
+	chromedp.Listen(b.ctx, func(ev any) {
+		if e, ok := ev.(*network.EventRequestWillBeSent); ok {
+			mu.Lock()
+			urls = append(urls, e.Request.URL)
+			mu.Unlock()
+		}
+	})
+	b.do(t, chromedp.Navigate("file://"+p.bundle))
+	b.waitRun(t, "")
+	rows := eval[[]pageRow](t, b, jsRows)
+	sameRanking(t, rows, native(t, pageScenario(t, b)))
+	sameRanking(t, rows, native(t, demoScenario(t)))
+	if v := eval[string](t, b, `document.getElementById("engine-status").textContent`); !strings.Contains(v, api.EngineVersion) {
+		t.Errorf("engine status %q lacks the version %s", v, api.EngineVersion)
+	}
+	b.waitFor(t, `(document.body.dataset.plots || "").startsWith("done-")`, 60*time.Second)
+	b.screenshot(t, "bundle")
+	mu.Lock()
+	defer mu.Unlock()
+	for _, u := range urls {
+		if !strings.HasPrefix(u, "file://") && !strings.HasPrefix(u, "data:") && !strings.HasPrefix(u, "blob:") {
+			t.Errorf("the bundle requested %s", u)
+		}
+	}
+}
+
+// TestPageOffline visits once, stops the server, reloads: the service
+// worker serves the page and its engine.
+func TestPageOffline(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, stop := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	b.waitRun(t, "")
+	b.waitFor(t, `navigator.serviceWorker.controller !== null || (navigator.serviceWorker.ready.then(() => window.__swReady = true), window.__swReady === true)`, 30*time.Second)
+	b.waitFor(t, `caches.keys().then(k => k.length > 0) && (window.__c = window.__c || caches.keys().then(ks => Promise.all(ks.map(k => caches.open(k).then(c => c.keys())))).then(a => window.__n = a.flat().length), window.__n >= 12)`, 30*time.Second)
+	stop()
+	if _, err := http.Get(url); err == nil {
+		t.Fatal("the server still answers")
+	}
+	b.do(t, chromedp.Reload())
+	b.waitRun(t, "")
+	rows := eval[[]pageRow](t, b, jsRows)
+	sameRanking(t, rows, native(t, pageScenario(t, b)))
+	b.screenshot(t, "offline")
+}
+
+// TestPageNetworkOwnOrigin: served, the page requests only its own origin.
+func TestPageNetworkOwnOrigin(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	var mu sync.Mutex
+	var urls []string
+	if _, err := chromedp.Call(b.ctx, network.Enable, network.EnableParams{}); err != nil {
+		t.Fatal(err)
+	}
+	chromedp.Listen(b.ctx, func(ev any) {
+		if e, ok := ev.(*network.EventRequestWillBeSent); ok {
+			mu.Lock()
+			urls = append(urls, e.Request.URL)
+			mu.Unlock()
+		}
+	})
+	b.do(t, chromedp.Navigate(url))
+	b.waitRun(t, "")
+	b.waitFor(t, `(document.body.dataset.plots || "").startsWith("done-")`, 60*time.Second)
+	mu.Lock()
+	defer mu.Unlock()
+	if len(urls) == 0 {
+		t.Fatal("no requests seen")
+	}
+	for _, u := range urls {
+		if !strings.HasPrefix(u, url) && !strings.HasPrefix(u, "blob:") && !strings.HasPrefix(u, "data:") {
+			t.Errorf("the page requested %s (own origin %s)", u, url)
+		}
+	}
+}
+
+// TestPageAccessible checks that every control has a label, the tabs work
+// from the keyboard, and the layout fits a tablet.
+func TestPageAccessible(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	b.waitRun(t, "")
+	unlabelled := eval[[]string](t, b, `Array.from(document.querySelectorAll("input, select, textarea, button")).filter(e => {
+		if (e.type === "hidden") return false;
+		const name = (e.labels && e.labels.length) || e.getAttribute("aria-label") || e.getAttribute("aria-labelledby") || (e.tagName === "BUTTON" && e.textContent.trim());
+		return !name;
+	}).map(e => e.outerHTML.slice(0, 80))`)
+	if len(unlabelled) > 0 {
+		t.Errorf("controls without a label: %v", unlabelled)
+	}
+	// Arrow keys move between tabs.
+	b.do(t, chromedp.Focus(chromedp.ID("tab-ranking")), chromedp.SendKeys(chromedp.ID("tab-ranking"), kb.ArrowRight))
+	if got := eval[string](t, b, `document.activeElement.id + " " + document.getElementById("tab-plots").getAttribute("aria-selected")`); got != "tab-plots true" {
+		t.Errorf("after ArrowRight on the first tab: %q", got)
+	}
+	// Tablet width: one column, nothing wider than the viewport.
+	if _, err := chromedp.Call(b.ctx, emulation.SetDeviceMetricsOverride, emulation.SetDeviceMetricsOverrideParams{Width: 768, Height: 1024, DeviceScaleFactor: 1, Mobile: true}); err != nil {
+		t.Fatal(err)
+	}
+	b.waitFor(t, `document.documentElement.scrollWidth <= innerWidth + 1`, 5*time.Second)
+	b.screenshot(t, "tablet")
+}
+
+// ---- the benchmark ----------------------------------------------------------------
+
+// BenchmarkPageFirstResult measures, in headless Chromium, the time from
+// navigation to the first ranked result (served and from the bundle), and
+// reports the sizes: the wasm raw and gzip, and the bundle.
+func BenchmarkPageFirstResult(b *testing.B) {
+	p := pageBuild(b)
+	wasm, err := os.ReadFile(p.wasm)
+	if err != nil {
+		b.Fatal(err)
+	}
+	bundle, err := os.Stat(p.bundle)
+	if err != nil {
+		b.Fatal(err)
+	}
+	url, _ := startServe(b, p)
+	for _, target := range []struct{ name, url string }{{"served", url}, {"bundle", "file://" + p.bundle}} {
+		b.Run(target.name, func(b *testing.B) {
+			var total float64
+			for i := 0; i < b.N; i++ {
+				bs := browser(b) // a fresh profile each time: a first visit
+				b.ResetTimer()
+				bs.do(b, chromedp.Navigate(target.url))
+				bs.waitRun(b, "")
+				ms := eval[float64](b, bs, `Number(document.body.dataset.firstResultMs)`)
+				total += ms
+			}
+			b.ReportMetric(total/float64(b.N), "ms/first-result")
+			b.ReportMetric(float64(len(wasm)), "wasm-bytes")
+			b.ReportMetric(float64(gzipLen(wasm)), "wasm-gzip-bytes")
+			b.ReportMetric(float64(bundle.Size()), "bundle-bytes")
+		})
+	}
+}
+
+func gzipLen(b []byte) int {
+	var buf bytes.Buffer
+	zw, _ := gzip.NewWriterLevel(&buf, gzip.BestCompression)
+	zw.Write(b)
+	zw.Close()
+	return buf.Len()
+}
+
+// TestPageFieldError: a value past the engine's limit is reported beside
+// its field, naming the field and the limit, and the input is kept.
+func TestPageFieldError(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	b.waitRun(t, "")
+	b.do(t, chromedp.SetValue(chromedp.ID("temp"), "150"),
+		chromedp.Evaluate[chromedp.Void](`document.getElementById("temp").dispatchEvent(new Event("input", {bubbles: true}))`))
+	b.waitFor(t, `(document.body.dataset.run || "").startsWith("error-")`, 20*time.Second)
+	msg := eval[string](t, b, `document.querySelector('.field-error[data-for="operation"]').textContent`)
+	if !strings.Contains(msg, "temperature_c") || !strings.Contains(msg, "0–100") {
+		t.Errorf("field error %q should name temperature_c and its limit", msg)
+	}
+	if eval[string](t, b, `document.getElementById("temp").getAttribute("aria-invalid")`) != "true" {
+		t.Error("the temperature input is not marked invalid")
+	}
+	if v := eval[string](t, b, `document.getElementById("temp").value`); v != "150" {
+		t.Errorf("the user's input was changed to %q", v)
+	}
+	b.screenshot(t, "error")
+}
+
+// TestPageShareLink: a link made in one browser opens the same scenario
+// and ranking in another.
+func TestPageShareLink(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	run := b.waitRun(t, "")
+	b.do(t, chromedp.SetValue(chromedp.ID("basis-value"), "55"),
+		chromedp.Evaluate[chromedp.Void](`document.getElementById("basis-value").dispatchEvent(new Event("input", {bubbles: true}))`))
+	b.waitRun(t, run)
+	want := eval[[]pageRow](t, b, jsRows)
+	b.do(t, chromedp.Click(chromedp.ID("btn-share")))
+	b.waitFor(t, `location.hash.startsWith("#s=z")`, 10*time.Second)
+	link := eval[string](t, b, `location.href`)
+	sc := pageScenario(t, b)
+
+	b2 := browser(t)
+	b2.do(t, chromedp.Navigate(link))
+	b2.waitRun(t, "")
+	if v := eval[string](t, b2, `document.getElementById("basis-value").value`); v != "55" {
+		t.Errorf("the shared scenario's basis value is %q, want 55", v)
+	}
+	got := eval[[]pageRow](t, b2, jsRows)
+	sameRanking(t, got, native(t, sc))
+	if fmt.Sprint(got) != fmt.Sprint(want) {
+		t.Errorf("shared ranking %v, original %v", got, want)
+	}
+}
+
+// TestPageCustomSolute adds a solute with a pasted π(c) table: it joins the
+// library and the screen, ranks as the engine ranks it natively, and its
+// measured points are plotted. A broken table is refused with a message.
+func TestPageCustomSolute(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	run := b.waitRun(t, "")
+	b.do(t, chromedp.Click(chromedp.ID("tab-candidates")),
+		chromedp.Evaluate[chromedp.Void](`document.getElementById("custom-box").open = true`))
+	fill := func(id, v string) {
+		b.do(t, chromedp.SetValue(chromedp.ID(id), v))
+	}
+	// A table whose concentrations go down is refused.
+	fill("cs-id", "Draw-X")
+	fill("cs-mm", "120")
+	fill("cs-nu", "2")
+	fill("cs-d", "1.2")
+	fill("cs-sol", "4")
+	fill("cs-pmin", "0.5")
+	fill("cs-pmax", "1.5")
+	fill("cs-table", "0.5, 24\n0.4, 20")
+	b.do(t, chromedp.Click(chromedp.CSS(`#custom-form button[type=submit]`)))
+	if msg := eval[string](t, b, `document.getElementById("cs-error").textContent`); !strings.Contains(msg, "must increase") {
+		t.Errorf("broken table: message %q", msg)
+	}
+	if eval[bool](t, b, `!!document.querySelector('#lib-list li[data-solute="Draw-X"]')`) {
+		t.Fatal("a refused solute joined the library")
+	}
+	fill("cs-table", "# c (mol/kg), π (bar)\n0.5, 24.1\n1.0, 49.5\n1.5, 76.0\n2.0, 104")
+	b.do(t, chromedp.Click(chromedp.CSS(`#custom-form button[type=submit]`)))
+	b.waitFor(t, `!!document.querySelector('#lib-list li[data-solute="Draw-X"] input:checked')`, 10*time.Second)
+	b.waitRun(t, run)
+	b.waitFor(t, `!!document.querySelector('#ranking tbody tr[data-solute="Draw-X"]')`, 30*time.Second)
+	sc := pageScenario(t, b)
+	sameRanking(t, eval[[]pageRow](t, b, jsRows), native(t, sc))
+	b.screenshot(t, "custom")
+	// Restored after a reload, with its table.
+	b.do(t, chromedp.Reload())
+	b.waitRun(t, "")
+	if !eval[bool](t, b, `!!document.querySelector('#ranking tbody tr[data-solute="Draw-X"]')`) {
+		t.Error("the custom solute is gone after a reload")
+	}
+	b.do(t, chromedp.Evaluate[chromedp.Void](`document.getElementById("plot-count").value = "all"; document.getElementById("plot-count").dispatchEvent(new Event("change"))`))
+	b.waitFor(t, `Array.from(document.querySelectorAll('#plots [data-plot="osmotic-pressure"] text')).some(e => e.textContent.includes("Draw-X (custom; dots: measured"))`, 60*time.Second)
+}
+
+// TestPageExports downloads the CSV, the JSON and a chart's SVG and PNG.
+func TestPageExports(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	dir := t.TempDir()
+	if _, err := chromedp.CallBrowser(b.ctx, cdpbrowser.SetDownloadBehavior, cdpbrowser.SetDownloadBehaviorParams{
+		Behavior: cdpbrowser.SetDownloadBehaviorBehaviorAllow, DownloadPath: dir}); err != nil {
+		t.Fatal(err)
+	}
+	b.do(t, chromedp.Navigate(url))
+	b.waitRun(t, "")
+	b.waitFor(t, `(document.body.dataset.plots || "").startsWith("done-")`, 60*time.Second)
+	wait := func(name string) []byte {
+		t.Helper()
+		for i := 0; i < 100; i++ {
+			if b, err := os.ReadFile(filepath.Join(dir, name)); err == nil && len(b) > 0 {
+				return b
+			}
+			time.Sleep(100 * time.Millisecond)
+		}
+		t.Fatalf("%s was not downloaded", name)
+		return nil
+	}
+	rows := eval[[]pageRow](t, b, jsRows)
+	b.do(t, chromedp.Click(chromedp.ID("btn-csv")))
+	csv := string(wait("drawsift-ranking.csv"))
+	lines := strings.Split(strings.TrimSpace(csv), "\n")
+	if !strings.HasPrefix(lines[0], "Rank,Solute,Score (0–1),Draw conc. (mol/L)") || !strings.Contains(lines[0], "(LMH)") {
+		t.Errorf("CSV header %q", lines[0])
+	}
+	if !strings.HasPrefix(lines[1], "1,"+rows[0].Solute+",") {
+		t.Errorf("CSV first row %q, want %s first", lines[1], rows[0].Solute)
+	}
+	b.do(t, chromedp.Click(chromedp.ID("btn-json")))
+	var res struct {
+		Candidates    []pageRow `json:"candidates"`
+		EngineVersion string    `json:"engine_version"`
+	}
+	if err := json.Unmarshal(wait("drawsift-result.json"), &res); err != nil {
+		t.Fatal(err)
+	}
+	if len(res.Candidates) != len(rows) || res.EngineVersion != api.EngineVersion {
+		t.Errorf("JSON export: %d candidates, engine %s", len(res.Candidates), res.EngineVersion)
+	}
+	b.do(t, chromedp.Click(chromedp.ID("tab-plots")),
+		chromedp.Click(chromedp.CSS(`figure[data-plot="tradeoff"] figcaption button:first-of-type`)))
+	svg := string(wait("drawsift-tradeoff.svg"))
+	if !strings.HasPrefix(svg, "<?xml") || !strings.Contains(svg, `<svg xmlns="http://www.w3.org/2000/svg"`) || !strings.Contains(svg, rows[0].Solute) {
+		t.Errorf("SVG export starts %q", svg[:min(len(svg), 120)])
+	}
+	b.do(t, chromedp.Click(chromedp.CSS(`figure[data-plot="tradeoff"] figcaption button:last-of-type`)))
+	if png := wait("drawsift-tradeoff.png"); !bytes.HasPrefix(png, []byte("\x89PNG")) {
+		t.Error("PNG export is not a PNG")
+	}
+	b.do(t, chromedp.Click(chromedp.ID("btn-export-scenario")))
+	var sc map[string]any
+	if err := json.Unmarshal(wait("drawsift-scenario.json"), &sc); err != nil {
+		t.Fatal(err)
+	}
+	sameRanking(t, rows, native(t, sc))
+}
+
+// TestPageSweep runs a temperature sweep with progress and draws it.
+func TestPageSweep(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	b.waitRun(t, "")
+	b.do(t, chromedp.Click(chromedp.ID("tab-plots")), chromedp.Click(chromedp.ID("btn-sweep")))
+	b.waitFor(t, `!!document.querySelector('#sweep-plot figure[data-plot="sweep"]')`, 60*time.Second)
+	if n := eval[int](t, b, `document.querySelectorAll('#sweep-plot svg path').length`); n < 3 {
+		t.Errorf("the sweep plot has %d series", n)
+	}
+	if v := eval[float64](t, b, `document.getElementById("sweep-progress").value`); v != 1 {
+		t.Errorf("sweep progress ends at %v", v)
+	}
+}
+
+// TestPageVersionMismatch serves the page with a version that is not the
+// engine's: the page says so instead of computing with a stale engine.
+func TestPageVersionMismatch(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	index, err := fs.ReadFile(site.FS, "index.html")
+	if err != nil {
+		t.Fatal(err)
+	}
+	index = bytes.Replace(index, []byte(`content="`+api.EngineVersion+`"`), []byte(`content="0.0.0-stale"`), 1)
+	mux := http.NewServeMux()
+	mux.Handle("/", http.FileServerFS(site.FS))
+	mux.HandleFunc("/{$}", func(w http.ResponseWriter, r *http.Request) { w.Write(index) })
+	mux.HandleFunc("/drawsift.wasm", func(w http.ResponseWriter, r *http.Request) { http.ServeFile(w, r, p.wasm) })
+	mux.HandleFunc("/wasm_exec.js", func(w http.ResponseWriter, r *http.Request) { http.ServeFile(w, r, p.exec) })
+	srv := httptest.NewServer(mux)
+	defer srv.Close()
+	b.do(t, chromedp.Navigate(srv.URL+"/"))
+	b.waitFor(t, `document.body.dataset.engine === "failed"`, 30*time.Second)
+	msg := eval[string](t, b, `document.getElementById("banner").textContent`)
+	if !strings.Contains(msg, api.EngineVersion) || !strings.Contains(msg, "0.0.0-stale") || !strings.Contains(msg, "does not match") {
+		t.Errorf("banner %q", msg)
+	}
+	if n := eval[int](t, b, `document.querySelectorAll("#ranking tbody tr").length`); n != 0 {
+		t.Errorf("%d rows ranked with a mismatched engine", n)
+	}
+}
+
+// TestPageKeepsHiddenFields: an imported scenario's fields that the form
+// does not show survive an edit made in the form.
+func TestPageKeepsHiddenFields(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	run := b.waitRun(t, "")
+	sc := demoScenario(t)
+	sc["allow_extrapolation"] = true
+	sc["exclude_hazards"] = []any{"oxidizer"}
+	sc["regeneration_recovery"] = 0.6
+	f := filepath.Join(t.TempDir(), "hidden.json")
+	body, _ := json.Marshal(sc)
+	os.WriteFile(f, body, 0o644)
+	b.do(t, chromedp.SetUploadFiles(chromedp.ID("file-import"), []string{f}))
+	run = b.waitRun(t, run)
+	b.do(t, chromedp.SetValue(chromedp.ID("temp"), "30"),
+		chromedp.Evaluate[chromedp.Void](`document.getElementById("temp").dispatchEvent(new Event("input", {bubbles: true}))`))
+	b.waitRun(t, run)
+	got := pageScenario(t, b)
+	if got["allow_extrapolation"] != true || got["regeneration_recovery"] != 0.6 || fmt.Sprint(got["exclude_hazards"]) != "[oxidizer]" || got["temperature_c"] != 30.0 {
+		t.Errorf("after an edit the scenario is %v", got)
+	}
+	// With extrapolation allowed, KHCO3 is ranked, not left out.
+	sameRanking(t, eval[[]pageRow](t, b, jsRows), native(t, got))
+}
