@@ -311,7 +311,8 @@ type nativeResult struct {
 }
 
 // native runs the scenario through the engine natively, as the page's
-// live ranking does (no robustness run; page-only fields removed).
+// live ranking does (no robustness run; page-only fields removed, the
+// measured table renamed to the contract's pi_table).
 func native(t testing.TB, sc map[string]any) nativeResult {
 	t.Helper()
 	req := map[string]any{}
@@ -324,7 +325,10 @@ func native(t testing.TB, sc map[string]any) nativeResult {
 			m := c.(map[string]any)
 			delete(m, "hazards")
 			delete(m, "regeneration")
-			delete(m, "osmotic_table")
+			if tab, ok := m["osmotic_table"]; ok {
+				m["pi_table"] = tab // the page sends its stored table as the contract's pi_table
+				delete(m, "osmotic_table")
+			}
 		}
 	}
 	body, _ := json.Marshal(req)

@@ -27,6 +27,7 @@ const (
 	OpFlux    = "flux"
 	OpScreen  = "screen"
 	OpSolutes = "solutes"
+	OpPresets = "presets"
 	OpHealth  = "health"
 )
 
@@ -75,6 +76,13 @@ func Invalid(field string, limit any, format string, a ...any) *Error {
 // becomes a KindInternal error: the message says "internal error" and the
 // details are kept for host logs in the returned error's Detail.
 func Dispatch(ctx context.Context, op string, body []byte) (out []byte, e *Error) {
+	return DispatchProgress(ctx, op, body, nil)
+}
+
+// DispatchProgress is Dispatch with a progress callback for long
+// operations (a screen's robustness run reports done of total samples);
+// progress may be nil. Cancelling ctx stops a long operation.
+func DispatchProgress(ctx context.Context, op string, body []byte, progress func(done, total int)) (out []byte, e *Error) {
 	defer func() {
 		if r := recover(); r != nil {
 			e = &Error{Message: "internal error", Kind: KindInternal, detail: fmt.Sprintf("panic: %v\n%s", r, debug.Stack())}
@@ -96,14 +104,16 @@ func Dispatch(ctx context.Context, op string, body []byte) (out []byte, e *Error
 	case OpScreen:
 		var req ScreenRequest
 		if e = decode(body, &req); e == nil {
-			resp, e = Screen(ctx, &req, nil)
+			resp, e = Screen(ctx, &req, progress)
 		}
 	case OpSolutes:
 		resp, e = Solutes()
+	case OpPresets:
+		resp, e = Presets()
 	case OpHealth:
 		resp = Health{Status: "ok", EngineVersion: EngineVersion, JSON: jsonx.Library}
 	default:
-		e = &Error{Field: "operation", Message: fmt.Sprintf("unknown operation %q (one of osmotic, flux, screen, solutes, health)", op), Kind: KindNotFound}
+		e = &Error{Field: "operation", Message: fmt.Sprintf("unknown operation %q (one of osmotic, flux, screen, solutes, presets, health)", op), Kind: KindNotFound}
 	}
 	if e != nil {
 		return encodeError(e), e

@@ -143,3 +143,41 @@ func ExampleDispatch() {
 	// π = 84.9 bar (van 't Hoff 74.4 bar), φ = 1.12
 	// true
 }
+
+func TestPresets(t *testing.T) {
+	m, e := dispatch(t, OpPresets, ``)
+	if e != nil {
+		t.Fatal(e)
+	}
+	ms, fs := m["membranes"].([]any), m["feeds"].([]any)
+	if len(ms) < 3 || len(fs) < 5 {
+		t.Errorf("presets: %d membranes, %d feeds", len(ms), len(fs))
+	}
+	for _, x := range append(ms, fs...) {
+		if src, ok := x.(map[string]any)["sources"].(map[string]any); !ok || len(src) == 0 {
+			t.Errorf("preset without sources: %v", x.(map[string]any)["id"])
+		}
+	}
+}
+
+// DispatchProgress reports a robustness run's progress and stops when the
+// context is cancelled.
+func TestDispatchProgress(t *testing.T) {
+	body := []byte(`{"candidates":["NaCl","KCl","MgCl2"],"uncertainty":{"samples":200},"seed":3}`)
+	var last, total int
+	if _, e := DispatchProgress(context.Background(), OpScreen, body, func(d, n int) { last, total = d, n }); e != nil {
+		t.Fatal(e)
+	}
+	if total == 0 || last != total {
+		t.Errorf("progress ended at %d of %d", last, total)
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	_, e := DispatchProgress(ctx, OpScreen, body, func(d, n int) {
+		if d > 10 {
+			cancel()
+		}
+	})
+	if e == nil {
+		t.Error("a cancelled screen returned no error")
+	}
+}

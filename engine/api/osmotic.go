@@ -176,3 +176,23 @@ func Solutes() (*SolutesResponse, *Error) {
 	}
 	return &SolutesResponse{Solutes: lib.All(), EngineVersion: EngineVersion}, nil
 }
+
+// PresetsResponse lists the membrane and feed presets with their sources.
+type PresetsResponse struct {
+	Membranes     []*library.Membrane `json:"membranes"`
+	Feeds         []*library.Feed     `json:"feeds"`
+	EngineVersion string              `json:"engine_version"`
+}
+
+// Presets returns the embedded membrane and feed presets.
+func Presets() (*PresetsResponse, *Error) {
+	ms, err := library.Membranes()
+	if err != nil {
+		return nil, &Error{Message: "internal error", Kind: KindInternal, detail: "membrane presets: " + err.Error()}
+	}
+	fs, err := library.Feeds()
+	if err != nil {
+		return nil, &Error{Message: "internal error", Kind: KindInternal, detail: "feed presets: " + err.Error()}
+	}
+	return &PresetsResponse{Membranes: ms, Feeds: fs, EngineVersion: EngineVersion}, nil
+}

@@ -160,6 +160,8 @@
     if (r.custom_solutes) {
       r.custom_solutes = r.custom_solutes.map(c => {
         const o = Object.assign({}, c);
+        // The measured table travels as the contract's pi_table.
+        if (o.osmotic_table) o.pi_table = o.osmotic_table;
         delete o.hazards; delete o.regeneration; delete o.osmotic_table;
         return o;
       });
@@ -824,7 +826,9 @@
     add("Family", s.family);
     add("Molar mass", s.molar_mass_g_per_mol + " g/mol");
     if (s.osmotic_model) add("Osmotic model", s.osmotic_model.kind + (s.osmotic_model.max_molality_mol_per_kg ? ", data to " + s.osmotic_model.max_molality_mol_per_kg + " mol/kg" : "") + (s.osmotic_model.reason ? " — " + s.osmotic_model.reason : ""));
-    if (s.custom) add("Osmotic model", "van 't Hoff in the ranking (user-defined solute)" + (s.osmotic_table ? "; measured table of " + s.osmotic_table.points.length + " points plotted" : ""));
+    if (s.custom) add("Osmotic model", s.osmotic_table
+      ? "measured π table of " + s.osmotic_table.points.length + " points, interpolated monotonically in the ranking"
+      : "van 't Hoff in the ranking (user-defined solute without a measured table)");
     if (s.ions && s.ions.length) add("Ions", s.ions.map(i => i.count + " × " + i.symbol).join(", "));
     if (s.solubility) add("Solubility", s.solubility.miscible ? "miscible" : (s.solubility.points || []).map(p => p.molality_mol_per_kg + " mol/kg at " + p.temperature_c + " °C").join("; "));
     if (s.solubility_mol_per_kg !== undefined) add("Solubility", s.solubility_mol_per_kg + " mol/kg at 25 °C");
@@ -862,8 +866,9 @@
       const parts = line.split(/[\s,;\t]+/).filter(Boolean);
       if (parts.length !== 2) throw new Error("line " + (i + 1) + ": expected two numbers (concentration, π), got “" + line.slice(0, 40) + "”");
       const c = Number(parts[0]), p = Number(parts[1]);
-      if (!isFinite(c) || !isFinite(p) || c < 0 || p < 0) throw new Error("line " + (i + 1) + ": numbers must be finite and ≥ 0");
+      if (!isFinite(c) || !isFinite(p) || c <= 0 || p <= 0) throw new Error("line " + (i + 1) + ": numbers must be finite and > 0");
       if (pts.length && c <= pts[pts.length - 1].concentration) throw new Error("line " + (i + 1) + ": concentrations must increase");
+      if (pts.length && p <= pts[pts.length - 1].osmotic_pressure_bar) throw new Error("line " + (i + 1) + ": osmotic pressure must increase with concentration");
       pts.push({ concentration: c, osmotic_pressure_bar: p });
     }
     if (pts.length === 1) throw new Error("a table needs at least two points");

@@ -16,10 +16,9 @@
 // While one runs it yields to the worker's event loop every few tens of
 // milliseconds, so that a cancel message posted by the page is seen.
 //
-// Besides the contract's operations it answers two of the page's own:
-// "presets" (membrane and feed presets, read from the engine's library)
-// and "batch" (a list of {op, body} run in one call, for the plots).
-// Both only decode, call the engine and encode.
+// Besides the contract's operations it answers one of the page's own:
+// "batch" (a list of {op, body} run in one call, for the plots); it only
+// decodes, calls the engine and encodes.
 package main
 
 import (
@@ -32,7 +31,6 @@ import (
 	"time"
 
 	"drawsift/engine/api"
-	"drawsift/engine/library"
 )
 
 func main() {
@@ -122,57 +120,18 @@ func run(ctx context.Context, op string, body []byte, progress func(float64), y 
 			fmt.Println("drawsift: internal error:", r)
 		}
 	}()
-	switch op {
-	case "presets":
-		return presets()
-	case "batch":
+	if op == "batch" {
 		return batch(ctx, body, y)
-	case api.OpScreen:
-		return screen(ctx, body, progress)
 	}
-	out, e = api.Dispatch(ctx, op, body)
-	if e != nil && e.Kind == api.KindInternal {
-		fmt.Println("drawsift: internal error:", e.Detail())
-	}
-	return out, e
-}
-
-// screen runs the screen with a progress callback. The request is decoded
-// as strictly as Dispatch decodes it; when decoding fails, Dispatch itself
-// answers, so the error is the contract's exact one.
-func screen(ctx context.Context, body []byte, progress func(float64)) ([]byte, *api.Error) {
-	var req api.ScreenRequest
-	if err := decodeStrict(body, &req); err != nil {
-		return api.Dispatch(ctx, api.OpScreen, body)
-	}
-	resp, e := api.Screen(ctx, &req, func(done, total int) {
+	out, e = api.DispatchProgress(ctx, op, body, func(done, total int) {
 		if total > 0 {
 			progress(float64(done) / float64(total))
 		}
 	})
-	if e != nil {
-		return encodeError(e), e
+	if e != nil && e.Kind == api.KindInternal {
+		fmt.Println("drawsift: internal error:", e.Detail())
 	}
-	return encode(resp)
-}
-
-// PresetsResponse lists the membrane and feed presets.
-type PresetsResponse struct {
-	Membranes     []*library.Membrane `json:"membranes"`
-	Feeds         []*library.Feed     `json:"feeds"`
-	EngineVersion string              `json:"engine_version"`
-}
-
-func presets() ([]byte, *api.Error) {
-	ms, err := library.Membranes()
-	if err != nil {
-		return internal("membrane presets: " + err.Error())
-	}
-	fs, err := library.Feeds()
-	if err != nil {
-		return internal("feed presets: " + err.Error())
-	}
-	return encode(PresetsResponse{Membranes: ms, Feeds: fs, EngineVersion: api.EngineVersion})
+	return out, e
 }
 
 // batchItem is one operation of a batch.

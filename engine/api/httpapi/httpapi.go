@@ -10,6 +10,7 @@
 //	POST /v1/flux      FO water and solute flux
 //	POST /v1/screen    rank candidate draw solutes for a scenario
 //	GET  /v1/solutes   the solute library with its sources
+//	GET  /v1/presets   the membrane and feed presets with their sources
 //	GET  /v1/health    status and engine version
 //
 // Every failure is the contract's error object,
@@ -80,6 +81,7 @@ var routes = []route{
 	{"/v1/" + api.OpFlux, http.MethodPost, api.OpFlux},
 	{"/v1/" + api.OpScreen, http.MethodPost, api.OpScreen},
 	{"/v1/" + api.OpSolutes, http.MethodGet, api.OpSolutes},
+	{"/v1/" + api.OpPresets, http.MethodGet, api.OpPresets},
 	{"/v1/" + api.OpHealth, http.MethodGet, api.OpHealth},
 }
 

@@ -114,6 +114,16 @@ func TestHealth(t *testing.T) {
 	}
 }
 
+func TestPresets(t *testing.T) {
+	m := okJSON(t, do(New(Options{}), http.MethodGet, "/v1/presets", "", nil))
+	if ms, ok := m["membranes"].([]any); !ok || len(ms) == 0 {
+		t.Errorf("presets: no membranes in %v", m)
+	}
+	if fs, ok := m["feeds"].([]any); !ok || len(fs) == 0 {
+		t.Errorf("presets: no feeds in %v", m)
+	}
+}
+
 func TestSolutes(t *testing.T) {
 	m := okJSON(t, do(New(Options{}), http.MethodGet, "/v1/solutes", "", nil))
 	list, ok := m["solutes"].([]any)
