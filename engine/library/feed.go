@@ -1,13 +1,8 @@
 package library
 
 import (
-	"bytes"
 	"fmt"
 	"math"
-	"sync"
-
-	"drawsift/data"
-	"drawsift/engine/internal/jsonx"
 )
 
 // Feed is a feed-water preset as stored in data/feeds.json: how its
@@ -122,58 +117,11 @@ func (f *Feed) Validate() error {
 	return nil
 }
 
-type feedsFile struct {
-	SchemaVersion int    `json:"schema_version"`
-	Feeds         []Feed `json:"feeds"`
-}
-
-var (
-	feedsOnce sync.Once
-	feeds     map[string]*Feed
-	feedList  []*Feed
-	feedsErr  error
-)
+var feedPresets = presetFile[Feed]{name: "feeds",
+	id: func(f *Feed) string { return f.ID }, validate: (*Feed).Validate}
 
 // Feeds returns the embedded feed presets in file order.
-func Feeds() ([]*Feed, error) {
-	loadFeeds()
-	return feedList, feedsErr
-}
+func Feeds() ([]*Feed, error) { return feedPresets.all() }
 
 // LookupFeed finds a feed preset by ID, case-insensitively.
-func LookupFeed(id string) (*Feed, bool) {
-	loadFeeds()
-	f, ok := feeds[Key(id)]
-	return f, ok
-}
-
-func loadFeeds() {
-	feedsOnce.Do(func() {
-		b, err := data.FS.ReadFile("feeds.json")
-		if err != nil {
-			feedsErr = err
-			return
-		}
-		dec := jsonx.NewDecoder(bytes.NewReader(b))
-		dec.DisallowUnknownFields()
-		var f feedsFile
-		if err := dec.Decode(&f); err != nil {
-			feedsErr = fmt.Errorf("feeds: %w", err)
-			return
-		}
-		feeds = map[string]*Feed{}
-		for i := range f.Feeds {
-			fd := &f.Feeds[i]
-			if err := fd.Validate(); err != nil {
-				feedsErr = err
-				return
-			}
-			if _, dup := feeds[Key(fd.ID)]; dup {
-				feedsErr = fmt.Errorf("feed %q: duplicate id", fd.ID)
-				return
-			}
-			feeds[Key(fd.ID)] = fd
-			feedList = append(feedList, fd)
-		}
-	})
-}
+func LookupFeed(id string) (*Feed, bool) { return feedPresets.lookup(id) }

@@ -1,13 +1,8 @@
 package library
 
 import (
-	"bytes"
 	"fmt"
 	"math"
-	"sync"
-
-	"drawsift/data"
-	"drawsift/engine/internal/jsonx"
 )
 
 // Membrane is a generic FO membrane preset (no brand names) or a user's
@@ -77,54 +72,11 @@ func (m *Membrane) EstimateB(s *Solute, d0NaCl float64) (bLMH float64, estimated
 	return m.BNaClLMH * s.Diffusivity.D0M2PerS / d0NaCl, true
 }
 
-type membranesFile struct {
-	SchemaVersion int        `json:"schema_version"`
-	Membranes     []Membrane `json:"membranes"`
-}
-
-var (
-	membranesOnce sync.Once
-	membranes     map[string]*Membrane
-	membraneList  []*Membrane
-	membranesErr  error
-)
+var membranePresets = presetFile[Membrane]{name: "membranes",
+	id: func(m *Membrane) string { return m.ID }, validate: (*Membrane).Validate}
 
 // Membranes returns the embedded membrane presets in file order.
-func Membranes() ([]*Membrane, error) {
-	loadMembranes()
-	return membraneList, membranesErr
-}
+func Membranes() ([]*Membrane, error) { return membranePresets.all() }
 
 // LookupMembrane finds a preset by ID, case-insensitively.
-func LookupMembrane(id string) (*Membrane, bool) {
-	loadMembranes()
-	m, ok := membranes[Key(id)]
-	return m, ok
-}
-
-func loadMembranes() {
-	membranesOnce.Do(func() {
-		b, err := data.FS.ReadFile("membranes.json")
-		if err != nil {
-			membranesErr = err
-			return
-		}
-		dec := jsonx.NewDecoder(bytes.NewReader(b))
-		dec.DisallowUnknownFields()
-		var f membranesFile
-		if err := dec.Decode(&f); err != nil {
-			membranesErr = fmt.Errorf("membranes: %w", err)
-			return
-		}
-		membranes = map[string]*Membrane{}
-		for i := range f.Membranes {
-			m := &f.Membranes[i]
-			if err := m.Validate(); err != nil {
-				membranesErr = err
-				return
-			}
-			membranes[Key(m.ID)] = m
-			membraneList = append(membraneList, m)
-		}
-	})
-}
+func LookupMembrane(id string) (*Membrane, bool) { return membranePresets.lookup(id) }

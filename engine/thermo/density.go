@@ -70,16 +70,7 @@ func (d *density) specVol(w float64) (v, dv float64) {
 		dvdm := ((d.v0+2*d.v1*m)*mass - vol*d.mKg) / (mass * mass)
 		dv = dvdm / (d.mKg * (1 - w) * (1 - w))
 	case densSeawater:
-		rho := seawaterDensity(w, d.tC)
-		const (
-			b1 = 8.0200240891e2
-			b2 = -2.0005183488
-			b3 = 1.6771024982e-2
-			b4 = -3.0600536746e-5
-			b5 = -1.6132224742e-5
-		)
-		t := d.tC
-		drho := b1 + t*(b2+t*(b3+t*b4)) + 2*b5*w*t*t
+		rho, drho := seawaterDensity(w, d.tC)
 		v = 1 / rho
 		dv = -drho / (rho * rho)
 	default:

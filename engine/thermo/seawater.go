@@ -37,7 +37,7 @@ func seawaterPhi(sGPerKg, tC float64) float64 {
 }
 
 // seawaterDensity returns the density of seawater (kg/m³) at mass fraction
-// of salt w (kg/kg) and tC °C, at 0.1 MPa:
+// of salt w (kg/kg) and tC °C, at 0.1 MPa, and dρ/dw:
 //
 //	ρ = ρ_w(t) + b1 w + b2 w t + b3 w t² + b4 w t³ + b5 w² t²
 //
@@ -46,7 +46,7 @@ func seawaterPhi(sGPerKg, tC float64) float64 {
 // ±0.1 %); coefficients as implemented in the MIT seawater-properties
 // library (SW_Density). ρ_w is taken from package water rather than
 // Sharqawy's own pure-water fit (they agree to 0.01 %).
-func seawaterDensity(w, tC float64) float64 {
+func seawaterDensity(w, tC float64) (rho, drhodw float64) {
 	const (
 		b1 = 8.0200240891e2
 		b2 = -2.0005183488
@@ -55,7 +55,9 @@ func seawaterDensity(w, tC float64) float64 {
 		b5 = -1.6132224742e-5
 	)
 	t := tC
-	return water.Density(t+ZeroCelsiusK) + w*(b1+t*(b2+t*(b3+t*b4))) + b5*w*w*t*t
+	lin := b1 + t*(b2+t*(b3+t*b4))
+	rho = water.Density(t+ZeroCelsiusK) + w*lin + b5*w*w*t*t
+	return rho, lin + 2*b5*w*t*t
 }
 
 // seawaterRelViscosity returns μ_sw/μ_w at mass fraction w and tC °C:

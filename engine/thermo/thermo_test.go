@@ -258,6 +258,22 @@ func TestSeawaterTEOS10(t *testing.T) {
 		}
 	}
 	t.Logf("seawater π vs TEOS-10: worst deviation %.3f %% at 10–70 g/kg, %d points in all", 100*worst, len(rows))
+
+	// Density: Sharqawy et al. (2010) eq. 8 states ±0.1 % against its data;
+	// TEOS-10's rho_t_exact is the reference here, same table.
+	worst = 0
+	for _, r := range rows {
+		sa, tc, want := r[0], r[1], r[3]
+		x := mustSolution(t, sw, tc+ZeroCelsiusK)
+		m, _ := x.ToMolality(sa, GPerKg)
+		got := x.DensityKgPerM3(m)
+		dev := math.Abs(got/want - 1)
+		worst = math.Max(worst, dev)
+		if dev > 0.001 {
+			t.Errorf("seawater %g g/kg, %g °C: ρ = %.3f, TEOS-10 %.3f kg/m³", sa, tc, got, want)
+		}
+	}
+	t.Logf("seawater density vs TEOS-10: worst deviation %.4f %%", 100*worst)
 }
 
 // readCSV reads a numeric CSV with '#' comment lines and one header row.

@@ -14,5 +14,8 @@ var (
 	Valid         = json.Valid
 )
 
+// RawMessage is an undecoded JSON value of the chosen library.
+type RawMessage = json.RawMessage
+
 // Library names the JSON library in use, for reproducibility records.
 const Library = "encoding/json"
