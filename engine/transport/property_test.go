@@ -7,7 +7,7 @@ import (
 )
 
 // randomInput draws a valid input from the ranges of the screening use
-// (science.md §5.8 typical ranges, widened): A 0.1–10 LMH/bar, B 0.01–5 LMH,
+// (published FO membrane ranges, e.g. Coday et al. 2013, widened): A 0.1–10 LMH/bar, B 0.01–5 LMH,
 // S 50–3000 µm, draw 0.01–5 mol/L with a non-linear π, k 1e-6–1e-3 m/s or
 // none, ΔP 0–50 bar, and a feed that is pure water, the draw solute, or a
 // second solute, with π_F from 0 to 95 % of π_D.

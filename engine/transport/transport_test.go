@@ -88,7 +88,7 @@ func TestLoebIdentity(t *testing.T) {
 // Ideal semipermeable membrane without polarization: S → 0, k → ∞, B = 0
 // gives Jw → A·(π_D − π_F − ΔP), with π the full non-linear value at the
 // bulk concentrations (McCutcheon & Elimelech 2006, limit of their eq. for
-// K → 0; science.md §10 item 6). The deviation must shrink with S (∝ S).
+// K → 0; a limit of the model itself). The deviation must shrink with S (∝ S).
 func TestLimitNoPolarization(t *testing.T) {
 	for _, ori := range []Orientation{ALFS, ALDS} {
 		for _, dp := range []float64{0, 10 * bar, -5 * bar} {
@@ -114,7 +114,7 @@ func TestLimitNoPolarization(t *testing.T) {
 	}
 }
 
-// Monotonicity (science.md §10 item 6; common practice): Jw rises with draw
+// Monotonicity (common practice): Jw rises with draw
 // concentration and falls with S, in both orientations, with ECP and B.
 func TestMonotoneInDrawAndS(t *testing.T) {
 	for _, ori := range []Orientation{ALFS, ALDS} {
@@ -143,8 +143,7 @@ func TestMonotoneInDrawAndS(t *testing.T) {
 
 // AL-DS beats AL-FS for a pure-water feed when the support resistance S/D
 // dominates the boundary-layer resistance 1/k: dilutive ICP on the draw side
-// (AL-FS) hurts more than dilutive ECP (AL-DS) — McCutcheon & Elimelech 2006;
-// science.md §10 item 6.
+// (AL-FS) hurts more than dilutive ECP (AL-DS) — McCutcheon & Elimelech 2006.
 func TestALDSBeatsALFSForPureWaterFeed(t *testing.T) {
 	for _, sUM := range []float64{300, 1000} { // S/D = 2e5 and 7e5 s/m
 		for _, k := range []float64{1e-4, 1e-3} { // 1/k = 1e4 and 1e3 s/m
