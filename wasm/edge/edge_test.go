@@ -33,7 +33,7 @@ import (
 const edgeTags = "stdjson"
 
 // bundleBudget is the platform's limit on the gzip-compressed bundle
-// (design.md, budgets: < 3 MiB).
+// (the platform limit: < 3 MiB).
 const bundleBudget = 3 << 20
 
 type edgeRequest struct {
