@@ -79,8 +79,8 @@ func TestSRSFOrderingPhillip(t *testing.T) {
 // At equal molarity the 2:1 chlorides give more osmotic pressure than the
 // 1:1 salts, as their osmotic coefficients say: at 1 mol/kg, φ(MgCl2) ≈
 // 1.108, φ(CaCl2) ≈ 1.0, φ(NaCl) = 0.936, φ(KCl) = 0.899 (Robinson &
-// Stokes 1959, Appendix 8.10; from memory, NaCl/KCl as in the science
-// brief), so ν·φ orders MgCl2 > CaCl2 > NaCl > KCl.
+// Stokes 1959, Appendix 8.10; values from memory), so ν·φ orders
+// MgCl2 > CaCl2 > NaCl > KCl.
 func TestPiOrderingEqualMolarity(t *testing.T) {
 	sc := baseScenario(t, "MgCl2", "CaCl2", "NaCl", "KCl")
 	sc.Basis = Basis{Kind: BasisConcentration, Concentration: 1, Unit: thermo.MolPerL}
