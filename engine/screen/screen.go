@@ -196,8 +196,9 @@ type Uncertainty struct {
 
 // DefaultOsmoticRelSD and DefaultDiffusivityRelSD apply when a scenario
 // asks for robustness without naming them: 2 % on π for a fitted model
-// within its data (the Pitzer fits reproduce osmotic data to about 1 %,
-// science brief §2.1, computed) and 10 % for a van 't Hoff-only record;
+// within its data (the Pitzer sets reproduce the CRC Handbook's activity
+// coefficients to about 1–2 %, see engine/thermo's tests; common practice)
+// and 10 % for a van 't Hoff-only record;
 // 5 % on D (common practice, from memory).
 const (
 	DefaultOsmoticRelSD     = 0.02
