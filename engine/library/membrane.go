@@ -57,7 +57,8 @@ func (m *Membrane) Validate() error {
 // measured value.
 const BEstimateRule = "B scaled from the membrane's NaCl value by the ratio of bulk diffusion coefficients, " +
 	"B_j = B_NaCl·D_j/D_NaCl (solution–diffusion, B = D_m·K/δ, with equal partitioning assumed; common practice). " +
-	"An estimate: multivalent ions are usually rejected better than this predicts."
+	"An estimate, and often a pessimistic one: membranes usually reject multivalent ions and larger neutral molecules " +
+	"(sugars) much better than diffusivity alone predicts, so enter measured B values where you have them."
 
 // EstimateB returns B (LMH) of the membrane for solute s, and whether it
 // is an estimate (no measured value in the record). d0NaCl is NaCl's
