@@ -44,6 +44,7 @@ import (
 	"github.com/chromedp/chromedp/kb"
 
 	"drawsift/engine/api"
+	"drawsift/engine/screen"
 	"drawsift/site"
 )
 
@@ -1097,8 +1098,8 @@ func TestPageVersionMismatch(t *testing.T) {
 	}
 }
 
-// TestPageKeepsHiddenFields: an imported scenario's fields that the form
-// does not show survive an edit made in the form.
+// TestPageKeepsHiddenFields: an imported scenario's screening rules are
+// shown in the form and survive an edit made in another field.
 func TestPageKeepsHiddenFields(t *testing.T) {
 	p := pageBuild(t)
 	b := browser(t)
@@ -1121,6 +1122,208 @@ func TestPageKeepsHiddenFields(t *testing.T) {
 	if got["allow_extrapolation"] != true || got["regeneration_recovery"] != 0.6 || fmt.Sprint(got["exclude_hazards"]) != "[oxidizer]" || got["temperature_c"] != 30.0 {
 		t.Errorf("after an edit the scenario is %v", got)
 	}
+	if form := eval[string](t, b, `[document.getElementById("allow-extrap").checked, document.getElementById("regen-recovery").value, document.getElementById("hz-oxidizer").checked].join(" ")`); form != "true 60 true" {
+		t.Errorf("the form shows the imported rules as %q, want \"true 60 true\"", form)
+	}
 	// With extrapolation allowed, KHCO3 is ranked, not left out.
 	sameRanking(t, eval[[]pageRow](t, b, jsRows), native(t, got))
+}
+
+// excludedOnPage lists the page's "left out" entries as solute: reason.
+const jsExcluded = `Array.from(document.querySelectorAll("#excluded li[data-solute]")).map(li => li.dataset.solute + ": " + li.querySelector(".reason").textContent)`
+
+// TestPageExcludeHazard adds two solutes flagged toxic in the library
+// (LiCl, KBr) to the demo, then ticks "toxic" from the keyboard: both move
+// to the "left out" list with the engine's reason, and the page's ranking
+// and exclusions are the native engine's for the stored scenario, which
+// names the flag. Too few Pareto objectives get a message beside the field
+// and no run.
+func TestPageExcludeHazard(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	run := b.waitRun(t, "")
+	if eval[bool](t, b, `document.getElementById("hz-toxic").checked`) {
+		t.Fatal("the demo starts with toxic solutes excluded")
+	}
+	b.do(t, chromedp.Click(chromedp.ID("tab-candidates")), chromedp.Click(chromedp.ID("inc-LiCl")), chromedp.Click(chromedp.ID("inc-KBr")))
+	b.waitFor(t, `["LiCl", "KBr"].every(id => JSON.parse(localStorage.getItem("drawsift.scenario.v1")).candidates.includes(id))`, 5*time.Second)
+	time.Sleep(400 * time.Millisecond) // let the debounced run start
+	run = b.waitRun(t, run)
+	b.waitFor(t, `!!document.querySelector('#ranking tbody tr[data-solute="LiCl"]') && !!document.querySelector('#ranking tbody tr[data-solute="KBr"]')`, 30*time.Second)
+	sc := pageScenario(t, b)
+	if _, ok := sc["exclude_hazards"]; ok {
+		t.Errorf("no hazard is ticked, yet the scenario has exclude_hazards = %v", sc["exclude_hazards"])
+	}
+	sameRanking(t, eval[[]pageRow](t, b, jsRows), native(t, sc))
+
+	// Tick "toxic" with the space bar.
+	b.do(t, chromedp.Click(chromedp.ID("tab-ranking")), chromedp.Focus(chromedp.ID("hz-toxic")), chromedp.SendKeys(chromedp.ID("hz-toxic"), " "))
+	b.waitFor(t, `JSON.stringify(JSON.parse(localStorage.getItem("drawsift.scenario.v1")).exclude_hazards) === '["toxic"]'`, 5*time.Second)
+	time.Sleep(400 * time.Millisecond)
+	b.waitRun(t, run)
+	b.waitFor(t, `!document.querySelector('#ranking tbody tr[data-solute="LiCl"]') && (document.body.dataset.run || "").startsWith("done-")`, 30*time.Second)
+	sc = pageScenario(t, b)
+	want := native(t, sc)
+	rows := eval[[]pageRow](t, b, jsRows)
+	sameRanking(t, rows, want)
+	for _, r := range rows {
+		if r.Solute == "LiCl" || r.Solute == "KBr" {
+			t.Errorf("%s is toxic in the library and still ranked", r.Solute)
+		}
+	}
+	ex := eval[[]string](t, b, jsExcluded)
+	if len(ex) != len(want.Excluded) {
+		t.Errorf("left out on the page %v, native %v", ex, want.Excluded)
+	}
+	for i, x := range want.Excluded {
+		if i < len(ex) && ex[i] != x.Solute+": "+x.Reason {
+			t.Errorf("left out [%d] = %q, native %s: %s", i, ex[i], x.Solute, x.Reason)
+		}
+	}
+	for _, id := range []string{"LiCl", "KBr"} {
+		found := false
+		for _, e := range ex {
+			found = found || e == id+": "+screen.ReasonHazard
+		}
+		if !found {
+			t.Errorf("%s is not left out as %q: %v", id, screen.ReasonHazard, ex)
+		}
+	}
+	if d := eval[string](t, b, `document.querySelector('#excluded li[data-solute="LiCl"]').textContent`); !strings.Contains(d, `"toxic"`) {
+		t.Errorf("LiCl's entry %q does not name the flag", d)
+	}
+	if r := eval[string](t, b, `Array.from(document.querySelectorAll("#rp-inputs tr")).map(tr => tr.textContent).join("\n")`); !strings.Contains(r, "Solutes excluded by hazardtoxic") {
+		t.Errorf("the report's inputs do not list the hazard:\n%s", r)
+	}
+	b.screenshot(t, "toxic")
+
+	// Leave one Pareto objective ticked: a message beside the field, no run.
+	b.do(t, chromedp.Click(chromedp.ID("po-water_flux")), chromedp.Click(chromedp.ID("po-replenishment_cost")))
+	b.waitFor(t, `(document.body.dataset.run || "").startsWith("invalid-")`, 10*time.Second)
+	if msg := eval[string](t, b, `document.querySelector('.field-error[data-field="pareto_objectives"]').textContent`); !strings.Contains(msg, "pareto_objectives") || !strings.Contains(msg, "at least two") {
+		t.Errorf("Pareto message %q", msg)
+	}
+}
+
+// TestPageGivenK switches mass transfer to given k values: the ranking
+// changes and is the native engine's; a k past its limit is refused
+// beside the field; the choice survives a reload.
+func TestPageGivenK(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	run := b.waitRun(t, "")
+	before := eval[[]pageRow](t, b, jsRows)
+	if !eval[bool](t, b, `document.getElementById("k-given-box").hidden`) {
+		t.Error("the k inputs show while k comes from the channel")
+	}
+	set := func(id, v string) {
+		b.do(t, chromedp.SetValue(chromedp.ID(id), v),
+			chromedp.Evaluate[chromedp.Void](`document.getElementById("`+id+`").dispatchEvent(new Event("input", {bubbles: true}))`))
+	}
+	b.do(t, chromedp.Click(chromedp.CSS(`#channel-box summary`)), chromedp.Click(chromedp.ID("k-mode-given")))
+	// Past the engine's limit: refused in the page, beside the field.
+	set("k-draw", "5")
+	b.waitFor(t, `(document.body.dataset.run || "").startsWith("invalid-")`, 10*time.Second)
+	if msg := eval[string](t, b, `document.querySelector('.field-error[data-field="k"]').textContent`); !strings.Contains(msg, "k_draw_m_per_s") || !strings.Contains(msg, "1e-8") {
+		t.Errorf("k message %q should name k_draw_m_per_s and its limit", msg)
+	}
+	if eval[string](t, b, `document.getElementById("k-draw").getAttribute("aria-invalid")`) != "true" {
+		t.Error("the k input is not marked invalid")
+	}
+	// Mass-transfer coefficients a few times below the default channel's.
+	set("k-draw", "4e-6")
+	set("k-feed", "8e-6")
+	b.waitFor(t, `(s => s.k_draw_m_per_s === 4e-6 && s.k_feed_m_per_s === 8e-6)(JSON.parse(localStorage.getItem("drawsift.scenario.v1")))`, 5*time.Second)
+	time.Sleep(400 * time.Millisecond)
+	b.waitRun(t, run)
+	b.waitFor(t, `(document.body.dataset.run || "").startsWith("done-")`, 30*time.Second)
+	after := eval[[]pageRow](t, b, jsRows)
+	sc := pageScenario(t, b)
+	sameRanking(t, after, native(t, sc))
+	changed := len(after) != len(before)
+	for i := range after {
+		if !changed && (after[i].Solute != before[i].Solute || math.Abs(after[i].Score-before[i].Score) > 1e-6) {
+			changed = true
+		}
+	}
+	if !changed {
+		t.Error("the ranking did not change with given k values")
+	}
+	if got := eval[string](t, b, `document.querySelector('#repro').textContent`); !strings.Contains(got, "k as given") {
+		t.Errorf("the model choices do not say k was given: %q", got)
+	}
+	b.screenshot(t, "given-k")
+	// Restored after a reload.
+	b.do(t, chromedp.Reload())
+	b.waitRun(t, "")
+	if got := eval[string](t, b, `[document.getElementById("k-mode-given").checked, Number(document.getElementById("k-draw").value), Number(document.getElementById("k-feed").value)].join(" ")`); got != "true 0.000004 0.000008" {
+		t.Errorf("after a reload the k fields are %q", got)
+	}
+	sameRanking(t, eval[[]pageRow](t, b, jsRows), native(t, pageScenario(t, b)))
+}
+
+// TestPageDrawBAndFeedPH: a B for the draw solutes is sent as b_lmh with
+// the membrane's NaCl B beside it, so the engine uses it for every
+// candidate (engine/api ScreenRequest.Membrane), and the ranking is the
+// native one; a custom feed's pH outside 0–14 is refused beside the field.
+func TestPageDrawBAndFeedPH(t *testing.T) {
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	run := b.waitRun(t, "")
+	before := eval[[]pageRow](t, b, jsRows)
+	set := func(id, v string) {
+		b.do(t, chromedp.Evaluate[chromedp.Void](fmt.Sprintf(`(e => { e.value = %q; e.dispatchEvent(new Event("input", {bubbles: true})); })(document.getElementById(%q))`, v, id)))
+	}
+	set("mem-bdraw", "0.05")
+	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).membrane.b_lmh === 0.05`, 5*time.Second)
+	time.Sleep(400 * time.Millisecond)
+	b.waitRun(t, run)
+	b.waitFor(t, `(document.body.dataset.run || "").startsWith("done-")`, 30*time.Second)
+	sc := pageScenario(t, b)
+	mem, _ := sc["membrane"].(map[string]any)
+	if mem["preset"] != "tfc-standard" || mem["b_nacl_lmh"] != 0.2988 || mem["b_lmh"] != 0.05 {
+		t.Errorf("membrane sent as %v, want the preset with its NaCl B and b_lmh 0.05", mem)
+	}
+	after := eval[[]pageRow](t, b, jsRows)
+	sameRanking(t, after, native(t, sc))
+	if fmt.Sprint(after) == fmt.Sprint(before) {
+		t.Error("the ranking did not change with one B for every draw solute")
+	}
+	if got := eval[string](t, b, `document.querySelector('#repro').textContent`); !strings.Contains(got, "membrane.b_lmh used for every candidate") {
+		t.Errorf("the model choices do not say the B was used for every candidate: %q", got)
+	}
+	// Past its limit: refused beside the field, named as the contract names it.
+	set("mem-bdraw", "150")
+	b.waitFor(t, `document.querySelector('.field-error[data-field="membrane.b_draw"]').textContent !== ""`, 10*time.Second)
+	if msg := eval[string](t, b, `document.querySelector('.field-error[data-field="membrane.b_draw"]').textContent`); !strings.Contains(msg, "membrane.b_lmh") || !strings.Contains(msg, "100") {
+		t.Errorf("draw B message %q", msg)
+	}
+
+	// A custom feed: pH 15 is refused beside the field; pH 8.1 is sent.
+	set("mem-bdraw", "")
+	b.do(t, chromedp.Evaluate[chromedp.Void](`(s => { s.value = "custom"; s.dispatchEvent(new Event("change", {bubbles: true})); })(document.getElementById("feed-preset"))`))
+	b.waitFor(t, `!document.getElementById("feed-ions-box").hidden`, 5*time.Second)
+	set("feed-conc", "20")
+	set("feed-ph", "15")
+	b.waitFor(t, `document.querySelector('.field-error[data-field="feed.ph"]').textContent !== ""`, 10*time.Second)
+	if msg := eval[string](t, b, `document.querySelector('.field-error[data-field="feed.ph"]').textContent`); !strings.Contains(msg, "feed.ph") || !strings.Contains(msg, "0–14") {
+		t.Errorf("pH message %q", msg)
+	}
+	run = eval[string](t, b, `document.body.dataset.run`)
+	set("feed-ph", "8.1")
+	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).feed.ph === 8.1`, 5*time.Second)
+	time.Sleep(400 * time.Millisecond)
+	b.waitRun(t, run)
+	b.waitFor(t, `(document.body.dataset.run || "").startsWith("done-")`, 30*time.Second)
+	sc = pageScenario(t, b)
+	if _, ok := sc["membrane"].(map[string]any)["b_nacl_lmh"]; ok {
+		t.Errorf("a blank draw B still sends b_nacl_lmh: %v", sc["membrane"])
+	}
+	sameRanking(t, eval[[]pageRow](t, b, jsRows), native(t, sc))
 }

@@ -566,10 +566,9 @@ func resolveScenario(req *ScreenRequest) (*screen.Scenario, *scenarioInfo, *Erro
 			sc.Pareto = append(sc.Pareto, ob)
 		}
 	}
-	known := map[string]bool{"oxidizer": true, "toxic": true, "corrosive": true, "ammonia-release": true, "nutrient": true, "scaling": true, "irritant": true}
 	for i, h := range req.ExcludeHazards {
-		if !known[strings.ToLower(h)] {
-			return nil, nil, Invalid(fmt.Sprintf("exclude_hazards[%d]", i), []string{"oxidizer", "toxic", "corrosive", "ammonia-release", "nutrient", "scaling", "irritant"}, "unknown hazard flag %q", h)
+		if !library.IsHazardFlag(h) {
+			return nil, nil, Invalid(fmt.Sprintf("exclude_hazards[%d]", i), library.HazardFlags, "unknown hazard flag %q", h)
 		}
 	}
 	sc.ExcludeHazards = req.ExcludeHazards

@@ -223,6 +223,11 @@ func (s *Solute) Validate() error {
 	if p := s.Price; p != nil && !(p.USDPerKgMin > 0 && p.USDPerKgMax >= p.USDPerKgMin) {
 		return bad("price", "needs 0 < usd_per_kg_min ≤ usd_per_kg_max")
 	}
+	for _, f := range s.HazardFlags {
+		if !IsHazardFlag(f) {
+			return bad("hazard_flags", "unknown flag %q (known: %s)", f, strings.Join(HazardFlags, ", "))
+		}
+	}
 	if len(s.Sources) == 0 {
 		return bad("sources", "every record names its sources")
 	}

@@ -7,6 +7,8 @@
 // published source, "common practice" or "from memory".
 package library
 
+import "strings"
+
 // Solute is one draw (or feed) solute as stored in data/solutes.json.
 type Solute struct {
 	ID      string   `json:"id"`      // usual formula, e.g. "NaCl", "(NH4)2SO4"
@@ -28,12 +30,26 @@ type Solute struct {
 	Price       *Price          `json:"price,omitempty"`
 
 	Hazards      []string `json:"hazards"`      // plain-language notes
-	HazardFlags  []string `json:"hazard_flags"` // machine flags: oxidizer, toxic, corrosive, ammonia-release, nutrient, scaling, irritant
+	HazardFlags  []string `json:"hazard_flags"` // machine flags, from HazardFlags
 	Regeneration []string `json:"regeneration"` // routes, e.g. "reverse osmosis", "membrane distillation"
 	Notes        string   `json:"notes,omitempty"`
 
 	// Sources maps a field path to where its numbers come from.
 	Sources map[string]string `json:"sources"`
+}
+
+// HazardFlags are the machine-readable hazard flags a record may carry
+// and a scenario may exclude.
+var HazardFlags = []string{"oxidizer", "toxic", "corrosive", "ammonia-release", "nutrient", "scaling", "irritant", "flammable-decomposition"}
+
+// IsHazardFlag reports whether f is one of HazardFlags (case-insensitive).
+func IsHazardFlag(f string) bool {
+	for _, h := range HazardFlags {
+		if strings.EqualFold(h, f) {
+			return true
+		}
+	}
+	return false
 }
 
 // Ion is one dissociated species of a salt.

@@ -40,6 +40,17 @@
     water_flux: "#1d4f91", specific_reverse_solute_flux: "#b5462a", replenishment_cost: "#a86b00", regeneration_energy: "#7a4a9e",
     viscosity: "#08737f", solubility_margin: "#2d7a3e", scaling: "#6b4f3a", flux_efficiency: "#b0306a", mass_concentration: "#4d5b69",
   };
+  // Hazard flags the engine accepts in exclude_hazards (engine/api), with
+  // the words the form shows for them.
+  const HAZARDS = [
+    ["oxidizer", "oxidiser"], ["toxic", "toxic"], ["corrosive", "corrosive"], ["ammonia-release", "releases ammonia"],
+    ["nutrient", "nutrient (feeds growth)"], ["scaling", "forms scale"], ["irritant", "irritant"],
+    ["flammable-decomposition", "flammable when decomposed"],
+  ];
+  // The engine's defaults for fields the form omits when they hold them
+  // (screen.DefaultPareto; regeneration_recovery 0.5).
+  const DEFAULT_PARETO = ["water_flux", "specific_reverse_solute_flux", "replenishment_cost"];
+  const DEFAULT_RECOVERY_PCT = 50;
   const DEFAULT_CHANNEL = { height_mm: 2, width_mm: 26, length_mm: 77, crossflow_velocity_m_per_s: 0.25, spacer: false };
   const PRESSURE = { bar: 1, atm: 1 / 1.01325, MPa: 0.1, psi: 14.503773773 };
   const FLUX = { LMH: 1, "um/s": 1 / 3.6, GFD: 1 / 1.69766 }; // 1 GFD = 3.785411784 L / 0.09290304 m² / 24 h
@@ -210,6 +221,22 @@
     }
   }
 
+  // buildRules makes the hazard and Pareto checkboxes.
+  function buildRules() {
+    const hz = clear($("hazard-boxes"));
+    for (const [flag, text] of HAZARDS) {
+      hz.appendChild(h("label", { class: "check" }, h("input", { type: "checkbox", id: "hz-" + flag, "data-flag": flag }), text));
+    }
+    const po = clear($("pareto-boxes"));
+    for (const [k, text] of OBJECTIVES) {
+      po.appendChild(h("label", { class: "check" }, h("input", { type: "checkbox", id: "po-" + k, "data-key": k }), text));
+    }
+  }
+  // pct shows a fraction as a percentage without binary noise (0.57 → 57).
+  function pct(f) { return Number((100 * f).toPrecision(12)); }
+  function kMode() { return document.querySelector('input[name="k-mode"]:checked').value; }
+  function updateKUI() { $("k-given-box").hidden = kMode() !== "given"; }
+
   function writeForm(sc) {
     const feed = sc.feed || { preset: "deionised-water" };
     $("feed-preset").value = feed.preset ? "preset:" + feed.preset : "custom";
@@ -223,15 +250,32 @@
       $("feed-unit").value = feed.unit || "g/L";
     }
     $("feed-solute-pick").value = feed.solute || "NaCl";
+    $("feed-ph").value = !feed.preset && feed.ph !== undefined ? feed.ph : "";
     renderIons(feed.ions || []);
     updateFeedUI();
 
     const mem = sc.membrane || { preset: "tfc-standard" };
-    const mp = mem.preset && state.membranes.find(m => m.id === mem.preset);
+    // In a screen, b_lmh is the NaCl B unless b_nacl_lmh is also given;
+    // then b_lmh is the B of every draw solute (engine/api, ScreenRequest).
+    const naclB = mem.b_nacl_lmh !== undefined ? mem.b_nacl_lmh : mem.b_lmh;
+    const drawB = mem.b_nacl_lmh !== undefined ? mem.b_lmh : undefined;
+    const presetRec = mem.preset && state.membranes.find(m => m.id === mem.preset);
+    let mp = presetRec;
+    // A preset with its numbers changed (in a file) is shown as custom so
+    // the changes are kept.
+    if (mp && ((mem.a_lmh_per_bar !== undefined && mem.a_lmh_per_bar !== mp.a_lmh_per_bar) || (mem.s_um !== undefined && mem.s_um !== mp.s_um) ||
+      (naclB !== undefined && naclB !== mp.b_nacl_lmh))) {
+      $("mem-a").value = mem.a_lmh_per_bar !== undefined ? mem.a_lmh_per_bar : mp.a_lmh_per_bar;
+      $("mem-b").value = naclB !== undefined ? naclB : mp.b_nacl_lmh;
+      $("mem-s").value = mem.s_um !== undefined ? mem.s_um : mp.s_um;
+      mp = null;
+    } else {
+      $("mem-a").value = mem.a_lmh_per_bar !== undefined ? mem.a_lmh_per_bar : mp ? mp.a_lmh_per_bar : "";
+      $("mem-b").value = naclB !== undefined ? naclB : mp ? mp.b_nacl_lmh : "";
+      $("mem-s").value = mem.s_um !== undefined ? mem.s_um : mp ? mp.s_um : "";
+    }
     $("mem-preset").value = mp ? mp.id : "custom";
-    $("mem-a").value = mem.a_lmh_per_bar !== undefined ? mem.a_lmh_per_bar : mp ? mp.a_lmh_per_bar : "";
-    $("mem-b").value = mem.b_lmh !== undefined ? mem.b_lmh : mp ? mp.b_nacl_lmh : "";
-    $("mem-s").value = mem.s_um !== undefined ? mem.s_um : mp ? mp.s_um : "";
+    $("mem-bdraw").value = drawB !== undefined ? drawB : "";
     $("mem-desc").textContent = mp ? mp.description + " " + (mp.test_conditions || "") : "Your own membrane: A, B (for NaCl) and S as measured in an FO test.";
 
     const o = sc.orientation || "AL-FS";
@@ -243,6 +287,19 @@
     $("ch-h").value = ch.height_mm; $("ch-w").value = ch.width_mm; $("ch-l").value = ch.length_mm;
     $("ch-u").value = ch.crossflow_velocity_m_per_s; $("ch-spacer").checked = !!ch.spacer;
     $("ext-cp").checked = sc.external_cp !== false;
+    const kGiven = sc.k_draw_m_per_s !== undefined || sc.k_feed_m_per_s !== undefined;
+    $("k-mode-given").checked = kGiven;
+    $("k-mode-channel").checked = !kGiven;
+    $("k-draw").value = sc.k_draw_m_per_s !== undefined ? sc.k_draw_m_per_s : "";
+    $("k-feed").value = sc.k_feed_m_per_s !== undefined ? sc.k_feed_m_per_s : "";
+    if (kGiven) $("channel-box").open = true;
+    updateKUI();
+    const hz = (sc.exclude_hazards || []).map(x => String(x).toLowerCase());
+    for (const [flag] of HAZARDS) $("hz-" + flag).checked = hz.includes(flag);
+    $("allow-extrap").checked = !!sc.allow_extrapolation;
+    $("regen-recovery").value = sc.regeneration_recovery !== undefined ? pct(sc.regeneration_recovery) : DEFAULT_RECOVERY_PCT;
+    const po = (sc.pareto_objectives || DEFAULT_PARETO).map(x => String(x).trim().toLowerCase());
+    for (const [k] of OBJECTIVES) $("po-" + k).checked = po.includes(k);
 
     const b = sc.basis || { kind: "osmotic-pressure", multiple_of_feed: 2 };
     $("basis-kind").value = b.kind;
@@ -256,7 +313,7 @@
       $("w-" + k + "-out").textContent = Number(inp.value).toFixed(2);
     }
     const u = sc.uncertainty || {};
-    const memRec = mp || {};
+    const memRec = presetRec || {};
     $("unc-samples").value = u.samples !== undefined ? u.samples : 1000;
     $("unc-a").value = u.a_rel_sd !== undefined ? u.a_rel_sd : memRec.a_rel_sd !== undefined ? memRec.a_rel_sd : 0.1;
     $("unc-b").value = u.b_rel_sd !== undefined ? u.b_rel_sd : memRec.b_rel_sd !== undefined ? memRec.b_rel_sd : 0.3;
@@ -312,6 +369,8 @@
       sc.feed = { solute: $("feed-solute-pick").value, concentration: num("feed-conc"), unit: $("feed-unit").value };
       const ions = readIons();
       if (ions.length) sc.feed.ions = ions;
+      const ph = num("feed-ph");
+      if (ph !== undefined) sc.feed.ph = ph;
     } else {
       const id = fv.replace(/^preset:/, "");
       sc.feed = { preset: id };
@@ -320,8 +379,17 @@
       if (pre && pre.osmotic.method === "solute" && c !== undefined && c !== pre.osmotic.concentration) sc.feed.concentration = c;
     }
     const mp = $("mem-preset").value;
-    if (mp === "custom") sc.membrane = { a_lmh_per_bar: num("mem-a"), b_lmh: num("mem-b"), s_um: num("mem-s") };
-    else sc.membrane = { preset: mp };
+    const drawB = num("mem-bdraw");
+    if (mp === "custom") {
+      sc.membrane = drawB === undefined ? { a_lmh_per_bar: num("mem-a"), b_lmh: num("mem-b"), s_um: num("mem-s") }
+        : { a_lmh_per_bar: num("mem-a"), b_nacl_lmh: num("mem-b"), b_lmh: drawB, s_um: num("mem-s") };
+    } else {
+      sc.membrane = { preset: mp };
+      // b_lmh alone would be read as the NaCl B: state the preset's NaCl B
+      // beside it so that b_lmh is the draw solutes' B.
+      const m = state.membranes.find(x => x.id === mp);
+      if (drawB !== undefined) { sc.membrane.b_nacl_lmh = m ? m.b_nacl_lmh : undefined; sc.membrane.b_lmh = drawB; }
+    }
     const o = document.querySelector('input[name="orientation"]:checked').value;
     sc.orientation = o;
     if ($("both-orient").checked) sc.orientations = [o === "AL-FS" ? "AL-DS" : "AL-FS"];
@@ -329,6 +397,7 @@
     sc.channel = { height_mm: num("ch-h"), width_mm: num("ch-w"), length_mm: num("ch-l"),
       crossflow_velocity_m_per_s: num("ch-u"), spacer: $("ch-spacer").checked };
     sc.external_cp = $("ext-cp").checked;
+    if (kMode() === "given") { sc.k_draw_m_per_s = num("k-draw"); sc.k_feed_m_per_s = num("k-feed"); }
     const prev = state.scenario || {};
     sc.candidates = prev.candidates ? prev.candidates.slice() : undefined;
     const kind = $("basis-kind").value, unit = $("basis-unit").value;
@@ -341,12 +410,16 @@
     const pi = num("unc-pi");
     if (pi !== undefined) sc.uncertainty.osmotic_rel_sd = pi;
     sc.seed = num("seed");
-    // Fields the form does not show (set in an imported or linked file)
-    // are kept as they are.
-    for (const k of ["pareto_objectives", "exclude_hazards", "allow_extrapolation", "regeneration_recovery", "k_draw_m_per_s", "k_feed_m_per_s"]) {
-      if (prev[k] !== undefined) sc[k] = clone(prev[k]);
-    }
-    if (prev.feed && prev.feed.ph !== undefined && !sc.feed.preset) sc.feed.ph = prev.feed.ph;
+    // Screening rules: each is omitted while it holds the engine's default.
+    const hz = HAZARDS.map(x => x[0]).filter(f => $("hz-" + f).checked);
+    if (hz.length) sc.exclude_hazards = hz;
+    if ($("allow-extrap").checked) sc.allow_extrapolation = true;
+    const rec = num("regen-recovery");
+    if (rec !== DEFAULT_RECOVERY_PCT) sc.regeneration_recovery = rec === undefined ? undefined : rec / 100;
+    const po = OBJECTIVES.map(o => o[0]).filter(k => $("po-" + k).checked);
+    if (!(po.length === DEFAULT_PARETO.length && DEFAULT_PARETO.every(k => po.includes(k)))) sc.pareto_objectives = po;
+    // A field the form does not show (set in an imported or linked file)
+    // is kept as it is.
     if (prev.channel && prev.channel.feed_crossflow_velocity_m_per_s !== undefined) sc.channel.feed_crossflow_velocity_m_per_s = prev.channel.feed_crossflow_velocity_m_per_s;
     const customs = state.custom.filter(c => (sc.candidates || []).some(id => id.toLowerCase() === c.id.toLowerCase()));
     if (customs.length) sc.custom_solutes = clone(customs);
@@ -364,21 +437,51 @@
     return o;
   }
 
-  // checkForm finds empty required numbers before the engine is asked.
+  // checkForm finds empty required numbers and values out of the form's
+  // ranges before the engine is asked; it returns the problems found, the
+  // first one first.
   function checkForm(sc) {
+    const errs = [];
+    const custom = sc.membrane && !sc.membrane.preset;
+    const drawB = $("mem-bdraw").value.trim() !== "";
     const need = [["temp", "temperature_c", "the temperature is required"], ["basis-value", "basis.value", "a target value is required"]];
-    if (sc.membrane && !sc.membrane.preset) need.push(["mem-a", "membrane.a_lmh_per_bar", "A is required"], ["mem-b", "membrane.b_lmh", "B is required"], ["mem-s", "membrane.s_um", "S is required"]);
+    if (custom) need.push(["mem-a", "membrane.a_lmh_per_bar", "A is required"], ["mem-b", drawB ? "membrane.b_nacl_lmh" : "membrane.b_lmh", "B is required"], ["mem-s", "membrane.s_um", "S is required"]);
     if (sc.feed && sc.feed.solute !== undefined) need.push(["feed-conc", "feed.concentration", "a concentration is required"]);
-    for (const [id, field, msg] of need) if ($(id).value.trim() === "" || !isFinite(Number($(id).value))) return { field: field, message: msg };
+    for (const [id, field, msg] of need) if ($(id).value.trim() === "" || !isFinite(Number($(id).value))) { errs.push({ field: field, message: msg }); break; }
     for (const [id, field] of [["seed", "seed"], ["unc-samples", "uncertainty.samples"]]) {
       const v = $(id).value.trim();
-      if (v !== "" && !(Number.isInteger(Number(v)) && Number(v) >= 0)) return { field: field, message: "must be a whole number ≥ 0" };
+      if (v !== "" && !(Number.isInteger(Number(v)) && Number(v) >= 0)) { errs.push({ field: field, message: "must be a whole number ≥ 0" }); break; }
     }
-    return null;
+    // range(id, field, lo, hi, blankOK, what): one number within [lo, hi].
+    const range = (id, field, lo, hi, blankOK, what) => {
+      const raw = $(id).value.trim();
+      if (raw === "" && blankOK) return;
+      const v = Number(raw);
+      if (raw === "" || !isFinite(v)) errs.push({ field: field, message: what + " is required", limit: lo + "–" + hi });
+      else if (!(v >= lo && v <= hi)) errs.push({ field: field, message: what + " " + v + " is outside " + lo + "–" + hi, limit: lo + "–" + hi });
+    };
+    if (sc.feed && !sc.feed.preset) range("feed-ph", "feed.ph", 0, 14, true, "the pH");
+    if (drawB) {
+      const v = Number($("mem-bdraw").value);
+      if (!(v > 0 && v <= 100)) errs.push({ field: "membrane.b_draw", message: "B of the draw solutes must be above 0 and at most 100 LMH (or blank)", limit: "0 < B ≤ 100 LMH" });
+    }
+    if (kMode() === "given") {
+      range("k-draw", "k_draw_m_per_s", 1e-8, 1, true, "k on the draw side");
+      range("k-feed", "k_feed_m_per_s", 1e-8, 1, true, "k on the feed side");
+      if ($("k-draw").value.trim() === "" && $("k-feed").value.trim() === "") {
+        errs.push({ field: "k_draw_m_per_s", message: "give k for at least one side, or choose “from the channel”" });
+      }
+    }
+    range("regen-recovery", "regeneration_recovery", 5, 95, false, "the water recovered (%)");
+    const po = OBJECTIVES.filter(o => $("po-" + o[0]).checked).length;
+    if (po < 2) errs.push({ field: "pareto_objectives", message: "tick at least two objectives for the Pareto front (" + po + " ticked)", limit: "two or more" });
+    return errs;
   }
 
   // ---- field errors ---------------------------------------------------------------
   const FIELD_INPUT = {
+    "feed.ph": "feed-ph", "membrane.b_nacl_lmh": "mem-b", "membrane.b_draw": "mem-bdraw", "k_draw_m_per_s": "k-draw", "k_feed_m_per_s": "k-feed",
+    "regeneration_recovery": "regen-recovery", "allow_extrapolation": "allow-extrap", "exclude_hazards": "hazards", "pareto_objectives": "pareto",
     "temperature_c": "temp", "membrane.a_lmh_per_bar": "mem-a", "membrane.b_lmh": "mem-b", "membrane.s_um": "mem-s",
     "membrane.preset": "mem-preset", "feed.preset": "feed-preset", "feed.concentration": "feed-conc", "feed.unit": "feed-unit",
     "feed.solute": "feed-solute-pick", "basis.value": "basis-value", "basis.multiple_of_feed": "basis-value", "basis.unit": "basis-unit",
@@ -402,18 +505,38 @@
     for (const e of document.querySelectorAll('#scenario-form [aria-invalid="true"]')) e.removeAttribute("aria-invalid");
     $("run-error").hidden = true;
   }
+  // fieldSlot is the data-field name of the message slot beside a field
+  // that has its own (the others use their fieldset's slot).
+  function fieldSlot(field) {
+    let f = field.replace(/\[\d+\].*$/, "");
+    // With a draw-solute B given, the engine's b_lmh is that field.
+    if (f === "membrane.b_lmh" && $("mem-bdraw").value.trim() !== "") f = "membrane.b_draw";
+    if (/^k_(draw|feed)_m_per_s$/.test(f)) f = "k";
+    return f;
+  }
   function showError(err) {
     const field = err.field || "";
-    let text = (field ? field + ": " : "") + err.message;
+    // The page's own name for the draw-solute B is the contract's b_lmh.
+    let text = (field === "membrane.b_draw" ? "membrane.b_lmh" : field) + (field ? ": " : "") + err.message;
     if (err.limit !== undefined && err.limit !== null) text += " (limit: " + (Array.isArray(err.limit) ? err.limit.join(", ") : err.limit) + ")";
+    const own = fieldSlot(field);
     const g = groupOf(field);
-    const slot = g && document.querySelector('#scenario-form .field-error[data-for="' + g + '"]');
-    if (slot) slot.textContent = text;
-    const inp = $(FIELD_INPUT[field] || FIELD_INPUT[field.replace(/\[\d+\].*$/, "")] || "");
+    const slot = (own && document.querySelector('#scenario-form .field-error[data-field="' + own + '"]')) ||
+      (g && document.querySelector('#scenario-form .field-error[data-for="' + g + '"]'));
+    if (slot) {
+      slot.textContent = text;
+      for (let d = slot.closest("details"); d; d = d.parentElement && d.parentElement.closest("details")) d.open = true;
+    }
+    const key = own === "membrane.b_draw" ? own : field;
+    const inp = $(FIELD_INPUT[key] || FIELD_INPUT[key.replace(/\[\d+\].*$/, "")] || "");
     if (inp) inp.setAttribute("aria-invalid", "true");
     $("run-error").textContent = "The screen did not run — " + text + (slot ? " (see the scenario form)" : "");
     $("run-error").hidden = false;
   }
+
+  // showErrors shows each problem beside its field; the summary above the
+  // results names the first.
+  function showErrors(list) { for (let i = list.length - 1; i >= 0; i--) showError(list[i]); }
 
   // ---- running the engine ------------------------------------------------------
   function changed() {
@@ -429,7 +552,7 @@
     const sc = state.scenario;
     clearErrors();
     const pre = checkForm(sc);
-    if (pre) { showError(pre); return; }
+    if (pre.length) { showErrors(pre); document.body.dataset.run = "invalid-" + (++state.runSeq); return; }
     const seq = ++state.runSeq;
     const t0 = performance.now();
     $("run-summary").textContent = "Screening…";
@@ -584,7 +707,7 @@
     if (!state.ready || robustAbort) return;
     clearErrors();
     const pre = checkForm(state.scenario);
-    if (pre) { showError(pre); return; }
+    if (pre.length) { showErrors(pre); return; }
     const sc = engineScenario(state.scenario, true);
     if (!sc.uncertainty) sc.uncertainty = {};
     if (!sc.uncertainty.samples) sc.uncertainty.samples = 1000;
@@ -954,18 +1077,29 @@
     const row = (k, v) => inp.appendChild(h("tr", {}, h("th", { scope: "row", text: k }), h("td", { text: v })));
     const sc = state.scenario;
     const feed = sc.feed.preset ? (state.feeds.find(f => f.id === sc.feed.preset) || {}).name || sc.feed.preset : sc.feed.solute + " at " + sc.feed.concentration + " " + sc.feed.unit;
-    row("Feed", feed + (sc.feed.concentration !== undefined && sc.feed.preset ? " (" + sc.feed.concentration + ")" : "") + "; π " + fmt(pConv(res.feed_osmotic_pressure_bar)) + " " + pUnit());
-    const m = sc.membrane.preset ? state.membranes.find(x => x.id === sc.membrane.preset) : null;
+    row("Feed", feed + (sc.feed.concentration !== undefined && sc.feed.preset ? " (" + sc.feed.concentration + ")" : "") +
+      (!sc.feed.preset ? "; pH " + (sc.feed.ph !== undefined ? sc.feed.ph : "7 (default)") : "") + "; π " + fmt(pConv(res.feed_osmotic_pressure_bar)) + " " + pUnit());
+    const mem = sc.membrane;
+    const m = mem.preset ? state.membranes.find(x => x.id === mem.preset) : null;
+    const drawB = mem.b_nacl_lmh !== undefined ? mem.b_lmh : undefined;
     row("Membrane", m ? m.name + " — A " + m.a_lmh_per_bar + " LMH/bar, B(NaCl) " + m.b_nacl_lmh + " LMH, S " + m.s_um + " µm" :
-      "custom — A " + sc.membrane.a_lmh_per_bar + " LMH/bar, B " + sc.membrane.b_lmh + " LMH, S " + sc.membrane.s_um + " µm");
+      "custom — A " + mem.a_lmh_per_bar + " LMH/bar, B(NaCl) " + (mem.b_nacl_lmh !== undefined ? mem.b_nacl_lmh : mem.b_lmh) + " LMH, S " + mem.s_um + " µm");
+    row("B of the draw solutes", drawB !== undefined ? drawB + " LMH, used for every candidate" : "estimated per solute from B(NaCl) (flagged in the results)");
     row("Orientation", res.orientation === "AL-FS" ? "FO mode (AL-FS)" : "PRO mode (AL-DS)");
     row("Temperature", sc.temperature_c + " °C");
     row("Channel", sc.external_cp === false ? "no external concentration polarisation" :
       sc.channel.height_mm + " × " + sc.channel.width_mm + " × " + sc.channel.length_mm + " mm, " + sc.channel.crossflow_velocity_m_per_s + " m/s" + (sc.channel.spacer ? ", spacer" : ""));
+    const kText = (v, side) => side + " " + (v !== undefined ? v + " m/s (given)" : "from the channel");
+    row("Mass transfer", sc.external_cp === false ? "not counted" : sc.k_draw_m_per_s === undefined && sc.k_feed_m_per_s === undefined ? "k from the channel (Sherwood correlation)" :
+      "k " + kText(sc.k_draw_m_per_s, "draw side") + "; " + kText(sc.k_feed_m_per_s, "feed side"));
     row("Basis of comparison", $("run-summary").textContent.replace(/^Ranked [^a]+ at /, "").split(";")[0]);
     row("Candidates", (sc.candidates || []).join(", "));
     row("Weights", Object.keys(res.weights).filter(k => res.weights[k] > 0).map(k => label(k) + " " + res.weights[k]).join(", "));
     row("Osmotic model", sc.osmotic_model || "real");
+    row("Solutes excluded by hazard", (sc.exclude_hazards || []).length ? sc.exclude_hazards.join(", ") : "none");
+    row("Candidates needed beyond their model's data", sc.allow_extrapolation ? "kept (flagged)" : "left out");
+    row("Water recovered when re-concentrating the draw", pct(sc.regeneration_recovery !== undefined ? sc.regeneration_recovery : DEFAULT_RECOVERY_PCT / 100) + " %");
+    row("Pareto front on", (res.pareto_objectives || []).map(label).join(", "));
     if (state.robust) row("Uncertainty", state.robust.robustness.samples + " samples, seed " + state.robust.robustness.seed);
     const mo = clear($("rp-models"));
     for (const k of Object.keys(res.model_choices || {}).sort()) mo.appendChild(h("li", {}, h("strong", { text: k.replace(/_/g, " ") + ": " }), res.model_choices[k]));
@@ -1123,6 +1257,7 @@
         if (m) { $("mem-a").value = m.a_lmh_per_bar; $("mem-b").value = m.b_nacl_lmh; $("mem-s").value = m.s_um; $("unc-a").value = m.a_rel_sd; $("unc-b").value = m.b_rel_sd; $("unc-s").value = m.s_rel_sd; }
         $("mem-desc").textContent = m ? m.description + " " + (m.test_conditions || "") : "Your own membrane: A, B (for NaCl) and S as measured in an FO test.";
       }
+      if (ev.target.name === "k-mode") updateKUI();
       if (ev.target.id === "basis-kind") {
         setBasisUnits(ev.target.value);
         $("basis-value").value = { "osmotic-pressure": 60, concentration: 1, "water-flux": 5 }[ev.target.value];
@@ -1217,6 +1352,7 @@
       for (const c of custom) { try { S.check(c, SHAPE_CUSTOM, "custom"); state.custom.push(c); } catch (e) { /* skip a damaged entry */ } }
     }
     buildWeights();
+    buildRules();
     wire();
     selectTab(state.prefs.tab || "ranking");
     if ("serviceWorker" in navigator && /^https?:$/.test(location.protocol) && !document.getElementById("ds-wasm")) {
