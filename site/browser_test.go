@@ -1060,8 +1060,11 @@ func TestPageSweep(t *testing.T) {
 	url, _ := startServe(t, p)
 	b.do(t, chromedp.Navigate(url))
 	b.waitRun(t, "")
-	b.do(t, chromedp.Click(chromedp.ID("tab-plots")), chromedp.Click(chromedp.ID("btn-sweep")))
-	b.waitFor(t, `!!document.querySelector('#sweep-plot figure[data-plot="sweep"]')`, 60*time.Second)
+	b.do(t, chromedp.Click(chromedp.ID("tab-plots")))
+	// The plots of the ranking come first; the sweep runs after them.
+	b.waitFor(t, `(document.body.dataset.plots || "").startsWith("done-")`, 60*time.Second)
+	b.do(t, chromedp.Click(chromedp.ID("btn-sweep")))
+	b.waitFor(t, `!!document.querySelector('#sweep-plot figure[data-plot="sweep"]')`, 90*time.Second)
 	if n := eval[int](t, b, `document.querySelectorAll('#sweep-plot svg path').length`); n < 3 {
 		t.Errorf("the sweep plot has %d series", n)
 	}

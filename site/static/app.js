@@ -876,7 +876,11 @@
   // ---- sweeps -------------------------------------------------------------------
   let sweepAbort = null;
   async function runSweep() {
-    if (!state.ready || !state.result || sweepAbort) return;
+    if (sweepAbort) return;
+    if (!state.ready || !state.result) {
+      $("sweep-status").textContent = "The ranking is still being computed; run the sweep when it is done.";
+      return;
+    }
     const variable = $("sweep-var").value, from = Number($("sweep-from").value), to = Number($("sweep-to").value), n = Math.round(Number($("sweep-n").value));
     const ids = plotted();
     sweepAbort = new AbortController();
