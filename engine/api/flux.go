@@ -36,6 +36,30 @@ type ChannelSpec struct {
 	FeedCrossflowVelocityMPS *float64 `json:"feed_crossflow_velocity_m_per_s,omitempty"`
 }
 
+// validate checks a channel's numbers in the request's units, so that the
+// error names the request's field and its limit (the correlations in
+// engine/transport check again, in SI). The bounds catch unit slips, not
+// unusual cells: 10 m is far beyond any channel dimension.
+func (c *ChannelSpec) validate() *Error {
+	for _, f := range []struct {
+		name  string
+		v, hi float64
+		unit  string
+	}{
+		{"height_mm", c.HeightMM, 1e4, "mm"}, {"width_mm", c.WidthMM, 1e4, "mm"}, {"length_mm", c.LengthMM, 1e6, "mm"},
+		{"crossflow_velocity_m_per_s", c.CrossflowVelocityMPerS, 20, "m/s"},
+	} {
+		if !(f.v > 0 && f.v <= f.hi) {
+			lim := fmt.Sprintf("> 0 and ≤ %g %s", f.hi, f.unit)
+			return Invalid("channel."+f.name, lim, "channel %s = %g must be %s", f.name, f.v, lim)
+		}
+	}
+	if u := c.FeedCrossflowVelocityMPS; u != nil && !(*u > 0 && *u <= 20) {
+		return Invalid("channel.feed_crossflow_velocity_m_per_s", "> 0 and ≤ 20 m/s", "the feed-side crossflow velocity must be > 0 and ≤ 20 m/s")
+	}
+	return nil
+}
+
 // DefaultChannel is a bench-scale flat-sheet FO cell with an empty
 // channel at 0.25 m/s crossflow (common practice for lab FO tests; the
 // 0.25 m/s of the standard protocol, Cath et al. 2013, is from memory).
@@ -524,7 +548,6 @@ func massTransfer(field string, given *float64, ch *ChannelSpec, extCP bool, sd 
 		return k, MassTransferReport{KMPerS: k, Origin: "given"}, nil
 	}
 	c := DefaultChannel
-	prefix := "channel"
 	if ch != nil {
 		c = *ch
 	}
@@ -532,22 +555,17 @@ func massTransfer(field string, given *float64, ch *ChannelSpec, extCP bool, sd 
 	if feedSide && c.FeedCrossflowVelocityMPS != nil {
 		u = *c.FeedCrossflowVelocityMPS
 	}
+	if e := c.validate(); e != nil {
+		return 0, MassTransferReport{}, e
+	}
 	mt, err := transport.MassTransferCoefficient(transport.Channel{
 		HeightM: c.HeightMM * 1e-3, WidthM: c.WidthMM * 1e-3, LengthM: c.LengthMM * 1e-3,
 		VelocityMPerS: u, Spacer: c.Spacer,
 	}, transport.Fluid{DensityKgPerM3: sd.state.DensityKgPerM3, ViscosityPaS: sd.state.ViscosityPaS, DiffusivityM2PerS: d})
 	if err != nil {
-		var ie *transport.InputError
-		if errors.As(err, &ie) {
-			f := ie.Field
-			// transport names fields in metres; the request uses mm.
-			f = strings.NewReplacer("_m", "_mm", "velocity_mm_per_s", "crossflow_velocity_m_per_s").Replace(f)
-			if strings.HasPrefix(f, "channel.") {
-				f = strings.TrimPrefix(f, "channel.")
-			}
-			return 0, MassTransferReport{}, Invalid(prefix+"."+f, ie.Limit, "%s", ie.Error())
-		}
-		return 0, MassTransferReport{}, Invalid(prefix, nil, "%v", err)
+		// The channel was validated above, so only the solution's own
+		// properties can be refused here: an engine fault, not user input.
+		return 0, MassTransferReport{}, &Error{Message: "internal error", Kind: KindInternal, detail: "mass transfer: " + err.Error()}
 	}
 	return mt.KMPerS, MassTransferReport{KMPerS: mt.KMPerS, Origin: "correlation", Correlation: mt.Correlation,
 		Regime: mt.Regime, Reynolds: mt.Re, Schmidt: mt.Sc, Sherwood: mt.Sh}, nil

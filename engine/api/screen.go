@@ -451,6 +451,9 @@ func resolveScenario(req *ScreenRequest) (*screen.Scenario, *scenarioInfo, *Erro
 	ch := DefaultChannel
 	if req.Channel != nil {
 		ch = *req.Channel
+		if e := ch.validate(); e != nil {
+			return nil, nil, e
+		}
 	}
 	sc.Channel = screen.Channel{HeightM: ch.HeightMM * 1e-3, WidthM: ch.WidthMM * 1e-3, LengthM: ch.LengthMM * 1e-3,
 		VelocityMPerS: ch.CrossflowVelocityMPerS, Spacer: ch.Spacer}
@@ -479,9 +482,6 @@ func resolveScenario(req *ScreenRequest) (*screen.Scenario, *scenarioInfo, *Erro
 		info.kRule = "no external concentration polarization (k → ∞)"
 	} else if req.KDrawMPerS != nil || req.KFeedMPerS != nil {
 		info.kRule = "k as given where given; elsewhere from the channel's Sherwood correlation"
-	}
-	if !(ch.CrossflowVelocityMPerS > 0) && (sc.KDrawMPerS == 0 || sc.KFeedMPerS == 0) {
-		return nil, nil, Invalid("channel.crossflow_velocity_m_per_s", "> 0 m/s", "the crossflow velocity must be positive")
 	}
 	// Candidates.
 	customs := map[string]*library.Solute{}

@@ -1,27 +1,22 @@
 package screen
 
-import (
-	"math"
+import "drawsift/engine/transport"
 
-	"drawsift/engine/transport"
-)
-
-// channelK returns the mass-transfer coefficient of one side of the
-// channel from the Sherwood correlations of package transport, with the
-// solution's density, viscosity and the diffusing solute's D.
+// channelK returns the mass-transfer coefficient (m/s) of one side of the
+// channel from transport.MassTransferCoefficient (the laminar, turbulent or
+// spacer-filled Sherwood correlation the flow calls for), with the
+// solution's density (kg/m³), viscosity (Pa·s) and diffusivity (m²/s).
+// The feed side may run at its own crossflow velocity.
 func channelK(ch Channel, feedSide bool, rho, mu, d float64) (float64, error) {
 	u := ch.VelocityMPerS
 	if feedSide && ch.FeedVelocityMPerS > 0 {
 		u = ch.FeedVelocityMPerS
 	}
-	mt, err := transport.MassTransferCoefficient(transport.Channel{
-		HeightM: ch.HeightM, WidthM: ch.WidthM, LengthM: ch.LengthM, VelocityMPerS: u, Spacer: ch.Spacer,
-	}, transport.Fluid{DensityKgPerM3: rho, ViscosityPaS: mu, DiffusivityM2PerS: d})
+	mt, err := transport.MassTransferCoefficient(
+		transport.Channel{HeightM: ch.HeightM, WidthM: ch.WidthM, LengthM: ch.LengthM, VelocityMPerS: u, Spacer: ch.Spacer},
+		transport.Fluid{DensityKgPerM3: rho, ViscosityPaS: mu, DiffusivityM2PerS: d})
 	if err != nil {
 		return 0, err
-	}
-	if !(mt.KMPerS > 0) || math.IsInf(mt.KMPerS, 0) {
-		return math.Inf(1), nil
 	}
 	return mt.KMPerS, nil
 }
