@@ -174,7 +174,8 @@ var fluxSources = []Source{
 type resolvedMembrane struct {
 	rec      *library.Membrane // preset record, or nil
 	aLMHBar  float64
-	bNaClLMH float64 // base for estimates; 0 if unknown
+	bNaClLMH float64 // base for estimates, valid when bNaClSet
+	bNaClSet bool    // from the preset or b_nacl_lmh
 	bDrawLMH *float64
 	sUM      float64
 }
@@ -197,6 +198,7 @@ func resolveMembrane(spec *MembraneSpec) (*resolvedMembrane, *Error) {
 		}
 		r.rec = m
 		r.aLMHBar, r.bNaClLMH, r.sUM = m.ALMHPerBar, m.BNaClLMH, m.SUM
+		r.bNaClSet = true
 	}
 	set := func(field string, v *float64, dst *float64, lo, hi float64) *Error {
 		if v == nil {
@@ -219,6 +221,7 @@ func resolveMembrane(spec *MembraneSpec) (*resolvedMembrane, *Error) {
 	if e := set("b_nacl_lmh", spec.BNaClLMH, &r.bNaClLMH, 0, 100); e != nil {
 		return nil, e
 	}
+	r.bNaClSet = r.bNaClSet || spec.BNaClLMH != nil
 	if spec.BLMH != nil {
 		var b float64
 		if e := set("b_lmh", spec.BLMH, &b, 0, 100); e != nil {
@@ -245,8 +248,8 @@ func (r *resolvedMembrane) bFor(field string, s *library.Solute, override *float
 			return b, false, nil
 		}
 	}
-	if r.bNaClLMH == 0 {
-		return 0, false, Invalid(field, "≥ 0", "B for %s is needed: give membrane.b_lmh (or b_nacl_lmh to estimate it)", s.ID)
+	if !r.bNaClSet {
+		return 0, false, Invalid(field, "≥ 0", "B for %s is needed: give %s, or membrane.b_nacl_lmh to estimate it from the NaCl value", s.ID, field)
 	}
 	if library.Key(s.ID) == "nacl" {
 		return r.bNaClLMH, false, nil
@@ -349,7 +352,7 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 		}
 	}
 	resp := &FluxResponse{Orientation: orient.String(), OsmoticModel: model, TemperatureC: tK - thermo.ZeroCelsiusK,
-		DeltaPBar: deltaP, EngineVersion: EngineVersion}
+		DeltaPBar: deltaP, EngineVersion: EngineVersion, Warnings: []string{}}
 	resp.Warnings = append(resp.Warnings, draw.state.Warnings...)
 	if feed.sol != draw.sol {
 		resp.Warnings = append(resp.Warnings, feed.state.Warnings...)
@@ -416,6 +419,9 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 	var bFeed float64
 	var bFeedEst bool
 	sameSolute := feed.sol == draw.sol
+	if req.BFeedLMH != nil && (sameSolute || feed.cSI == 0) {
+		resp.Warnings = append(resp.Warnings, "b_feed_lmh is not used: the feed holds no solute other than the draw's")
+	}
 	if sameSolute {
 		species[0].FeedBulkMolPerM3 = feed.cSI
 	} else if feed.cSI > 0 {

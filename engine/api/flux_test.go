@@ -3,6 +3,7 @@ package api
 import (
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -162,5 +163,22 @@ func TestFluxNoPolarizationLimit(t *testing.T) {
 	}
 	if m["k_draw"].(map[string]any)["origin"] != "none" {
 		t.Errorf("k_draw origin %v", m["k_draw"])
+	}
+}
+
+// Regressions: warnings is a list even when empty; a feed solute without a
+// B names the field to give; an unused b_feed_lmh is flagged.
+func TestFluxFeedBAndWarnings(t *testing.T) {
+	m := fluxOK(t, `{"membrane":{"a_lmh_per_bar":1,"b_lmh":0.3,"s_um":500},"draw":{"solute":"NaCl","concentration":1,"unit":"mol/L"},"k_draw_m_per_s":1e-4,"k_feed_m_per_s":1e-4}`)
+	if w, ok := m["warnings"].([]any); !ok || w == nil {
+		t.Errorf("warnings = %v, want a list", m["warnings"])
+	}
+	_, e := dispatch(t, OpFlux, `{"membrane":{"a_lmh_per_bar":1,"b_lmh":0.3,"s_um":500},"draw":{"solute":"MgCl2","concentration":1,"unit":"mol/L"},"feed":{"solute":"NaCl","concentration":0.5,"unit":"mol/L"}}`)
+	if e == nil || e.Field != "b_feed_lmh" || !strings.Contains(e.Message, "b_feed_lmh") {
+		t.Errorf("feed B missing: %+v", e)
+	}
+	m = fluxOK(t, `{"membrane":{"preset":"tfc-standard"},"draw":{"solute":"NaCl","concentration":1,"unit":"mol/L"},"b_feed_lmh":0.5}`)
+	if w := fmt.Sprint(m["warnings"]); !strings.Contains(w, "b_feed_lmh is not used") {
+		t.Errorf("unused b_feed_lmh not flagged: %s", w)
 	}
 }

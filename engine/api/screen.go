@@ -423,12 +423,11 @@ func resolveScenario(req *ScreenRequest) (*screen.Scenario, *scenarioInfo, *Erro
 			m.BNaClMPerS = *mem.bDrawLMH * thermo.MPerSPerLMH
 			info.bRule = "membrane.b_lmh taken as the NaCl B; " + library.BEstimateRule
 		} else {
-			m.BDrawMPerS = *mem.bDrawLMH * thermo.MPerSPerLMH
+			m.BDrawMPerS, m.BDrawSet = *mem.bDrawLMH*thermo.MPerSPerLMH, true
 			info.bRule = "membrane.b_lmh used for every candidate"
 		}
-	}
-	if !(m.BNaClMPerS > 0) && m.BDrawMPerS == 0 {
-		return nil, nil, Invalid("membrane.b_lmh", "> 0", "a custom membrane needs b_lmh (its NaCl B)")
+	} else if !mem.bNaClSet {
+		return nil, nil, Invalid("membrane.b_lmh", "≥ 0", "a custom membrane needs b_lmh (its NaCl B)")
 	}
 	if r := mem.rec; r != nil {
 		m.ID, m.ARelSD, m.BRelSD, m.SRelSD = r.ID, r.ARelSD, r.BRelSD, r.SRelSD
@@ -657,6 +656,7 @@ func resolveFeed(fs *FeedSpec, lib *library.Library, tK float64) (screen.Feed, *
 				return f, nil, e
 			}
 			f.Solute, f.Concentration, f.Unit = s, r.EquivalentNaClMolPerL(), thermo.MolPerL
+			f.Surrogate = true
 			f.OsmoticMethod = fmt.Sprintf("%s: %.4g mol/L NaCl", library.EquivalentNaClRule, f.Concentration)
 			if fs.Concentration != nil {
 				return f, nil, Invalid("feed.concentration", nil, "preset %q sets its osmotic pressure from its ions; use a custom feed to change it", r.ID)

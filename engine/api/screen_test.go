@@ -251,3 +251,71 @@ func TestScreenCustomPiTable(t *testing.T) {
 		t.Errorf("non-increasing table: %+v", e)
 	}
 }
+
+// A candidate that fails a hard limit in some Monte Carlo samples is not
+// counted as ranked in them: P(first) = 1 − failed fraction when it is
+// alone (regression: failed samples once counted as first).
+func TestRobustnessFailedSamples(t *testing.T) {
+	m, e := dispatch(t, OpScreen, `{"feed":{"preset":"seawater"},"candidates":["NaHCO3"],"allow_extrapolation":true,
+		"basis":{"kind":"osmotic-pressure","value":51,"unit":"bar"},"uncertainty":{"samples":300,"osmotic_rel_sd":0.05},"seed":7}`)
+	if e != nil {
+		t.Fatal(e)
+	}
+	c := m["candidates"].([]any)[0].(map[string]any)
+	r := c["robustness"].(map[string]any)
+	failed, first := r["failed_fraction"].(float64), r["probability_first"].(float64)
+	if !(failed > 0) {
+		t.Skipf("no failed samples with this seed (failed %v); the regression is not exercised", failed)
+	}
+	if math.Abs(first-(1-failed)) > 1e-12 {
+		t.Errorf("P(first) = %v with %v of samples failed; want %v", first, failed, 1-failed)
+	}
+}
+
+// B = 0 is a valid input (an ideal, solute-tight membrane): with a preset
+// it is taken as the NaCl B, with b_nacl_lmh beside it as every
+// candidate's B; neither is replaced by an estimate.
+func TestScreenZeroB(t *testing.T) {
+	for _, body := range []string{
+		`{"membrane":{"preset":"tfc-standard","b_lmh":0},"candidates":["NaCl","MgCl2"]}`,
+		`{"membrane":{"a_lmh_per_bar":1,"s_um":500,"b_nacl_lmh":0.3,"b_lmh":0},"candidates":["NaCl","MgCl2"]}`,
+	} {
+		m, e := dispatch(t, OpScreen, body)
+		if e != nil {
+			t.Fatalf("%s: %v", body, e)
+		}
+		for _, c := range m["candidates"].([]any) {
+			c := c.(map[string]any)
+			if b := c["b_lmh"].(float64); b != 0 {
+				t.Errorf("%s: %s has B = %v, want 0", body, c["solute"], b)
+			}
+			if srsf := c["specific_reverse_solute_flux_g_per_l"].(float64); srsf != 0 {
+				t.Errorf("%s: %s SRSF = %v with B = 0", body, c["solute"], srsf)
+			}
+		}
+	}
+}
+
+// A preset whose π comes from an equivalent-NaCl rule holds no real NaCl:
+// a NaCl draw is not credited with a forward flux of it. Its SRSF must
+// match the SRSF against another foreign salt of the same π (KCl here,
+// within 5 %), not the much lower same-solute value (regression).
+func TestScreenSurrogateFeed(t *testing.T) {
+	srsf := func(feed string) (float64, float64) {
+		m, e := dispatch(t, OpScreen, `{"feed":`+feed+`,"candidates":["NaCl"]}`)
+		if e != nil {
+			t.Fatal(e)
+		}
+		c := m["candidates"].([]any)[0].(map[string]any)
+		return c["specific_reverse_solute_flux_g_per_l"].(float64), m["feed_osmotic_pressure_bar"].(float64)
+	}
+	preset, piP := srsf(`{"preset":"brackish-groundwater"}`)
+	kcl, piK := srsf(`{"solute":"KCl","concentration":0.0365,"unit":"mol/L"}`)
+	same, _ := srsf(`{"solute":"NaCl","concentration":0.0365,"unit":"mol/L"}`)
+	if math.Abs(piP/piK-1) > 0.03 {
+		t.Fatalf("feeds differ in π: %g vs %g bar", piP, piK)
+	}
+	if math.Abs(preset/kcl-1) > 0.05 || !(preset > 1.5*same) {
+		t.Errorf("NaCl SRSF: surrogate feed %g, KCl feed %g, NaCl feed %g g/L", preset, kcl, same)
+	}
+}

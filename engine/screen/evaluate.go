@@ -315,7 +315,7 @@ func hazardHit(s *library.Solute, excl []string) string {
 
 // drawB returns B (m/s) of the membrane for a draw solute.
 func drawB(m *Membrane, s *library.Solute, nacl *library.Solute) (float64, bool) {
-	if m.BDrawMPerS > 0 {
+	if m.BDrawSet {
 		return m.BDrawMPerS, false
 	}
 	return feedB(m, s, nacl)
@@ -477,7 +477,7 @@ func (e *env) solve(c *candidate, ori transport.Orientation, m float64, p *pertu
 	sp[0] = transport.Species{Name: c.sol.ID, DrawBulkMolPerM3: cD, BMPerS: c.bMPerS * p.fB, DM2PerS: d, Pi: c.piFn}
 	n := 1
 	if e.feedSol != nil {
-		if e.feedSol == c.sol {
+		if e.feedSol == c.sol && !sc.Feed.Surrogate {
 			sp[0].FeedBulkMolPerM3 = e.feedC
 		} else {
 			sp[1] = transport.Species{Name: e.feedSol.ID, FeedBulkMolPerM3: e.feedC, BMPerS: e.feedB * p.fB, DM2PerS: e.feedD, Pi: e.feedFn}

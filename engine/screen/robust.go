@@ -12,13 +12,15 @@ import (
 
 // Robustness summarises a candidate's rank over the Monte Carlo samples.
 type Robustness struct {
-	PFirst float64 // fraction of samples ranked first
-	PTop3  float64 // fraction ranked in the top three
-	// Rank quantiles (empirical: the smallest rank whose cumulative
-	// frequency reaches p).
+	PFirst float64 // fraction of all samples in which it ranked first
+	PTop3  float64 // fraction of all samples in which it ranked in the top three
+	// Rank quantiles over all samples (empirical: the smallest rank whose
+	// cumulative frequency reaches p). A sample in which the candidate
+	// failed a hard limit counts as rank n+1, behind every ranked one, so
+	// a quantile of n+1 means "not ranked" in that share of samples.
 	RankP05, RankMedian, RankP95 int
-	// FailedFraction: samples where the candidate failed a hard limit (it
-	// then ranks last in that sample).
+	// FailedFraction: samples where the candidate failed a hard limit; they
+	// count neither towards PFirst nor PTop3.
 	FailedFraction float64
 }
 
@@ -69,7 +71,9 @@ func (e *env) robustness(ctx context.Context, res *Result, progress func(done, t
 	ok := make([]bool, n)
 	scores := make([]float64, n)
 	idx := make([]int, n)
-	hist := make([]int, n*n) // hist[k*n + rank-1]
+	// hist[k*(n+1) + rank-1] counts candidate k's ranks; the last bin of
+	// each row counts the samples in which it failed.
+	hist := make([]int, n*(n+1))
 	fails := make([]int, n)
 	perts := make([]perturb, n)
 	var m Metrics
@@ -126,7 +130,11 @@ func (e *env) robustness(ctx context.Context, res *Result, progress func(done, t
 		}
 		order(idx, scores, names)
 		for r, k := range idx {
-			hist[k*n+r]++
+			if ok[k] {
+				hist[k*(n+1)+r]++ // failed candidates sort last, so r counts ranked ones only
+			} else {
+				hist[k*(n+1)+n]++
+			}
 		}
 		if progress != nil && ((s+1)%every == 0 || s+1 == total) {
 			progress(s+1, total)
@@ -134,11 +142,11 @@ func (e *env) robustness(ctx context.Context, res *Result, progress func(done, t
 	}
 	res.Samples = total
 	for k := range res.Ranked {
-		h := hist[k*n : (k+1)*n]
+		h := hist[k*(n+1) : (k+1)*(n+1)]
 		rb := &Robustness{FailedFraction: float64(fails[k]) / float64(total)}
 		rb.PFirst = float64(h[0]) / float64(total)
 		top3 := 0
-		for r := 0; r < 3 && r < n; r++ {
+		for r := 0; r < 3 && r < n; r++ { // h[n] (failures) never counts
 			top3 += h[r]
 		}
 		rb.PTop3 = float64(top3) / float64(total)

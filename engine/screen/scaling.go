@@ -158,7 +158,7 @@ func (e *env) scaling(c *candidate, ori transport.Orientation, r *transport.Resu
 	}
 	// Draw solute at the feed face beyond what the feed itself brings.
 	drawFace := r.Species[0].FeedFaceMolPerM3
-	if e.feedSol == c.sol {
+	if e.feedSol == c.sol && !e.sc.Feed.Surrogate {
 		drawFace -= e.feedC * cf
 	}
 	drawFace = math.Max(0, drawFace) / 1000 // mol/L

@@ -152,6 +152,11 @@ type Feed struct {
 	Unit          thermo.Unit
 	// OsmoticMethod describes how π was set (for the reproducibility record).
 	OsmoticMethod string
+	// Surrogate marks a Solute that only stands in for a mixed feed's
+	// osmotic pressure (an equivalent NaCl): it is then always a species of
+	// its own, never merged with a candidate of the same ID, so a NaCl draw
+	// is not credited with a forward flux of salt the feed does not hold.
+	Surrogate bool
 	Ions          []FeedIon
 	IonsPerKg     bool
 	PH            float64
@@ -163,8 +168,10 @@ type Membrane struct {
 	AMPerSPa   float64
 	SM         float64
 	BNaClMPerS float64
-	// BDrawMPerS, when positive, is used as B for every candidate.
+	// BDrawMPerS, when BDrawSet, is used as B for every candidate (zero
+	// allowed: an ideal, solute-tight membrane).
 	BDrawMPerS float64
+	BDrawSet   bool
 	BBySolute  map[string]float64 // measured B (m/s) by solute ID
 	// Relative standard deviations for the robustness run.
 	ARelSD, BRelSD, SRelSD float64
