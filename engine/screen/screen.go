@@ -157,9 +157,9 @@ type Feed struct {
 	// its own, never merged with a candidate of the same ID, so a NaCl draw
 	// is not credited with a forward flux of salt the feed does not hold.
 	Surrogate bool
-	Ions          []FeedIon
-	IonsPerKg     bool
-	PH            float64
+	Ions      []FeedIon
+	IonsPerKg bool
+	PH        float64
 }
 
 // Membrane holds the membrane in SI.
