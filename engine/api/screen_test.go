@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"fmt"
 	"math"
 	"reflect"
 	"strings"
@@ -317,5 +318,33 @@ func TestScreenSurrogateFeed(t *testing.T) {
 	}
 	if math.Abs(preset/kcl-1) > 0.05 || !(preset > 1.5*same) {
 		t.Errorf("NaCl SRSF: surrogate feed %g, KCl feed %g, NaCl feed %g g/L", preset, kcl, same)
+	}
+}
+
+// With van 't Hoff π the Pitzer data limit does not exclude a candidate
+// (its model is not used for π); a miscible solute that cannot reach the
+// target is "cannot reach", not "insoluble".
+func TestScreenExclusionReasons(t *testing.T) {
+	m, e := dispatch(t, OpScreen, `{"candidates":["KHCO3","NaCl"],"osmotic_model":"van-t-hoff","basis":{"kind":"osmotic-pressure","value":60,"unit":"bar"}}`)
+	if e != nil {
+		t.Fatal(e)
+	}
+	for _, x := range m["excluded"].([]any) {
+		if x := x.(map[string]any); x["solute"] == "KHCO3" && strings.Contains(fmt.Sprint(x["reason"]), "validity") {
+			t.Errorf("KHCO3 excluded on model validity in van 't Hoff mode: %v", x)
+		}
+	}
+	m, e = dispatch(t, OpScreen, `{"candidates":["glycerol","NaCl"],"basis":{"kind":"osmotic-pressure","value":900,"unit":"bar"},"allow_extrapolation":true}`)
+	if e != nil {
+		// every candidate failed: the error lists the reasons
+		if !strings.Contains(e.Message, "glycerol: cannot reach the basis target") {
+			t.Errorf("miscible solute's reason: %v", e)
+		}
+		return
+	}
+	for _, x := range m["excluded"].([]any) {
+		if x := x.(map[string]any); x["solute"] == "glycerol" && x["reason"] != "cannot reach the basis target" {
+			t.Errorf("glycerol excluded as %v", x["reason"])
+		}
 	}
 }

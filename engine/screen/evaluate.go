@@ -354,28 +354,14 @@ func (e *env) basisMolality(c *candidate, ori transport.Orientation, p *perturb,
 		if err == nil {
 			return m, nil
 		}
-		// Fallback: bisection on the monotone-extended π(m) up to the
-		// solubility (thermo.MolalityForPi can refuse a reachable target
-		// when the model's π turns over between its cap and the
-		// solubility).
-		top := sol
+		// thermo refuses only a target above π at the top of the range:
+		// the solubility, or for a miscible solute the model's data.
+		top, where, reason := sol, "at its solubility", ReasonInsoluble
 		if math.IsInf(top, 1) {
-			top = x.CapMolPerKg()
+			top, where, reason = x.CapMolPerKg(), "at the top of its model's range (it is miscible)", ReasonUnreachable
 		}
-		if piTop := x.OsmoticPressurePa(top); piTop >= target {
-			lo, hi := 0.0, top
-			for i := 0; i < 200 && hi-lo > 1e-14*top; i++ {
-				mid := 0.5 * (lo + hi)
-				if x.OsmoticPressurePa(mid) < target {
-					lo = mid
-				} else {
-					hi = mid
-				}
-			}
-			return 0.5 * (lo + hi), nil
-		}
-		return 0, &exclusion{ReasonInsoluble, fmt.Sprintf("%s reaches only %.4g bar at its solubility; %.4g bar is needed",
-			c.sol.ID, x.OsmoticPressurePa(top)*p.fPi/thermo.PascalPerBar, e.targetPi/thermo.PascalPerBar)}
+		return 0, &exclusion{reason, fmt.Sprintf("%s reaches only %.4g bar %s; %.4g bar is needed",
+			c.sol.ID, x.OsmoticPressurePa(top)*p.fPi/thermo.PascalPerBar, where, e.targetPi/thermo.PascalPerBar)}
 	case BasisConcentration:
 		if c.basisM > sol*(1+1e-9) {
 			return 0, &exclusion{ReasonInsoluble, fmt.Sprintf("%s: %.4g mol/kg is beyond its solubility of %.4g mol/kg", c.sol.ID, c.basisM, sol)}
@@ -509,7 +495,8 @@ func (e *env) metricsAt(c *candidate, ori transport.Orientation, m float64, p *p
 	if m > sol*(1+1e-9) {
 		return &exclusion{ReasonInsoluble, fmt.Sprintf("%s: %.4g mol/kg is beyond its solubility of %.4g mol/kg", c.sol.ID, m, sol)}
 	}
-	if !sc.AllowExtrapolation && m > x.ValidMolPerKg()*(1+1e-9) {
+	// The osmotic model's data limit matters only when that model gives π.
+	if !sc.AllowExtrapolation && !sc.VantHoff && m > x.ValidMolPerKg()*(1+1e-9) {
 		return &exclusion{ReasonValidity, fmt.Sprintf("%s: %.4g mol/kg is above the %s model's data limit of %.4g mol/kg (set allow_extrapolation to keep it, flagged)",
 			c.sol.ID, m, c.sol.Osmotic.Kind, x.ValidMolPerKg())}
 	}
