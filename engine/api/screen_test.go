@@ -348,3 +348,21 @@ func TestScreenExclusionReasons(t *testing.T) {
 		}
 	}
 }
+
+// Regeneration at a recovery that would dilute the draw below the feed's π
+// is flagged (FO cannot get there); at 2.5 × the feed's π and 50 % it is not.
+func TestScreenRegenerationBelowFeedWarning(t *testing.T) {
+	has := func(body string) bool {
+		m, e := dispatch(t, OpScreen, body)
+		if e != nil {
+			t.Fatal(e)
+		}
+		return strings.Contains(fmt.Sprint(m["warnings"]), "regeneration: at 50 % recovery")
+	}
+	if !has(`{"feed":{"preset":"seawater"},"candidates":["NaCl"],"basis":{"kind":"osmotic-pressure","value":40,"unit":"bar"}}`) {
+		t.Error("no warning for a draw diluted below the feed's π")
+	}
+	if has(`{"feed":{"preset":"seawater"},"candidates":["NaCl"],"basis":{"kind":"osmotic-pressure","multiple_of_feed":2.5}}`) {
+		t.Error("warning where the diluted draw stays above the feed's π")
+	}
+}

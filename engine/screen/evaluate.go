@@ -245,6 +245,13 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 			return nil, inputErr("basis.value", fmt.Sprintf("> %.4g bar (the feed's osmotic pressure)", e.feedPiPa/thermo.PascalPerBar),
 				"the target osmotic pressure must exceed the feed's")
 		}
+		// The regeneration energy assumes the draw was diluted by the
+		// recovered water; FO cannot dilute it below the feed's π.
+		if r := sc.RegenerationRecovery; e.feedPiPa > 0 && e.targetPi*(1-r) < e.feedPiPa {
+			e.warnings = append(e.warnings, fmt.Sprintf(
+				"regeneration: at %.0f %% recovery the diluted draw (about %.3g bar) would sit below the feed's %.3g bar, which forward osmosis cannot reach; the minimum energy shown is then a lower bound (lower the recovery to at most %.0f %%)",
+				100*r, (1-r)*e.targetPi/thermo.PascalPerBar, e.feedPiPa/thermo.PascalPerBar, 100*(1-e.feedPiPa/e.targetPi)))
+		}
 	}
 	// Feed-side mass transfer (feed properties, or the draw's for a
 	// solute-free feed: computed per candidate then).
