@@ -101,7 +101,10 @@ type UncertaintySpec struct {
 	SRelSD           *float64 `json:"s_rel_sd,omitempty"`
 	OsmoticRelSD     *float64 `json:"osmotic_rel_sd,omitempty"`
 	DiffusivityRelSD *float64 `json:"diffusivity_rel_sd,omitempty"`
-	Prices           *bool    `json:"prices,omitempty"`
+	// EstimatedBRelSD: per candidate, for a B estimated from NaCl's
+	// (default screen.DefaultEstimatedBRelSD).
+	EstimatedBRelSD *float64 `json:"estimated_b_rel_sd,omitempty"`
+	Prices          *bool    `json:"prices,omitempty"`
 }
 
 // SweepSpec asks for series against one variable.
@@ -574,7 +577,7 @@ func resolveScenario(req *ScreenRequest) (*screen.Scenario, *scenarioInfo, *Erro
 	// Uncertainty.
 	if u := req.Uncertainty; u != nil {
 		su := &screen.Uncertainty{Samples: DefaultSamples, ARelSD: m.ARelSD, BRelSD: m.BRelSD, SRelSD: m.SRelSD,
-			DefaultOsmotic: true, DiffusivityRelSD: screen.DefaultDiffusivityRelSD, Prices: true}
+			DefaultOsmotic: true, DiffusivityRelSD: screen.DefaultDiffusivityRelSD, EstimatedBRelSD: screen.DefaultEstimatedBRelSD, Prices: true}
 		if u.Samples != nil {
 			su.Samples = *u.Samples
 			if su.Samples < 1 || su.Samples > 100000 {
@@ -586,7 +589,8 @@ func resolveScenario(req *ScreenRequest) (*screen.Scenario, *scenarioInfo, *Erro
 			v    *float64
 			dst  *float64
 		}{{"a_rel_sd", u.ARelSD, &su.ARelSD}, {"b_rel_sd", u.BRelSD, &su.BRelSD}, {"s_rel_sd", u.SRelSD, &su.SRelSD},
-			{"osmotic_rel_sd", u.OsmoticRelSD, &su.OsmoticRelSD}, {"diffusivity_rel_sd", u.DiffusivityRelSD, &su.DiffusivityRelSD}} {
+			{"osmotic_rel_sd", u.OsmoticRelSD, &su.OsmoticRelSD}, {"diffusivity_rel_sd", u.DiffusivityRelSD, &su.DiffusivityRelSD},
+			{"estimated_b_rel_sd", u.EstimatedBRelSD, &su.EstimatedBRelSD}} {
 			if f.v == nil {
 				continue
 			}
@@ -1059,8 +1063,9 @@ func buildScreenResponse(req *ScreenRequest, sc *screen.Scenario, info *scenario
 	if u := sc.Uncertainty; u != nil && res.Samples > 0 {
 		resp.Robustness = &RobustnessReport{Samples: res.Samples, Seed: sc.Seed, Distributions: fmt.Sprintf(
 			"log-normal factors with median 1 (σ_ln = √ln(1+rsd²)): A %.3g, B %.3g, S %.3g (one draw per sample, shared by all candidates), "+
-				"π per candidate %s, D per candidate %.3g; prices %s; PCG stream (math/rand/v2) seeded with the scenario seed, gonum stat/distuv; "+
-				"rank quantiles empirical", u.ARelSD, u.BRelSD, u.SRelSD, osmoticSDText(u), u.DiffusivityRelSD, priceText(u.Prices))}
+				"π per candidate %s, D per candidate %.3g, estimated B per candidate %.3g (on top of the shared B); prices %s; "+
+				"PCG stream (math/rand/v2) seeded with the scenario seed, gonum stat/distuv; rank quantiles empirical",
+			u.ARelSD, u.BRelSD, u.SRelSD, osmoticSDText(u), u.DiffusivityRelSD, u.EstimatedBRelSD, priceText(u.Prices))}
 	}
 	model := "real (non-ideal) osmotic pressure"
 	if sc.VantHoff {

@@ -366,3 +366,25 @@ func TestScreenRegenerationBelowFeedWarning(t *testing.T) {
 		t.Error("warning where the diluted draw stays above the feed's π")
 	}
 }
+
+// Estimated B values carry their own error in the robustness run: with the
+// default spread the ranks mix far more than with none (the membrane's
+// shared B factor alone cannot reorder candidates).
+func TestRobustnessEstimatedB(t *testing.T) {
+	width := func(sd string) int {
+		m, e := dispatch(t, OpScreen, `{"feed":{"preset":"brackish-groundwater"},"candidates":["NaCl","KCl","MgCl2","CaCl2","Na2SO4","NH4Cl"],
+			"uncertainty":{"samples":400`+sd+`},"seed":3}`)
+		if e != nil {
+			t.Fatal(e)
+		}
+		w := 0
+		for _, c := range m["candidates"].([]any) {
+			r := c.(map[string]any)["robustness"].(map[string]any)
+			w += int(r["rank_p95"].(float64) - r["rank_p05"].(float64))
+		}
+		return w
+	}
+	if none, dflt := width(`,"estimated_b_rel_sd":0`), width(``); !(dflt > 2*none) {
+		t.Errorf("summed 5–95 %% rank widths: %d with the default estimated-B spread, %d without", dflt, none)
+	}
+}

@@ -37,7 +37,8 @@ func logNormalFactor(rsd float64, src rand.Source) distuv.LogNormal {
 // robustness runs the Monte Carlo over the stated uncertainties: A, B
 // and S of the membrane (one draw per sample, shared by every candidate),
 // and per candidate its price (uniform over its range), its osmotic model
-// (a log-normal factor on π) and its diffusivity. Each sample re-solves
+// (a log-normal factor on π), its diffusivity and, where its B is an
+// estimate, that estimate's own error. Each sample re-solves
 // what the perturbation changes — the basis concentration, the flux, and
 // the metrics — then normalises, scores and ranks the candidates afresh.
 // Sampling is sequential from one PCG stream seeded by the scenario, so a
@@ -52,6 +53,7 @@ func (e *env) robustness(ctx context.Context, res *Result, progress func(done, t
 	dB := logNormalFactor(u.BRelSD, src)
 	dS := logNormalFactor(u.SRelSD, src)
 	dD := logNormalFactor(u.DiffusivityRelSD, src)
+	dBest := logNormalFactor(u.EstimatedBRelSD, src)
 	dPi := make([]distuv.LogNormal, n)
 	cands := make([]*candidate, n)
 	names := make([]string, n)
@@ -98,7 +100,11 @@ func (e *env) robustness(ctx context.Context, res *Result, progress func(done, t
 		fA, fB, fS := dA.Rand(), dB.Rand(), dS.Rand()
 		for k, c := range cands {
 			p := &perts[k]
-			*p = perturb{fA: fA, fB: fB, fS: fS, fPi: dPi[k].Rand(), fD: dD.Rand(), price: -1}
+			fBk := fB
+			if c.bEstimated && u.EstimatedBRelSD > 0 {
+				fBk *= dBest.Rand()
+			}
+			*p = perturb{fA: fA, fB: fBk, fS: fS, fPi: dPi[k].Rand(), fD: dD.Rand(), price: -1}
 			if c.hasPrice {
 				if u.Prices {
 					p.price = c.priceMin + (c.priceMax-c.priceMin)*unif.Rand()

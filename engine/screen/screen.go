@@ -197,9 +197,18 @@ type Uncertainty struct {
 	// a non-ideal model).
 	DefaultOsmotic   bool
 	DiffusivityRelSD float64 // of each candidate's D
+	// EstimatedBRelSD is drawn per candidate, on top of the membrane's
+	// shared B factor, for a B estimated from NaCl's (not measured): the
+	// estimate's own error reorders candidates, the membrane's does not.
+	EstimatedBRelSD float64
 	// Prices: draw each price uniformly within its range.
 	Prices bool
 }
+
+// DefaultEstimatedBRelSD is the spread of a B scaled from NaCl's by
+// diffusivity: an order-of-magnitude estimate, taken as good to about a
+// factor of two (common practice, from memory).
+const DefaultEstimatedBRelSD = 1.0
 
 // DefaultOsmoticRelSD and DefaultDiffusivityRelSD apply when a scenario
 // asks for robustness without naming them: 2 % on π for a fitted model
