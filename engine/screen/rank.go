@@ -4,12 +4,17 @@ import "math"
 
 // Normalise maps each objective's column to [0, 1], 1 the best:
 //
-//	maximised: (v − min)/(max − min)     minimised: (max − v)/(max − min)
+//	maximised: 1 − (max − v)/d     minimised: 1 − (v − min)/d
+//	d = max(max − min, resolution)
 //
-// over the rows whose value is known; a column whose known values are all
-// equal gets 1 for every known row; an unknown value gets 0 (the worst).
-// Min–max normalisation makes the scores independent of the units the
-// values are expressed in (any positive scale and offset).
+// over the rows whose value is known; an unknown value gets 0 (the worst).
+// With d = max − min this is min–max normalisation; the resolution (see
+// objectiveInfo: 10 % of the column's largest magnitude for ratio-scale
+// metrics, 0.1 for fractions, 0.5 for saturation indices) keeps spreads
+// smaller than the estimates' accuracy from being stretched over the
+// whole range, so a 2 % difference in energy does not weigh like a
+// factor of two. Scores stay independent of the units the values are
+// expressed in (any positive scale).
 func Normalise(vals [][NumObjectives]float64, known [][NumObjectives]bool, out [][NumObjectives]float64) {
 	for o := Objective(0); o < NumObjectives; o++ {
 		lo, hi := math.Inf(1), math.Inf(-1)
@@ -19,16 +24,18 @@ func Normalise(vals [][NumObjectives]float64, known [][NumObjectives]bool, out [
 				hi = math.Max(hi, vals[i][o])
 			}
 		}
+		info := objectives[o]
+		d := math.Max(hi-lo, math.Max(info.AbsRes, info.RelRes*math.Max(math.Abs(lo), math.Abs(hi))))
 		for i := range vals {
 			switch {
 			case !known[i][o]:
 				out[i][o] = 0
-			case !(hi > lo):
+			case !(d > 0):
 				out[i][o] = 1
 			case o.Maximise():
-				out[i][o] = (vals[i][o] - lo) / (hi - lo)
+				out[i][o] = 1 - (hi-vals[i][o])/d
 			default:
-				out[i][o] = (hi - vals[i][o]) / (hi - lo)
+				out[i][o] = 1 - (vals[i][o]-lo)/d
 			}
 		}
 	}

@@ -49,18 +49,24 @@ type objectiveInfo struct {
 	Key      string
 	Unit     string
 	Maximise bool
+	// Resolution is the smallest spread that Normalise stretches over the
+	// whole 0–1 range: RelRes of the column's largest magnitude for
+	// ratio-scale metrics, AbsRes in the metric's unit otherwise. Screening
+	// estimates are not more accurate than about 10 % (common practice),
+	// so closer values should not decide a ranking on their own.
+	RelRes, AbsRes float64
 }
 
 var objectives = [NumObjectives]objectiveInfo{
-	ObjWaterFlux:         {"water_flux", "LMH", true},
-	ObjSRSF:              {"specific_reverse_solute_flux", "g/L", false},
-	ObjReplenishment:     {"replenishment_cost", "USD/m3", false},
-	ObjRegeneration:      {"regeneration_energy", "kWh/m3", false},
-	ObjViscosity:         {"viscosity", "mPa s", false},
-	ObjSolubilityMargin:  {"solubility_margin", "fraction", true},
-	ObjScaling:           {"scaling", "saturation index", false},
-	ObjFluxEfficiency:    {"flux_efficiency", "fraction", true},
-	ObjMassConcentration: {"mass_concentration", "g/L", false},
+	ObjWaterFlux:         {"water_flux", "LMH", true, 0.1, 0},
+	ObjSRSF:              {"specific_reverse_solute_flux", "g/L", false, 0.1, 0},
+	ObjReplenishment:     {"replenishment_cost", "USD/m3", false, 0.1, 0},
+	ObjRegeneration:      {"regeneration_energy", "kWh/m3", false, 0.1, 0},
+	ObjViscosity:         {"viscosity", "mPa s", false, 0.1, 0},
+	ObjSolubilityMargin:  {"solubility_margin", "fraction", true, 0, 0.1},
+	ObjScaling:           {"scaling", "saturation index", false, 0, 0.5},
+	ObjFluxEfficiency:    {"flux_efficiency", "fraction", true, 0, 0.1},
+	ObjMassConcentration: {"mass_concentration", "g/L", false, 0.1, 0},
 }
 
 // Key returns the objective's request name.

@@ -360,9 +360,14 @@ func TestScoreAndNormalisation(t *testing.T) {
 		vals[i], known[i] = r.Values, r.Known
 	}
 	Normalise(vals, known, a)
+	// Another unit: a positive scale on every ratio-scale metric (the unit
+	// changes that exist: bar ↔ psi, LMH ↔ GFD, kWh ↔ MJ, g/L ↔ kg/m³);
+	// fractions and saturation indices have no other unit.
 	for i := range vals {
 		for o := range vals[i] {
-			vals[i][o] = vals[i][o]*3.6e6 + 17 // another unit
+			if objectives[o].RelRes > 0 {
+				vals[i][o] *= 3.6e6
+			}
 		}
 	}
 	Normalise(vals, known, b)
@@ -475,6 +480,24 @@ func TestSweepConcentration(t *testing.T) {
 		up := p[3].Metrics.JwMPerS > p[0].Metrics.JwMPerS
 		if (v.Variable == SweepS) == up {
 			t.Errorf("sweep %v: Jw %g → %g has the wrong trend", v.Variable, p[0].Metrics.JwMPerS, p[3].Metrics.JwMPerS)
+		}
+	}
+}
+
+// Spreads below an objective's resolution are not stretched over 0–1: two
+// energies 2 % apart score 1 and 0.8 (0.02/0.1), two 50 % apart 1 and 0
+// (plain min–max); an unknown value is the worst (0).
+func TestNormaliseResolution(t *testing.T) {
+	o := ObjRegeneration
+	for _, tc := range []struct{ lo, hi, want float64 }{{1.00, 1.02, 1 - 0.02/0.102}, {1, 1.5, 0}} {
+		vals := make([][NumObjectives]float64, 3)
+		known := make([][NumObjectives]bool, 3)
+		out := make([][NumObjectives]float64, 3)
+		vals[0][o], vals[1][o] = tc.lo, tc.hi
+		known[0][o], known[1][o] = true, true
+		Normalise(vals, known, out)
+		if out[0][o] != 1 || math.Abs(out[1][o]-tc.want) > 1e-12 || out[2][o] != 0 {
+			t.Errorf("energies %g, %g: normalised %g, %g, unknown %g; want 1, %g, 0", tc.lo, tc.hi, out[0][o], out[1][o], out[2][o], tc.want)
 		}
 	}
 }
