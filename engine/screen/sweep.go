@@ -75,6 +75,9 @@ func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSp
 		if !(spec.From > 0) {
 			return nil, inputErr("sweep.from", "> 0 m/s", "the crossflow velocity must be positive")
 		}
+		if math.IsInf(local.KDrawMPerS, 1) && math.IsInf(local.KFeedMPerS, 1) {
+			return nil, inputErr("sweep.variable", nil, "a crossflow sweep needs external concentration polarization: external_cp is false, so crossflow has no effect")
+		}
 		if local.KDrawMPerS != 0 || local.KFeedMPerS != 0 {
 			return nil, inputErr("sweep.variable", nil, "a crossflow sweep needs k from the channel: omit k_draw_m_per_s and k_feed_m_per_s")
 		}
