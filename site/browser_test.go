@@ -303,6 +303,18 @@ func pageScenario(t testing.TB, b *browserSession) map[string]any {
 	return sc
 }
 
+// openServed builds the page, starts drawsift serve on 127.0.0.1, opens
+// the page in a fresh browser and waits for the demo's first ranking; it
+// returns the session and the run marker of that ranking.
+func openServed(t testing.TB) (*browserSession, string) {
+	t.Helper()
+	p := pageBuild(t)
+	b := browser(t)
+	url, _ := startServe(t, p)
+	b.do(t, chromedp.Navigate(url))
+	return b, b.waitRun(t, "")
+}
+
 type nativeResult struct {
 	Candidates []pageRow `json:"candidates"`
 	Excluded   []struct {
@@ -379,11 +391,7 @@ func demoScenario(t testing.TB) map[string]any {
 // that the ranked table is the engine's native ranking of the same
 // scenario, and of the demo file itself.
 func TestPageDemoMatchesEngine(t *testing.T) {
-	p := pageBuild(t)
-	b := browser(t)
-	url, _ := startServe(t, p)
-	b.do(t, chromedp.Navigate(url))
-	b.waitRun(t, "")
+	b, _ := openServed(t)
 	rows := eval[[]pageRow](t, b, jsRows)
 	sc := pageScenario(t, b)
 	sameRanking(t, rows, native(t, sc))
@@ -426,11 +434,7 @@ func TestPageDemoMatchesEngine(t *testing.T) {
 // TestPageFieldChange edits a field by keyboard and sees the ranking change
 // to the engine's native result for the edited scenario.
 func TestPageFieldChange(t *testing.T) {
-	p := pageBuild(t)
-	b := browser(t)
-	url, _ := startServe(t, p)
-	b.do(t, chromedp.Navigate(url))
-	run := b.waitRun(t, "")
+	b, run := openServed(t)
 	before := eval[[]pageRow](t, b, jsRows)
 	b.do(t, chromedp.Click(chromedp.ID("temp")), chromedp.Evaluate[chromedp.Void](`document.getElementById("temp").select()`),
 		chromedp.SendKeys(chromedp.ID("temp"), "45"))
@@ -461,11 +465,7 @@ func TestPageFieldChange(t *testing.T) {
 
 // TestPageReloadRestores edits the scenario, reloads, and finds it restored.
 func TestPageReloadRestores(t *testing.T) {
-	p := pageBuild(t)
-	b := browser(t)
-	url, _ := startServe(t, p)
-	b.do(t, chromedp.Navigate(url))
-	run := b.waitRun(t, "")
+	b, run := openServed(t)
 	b.do(t, chromedp.SetValue(chromedp.ID("basis-value"), "75"),
 		chromedp.Evaluate[chromedp.Void](`document.getElementById("basis-value").dispatchEvent(new Event("input", {bubbles: true}))`))
 	b.waitRun(t, run)
@@ -485,11 +485,7 @@ func TestPageReloadRestores(t *testing.T) {
 // TestPageMalformedImport imports broken files: a clear message, and the
 // scenario untouched.
 func TestPageMalformedImport(t *testing.T) {
-	p := pageBuild(t)
-	b := browser(t)
-	url, _ := startServe(t, p)
-	b.do(t, chromedp.Navigate(url))
-	b.waitRun(t, "")
+	b, _ := openServed(t)
 	stored := eval[string](t, b, `localStorage.getItem("drawsift.scenario.v1")`)
 	rows := eval[[]pageRow](t, b, jsRows)
 	dir := t.TempDir()
@@ -525,11 +521,7 @@ func TestPageMalformedImport(t *testing.T) {
 // TestPageRobustness runs a long robustness job: progress arrives, the page
 // answers while it runs, the figures appear; a second run is cancelled.
 func TestPageRobustness(t *testing.T) {
-	p := pageBuild(t)
-	b := browser(t)
-	url, _ := startServe(t, p)
-	b.do(t, chromedp.Navigate(url))
-	b.waitRun(t, "")
+	b, _ := openServed(t)
 	b.do(t, chromedp.SetValue(chromedp.ID("unc-samples"), "20000"),
 		chromedp.Evaluate[chromedp.Void](`document.getElementById("unc-samples").dispatchEvent(new Event("change", {bubbles: true}))`))
 	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).uncertainty.samples === 20000`, 5*time.Second)
@@ -574,11 +566,7 @@ func TestPageRobustness(t *testing.T) {
 
 // TestPagePrintReport prints to PDF and finds the report's sections.
 func TestPagePrintReport(t *testing.T) {
-	p := pageBuild(t)
-	b := browser(t)
-	url, _ := startServe(t, p)
-	b.do(t, chromedp.Navigate(url))
-	b.waitRun(t, "")
+	b, _ := openServed(t)
 	b.waitFor(t, `(document.body.dataset.plots || "").startsWith("done-")`, 60*time.Second)
 	// In print media the report shows and the controls do not.
 	if _, err := chromedp.Run(b.ctx, chromedp.Action[chromedp.Void](func(ctx context.Context, tg *chromedp.Target) (chromedp.Void, error) {
@@ -819,11 +807,7 @@ func TestPageNetworkOwnOrigin(t *testing.T) {
 // TestPageAccessible checks that every control has a label, the tabs work
 // from the keyboard, and the layout fits a tablet.
 func TestPageAccessible(t *testing.T) {
-	p := pageBuild(t)
-	b := browser(t)
-	url, _ := startServe(t, p)
-	b.do(t, chromedp.Navigate(url))
-	b.waitRun(t, "")
+	b, _ := openServed(t)
 	unlabelled := eval[[]string](t, b, `Array.from(document.querySelectorAll("input, select, textarea, button")).filter(e => {
 		if (e.type === "hidden") return false;
 		const name = (e.labels && e.labels.length) || e.getAttribute("aria-label") || e.getAttribute("aria-labelledby") || (e.tagName === "BUTTON" && e.textContent.trim());
@@ -891,11 +875,7 @@ func gzipLen(b []byte) int {
 // TestPageFieldError: a value past the engine's limit is reported beside
 // its field, naming the field and the limit, and the input is kept.
 func TestPageFieldError(t *testing.T) {
-	p := pageBuild(t)
-	b := browser(t)
-	url, _ := startServe(t, p)
-	b.do(t, chromedp.Navigate(url))
-	b.waitRun(t, "")
+	b, _ := openServed(t)
 	b.do(t, chromedp.SetValue(chromedp.ID("temp"), "150"),
 		chromedp.Evaluate[chromedp.Void](`document.getElementById("temp").dispatchEvent(new Event("input", {bubbles: true}))`))
 	b.waitFor(t, `(document.body.dataset.run || "").startsWith("error-")`, 20*time.Second)
@@ -915,11 +895,7 @@ func TestPageFieldError(t *testing.T) {
 // TestPageShareLink: a link made in one browser opens the same scenario
 // and ranking in another.
 func TestPageShareLink(t *testing.T) {
-	p := pageBuild(t)
-	b := browser(t)
-	url, _ := startServe(t, p)
-	b.do(t, chromedp.Navigate(url))
-	run := b.waitRun(t, "")
+	b, run := openServed(t)
 	b.do(t, chromedp.SetValue(chromedp.ID("basis-value"), "55"),
 		chromedp.Evaluate[chromedp.Void](`document.getElementById("basis-value").dispatchEvent(new Event("input", {bubbles: true}))`))
 	b.waitRun(t, run)
@@ -946,11 +922,7 @@ func TestPageShareLink(t *testing.T) {
 // library and the screen, ranks as the engine ranks it natively, and its
 // measured points are plotted. A broken table is refused with a message.
 func TestPageCustomSolute(t *testing.T) {
-	p := pageBuild(t)
-	b := browser(t)
-	url, _ := startServe(t, p)
-	b.do(t, chromedp.Navigate(url))
-	run := b.waitRun(t, "")
+	b, run := openServed(t)
 	b.do(t, chromedp.Click(chromedp.ID("tab-candidates")),
 		chromedp.Evaluate[chromedp.Void](`document.getElementById("custom-box").open = true`))
 	fill := func(id, v string) {
@@ -1055,11 +1027,7 @@ func TestPageExports(t *testing.T) {
 
 // TestPageSweep runs a temperature sweep with progress and draws it.
 func TestPageSweep(t *testing.T) {
-	p := pageBuild(t)
-	b := browser(t)
-	url, _ := startServe(t, p)
-	b.do(t, chromedp.Navigate(url))
-	b.waitRun(t, "")
+	b, _ := openServed(t)
 	b.do(t, chromedp.Click(chromedp.ID("tab-plots")))
 	// The plots of the ranking come first; the sweep runs after them.
 	b.waitFor(t, `(document.body.dataset.plots || "").startsWith("done-")`, 60*time.Second)
@@ -1104,11 +1072,7 @@ func TestPageVersionMismatch(t *testing.T) {
 // TestPageKeepsHiddenFields: an imported scenario's screening rules are
 // shown in the form and survive an edit made in another field.
 func TestPageKeepsHiddenFields(t *testing.T) {
-	p := pageBuild(t)
-	b := browser(t)
-	url, _ := startServe(t, p)
-	b.do(t, chromedp.Navigate(url))
-	run := b.waitRun(t, "")
+	b, run := openServed(t)
 	sc := demoScenario(t)
 	sc["allow_extrapolation"] = true
 	sc["exclude_hazards"] = []any{"oxidizer"}
@@ -1142,11 +1106,7 @@ const jsExcluded = `Array.from(document.querySelectorAll("#excluded li[data-solu
 // names the flag. Too few Pareto objectives get a message beside the field
 // and no run.
 func TestPageExcludeHazard(t *testing.T) {
-	p := pageBuild(t)
-	b := browser(t)
-	url, _ := startServe(t, p)
-	b.do(t, chromedp.Navigate(url))
-	run := b.waitRun(t, "")
+	b, run := openServed(t)
 	if eval[bool](t, b, `document.getElementById("hz-toxic").checked`) {
 		t.Fatal("the demo starts with toxic solutes excluded")
 	}
@@ -1214,11 +1174,7 @@ func TestPageExcludeHazard(t *testing.T) {
 // changes and is the native engine's; a k past its limit is refused
 // beside the field; the choice survives a reload.
 func TestPageGivenK(t *testing.T) {
-	p := pageBuild(t)
-	b := browser(t)
-	url, _ := startServe(t, p)
-	b.do(t, chromedp.Navigate(url))
-	run := b.waitRun(t, "")
+	b, run := openServed(t)
 	before := eval[[]pageRow](t, b, jsRows)
 	if !eval[bool](t, b, `document.getElementById("k-given-box").hidden`) {
 		t.Error("the k inputs show while k comes from the channel")
@@ -1274,11 +1230,7 @@ func TestPageGivenK(t *testing.T) {
 // candidate (engine/api ScreenRequest.Membrane), and the ranking is the
 // native one; a custom feed's pH outside 0–14 is refused beside the field.
 func TestPageDrawBAndFeedPH(t *testing.T) {
-	p := pageBuild(t)
-	b := browser(t)
-	url, _ := startServe(t, p)
-	b.do(t, chromedp.Navigate(url))
-	run := b.waitRun(t, "")
+	b, run := openServed(t)
 	before := eval[[]pageRow](t, b, jsRows)
 	set := func(id, v string) {
 		b.do(t, chromedp.Evaluate[chromedp.Void](fmt.Sprintf(`(e => { e.value = %q; e.dispatchEvent(new Event("input", {bubbles: true})); })(document.getElementById(%q))`, v, id)))
