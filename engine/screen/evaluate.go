@@ -283,7 +283,7 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 		c.bMPerS, c.bEstimated = drawB(&sc.Membrane, s, e.nacl)
 		if c.bEstimated {
 			c.warnings = append(c.warnings, fmt.Sprintf("%s: B estimated from the membrane's NaCl value by diffusivity (%.3g LMH): %s",
-				s.ID, c.bMPerS/thermo.MPerSPerLMH, "multivalent ions are usually rejected better than this predicts"))
+				s.ID, c.bMPerS/thermo.MPerSPerLMH, "likely pessimistic for multivalent ions and sugars; enter a measured B where known"))
 		}
 		if p := s.Price; p != nil {
 			c.hasPrice, c.priceMin, c.priceMax = true, p.USDPerKgMin, p.USDPerKgMax
