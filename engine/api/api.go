@@ -12,9 +12,9 @@ import (
 	"sort"
 	"strings"
 
+	"drawsift/engine/errs"
 	"drawsift/engine/internal/jsonx"
 	"drawsift/engine/library"
-	"drawsift/engine/thermo"
 )
 
 // EngineVersion identifies the engine build in every response; the page
@@ -189,32 +189,36 @@ func lookupSolute(field, name string) (*library.Solute, *Error) {
 	return s, nil
 }
 
-// fromEngine converts an engine error into the contract error, prefixing
-// the field path of the request part it came from.
+// fromEngine converts an engine error into the contract error — the one
+// converter from the engine's error types (engine/errs) — prefixing the
+// field path of the request part it came from. An input error keeps its
+// field and limit; a convergence failure or any other error is an engine
+// fault (500), its details kept for host logs.
 func fromEngine(prefix string, err error) *Error {
-	var ie *thermo.InputError
-	if errors.As(err, &ie) {
-		var lim any
-		if ie.Limit != "" {
-			lim = ie.Limit
-		}
-		return &Error{Field: join(prefix, ie.Field), Message: ie.Msg, Limit: lim, Kind: KindInvalid}
-	}
 	var ae *Error
 	if errors.As(err, &ae) {
 		return ae
 	}
-	return &Error{Field: prefix, Message: err.Error(), Kind: KindInvalid}
-}
-
-func join(prefix, field string) string {
-	if prefix == "" {
-		return field
+	var ie *errs.InputError
+	if errors.As(err, &ie) {
+		var lim any
+		if ie.Limit != nil && ie.Limit != "" {
+			lim = ie.Limit
+		}
+		msg := ie.Msg
+		if msg == "" {
+			msg = ie.Error()
+		}
+		return &Error{Field: errs.Join(prefix, ie.Field), Message: msg, Limit: lim, Kind: KindInvalid}
 	}
-	if field == "" {
-		return prefix
+	if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
+		return &Error{Field: "", Message: "cancelled: " + err.Error(), Kind: KindInvalid}
 	}
-	return prefix + "." + field
+	var ce *errs.ConvergenceError
+	if errors.As(err, &ce) {
+		return &Error{Message: ce.Error(), Kind: KindInternal, detail: ce.Error()}
+	}
+	return &Error{Message: "internal error", Kind: KindInternal, detail: err.Error()}
 }
 
 // finite reports whether every value is a finite float.

@@ -1,7 +1,6 @@
 package api
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"strings"
@@ -439,7 +438,7 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 	in.Species = species[:n]
 	res, err := transport.Solve(&in)
 	if err != nil {
-		return nil, fromTransport(err)
+		return nil, fromEngine("", err)
 	}
 
 	// Outputs.
@@ -575,21 +574,4 @@ func massTransfer(field string, given *float64, ch *ChannelSpec, extCP bool, sd 
 	}
 	return mt.KMPerS, MassTransferReport{KMPerS: mt.KMPerS, Origin: "correlation", Correlation: mt.Correlation,
 		Regime: mt.Regime, Reynolds: mt.Re, Schmidt: mt.Sc, Sherwood: mt.Sh}, nil
-}
-
-// fromTransport converts a transport error into the contract error.
-func fromTransport(err error) *Error {
-	var ie *transport.InputError
-	if errors.As(err, &ie) {
-		var lim any
-		if ie.Limit != "" {
-			lim = ie.Limit
-		}
-		return &Error{Field: ie.Field, Message: ie.Error(), Limit: lim, Kind: KindInvalid}
-	}
-	var ce *transport.ConvergenceError
-	if errors.As(err, &ce) {
-		return &Error{Message: ce.Error(), Kind: KindInternal}
-	}
-	return &Error{Message: err.Error(), Kind: KindInternal}
 }

@@ -3,6 +3,8 @@ package api
 import (
 	"math"
 
+	"drawsift/engine/errs"
+
 	"drawsift/engine/library"
 	"drawsift/engine/thermo"
 )
@@ -84,17 +86,17 @@ func parseTemperature(field string, tC *float64) (float64, *Error) {
 // parseConcentration validates a value/unit pair.
 func parseConcentration(prefix string, v *float64, unit string) (float64, thermo.Unit, *Error) {
 	if v == nil {
-		return 0, 0, Invalid(join(prefix, "concentration"), nil, "a concentration is required")
+		return 0, 0, Invalid(errs.Join(prefix, "concentration"), nil, "a concentration is required")
 	}
 	if !(*v >= 0) || math.IsInf(*v, 0) {
-		return 0, 0, Invalid(join(prefix, "concentration"), "≥ 0", "concentration must be a finite, non-negative number (got %g)", *v)
+		return 0, 0, Invalid(errs.Join(prefix, "concentration"), "≥ 0", "concentration must be a finite, non-negative number (got %g)", *v)
 	}
 	if unit == "" {
-		return 0, 0, Invalid(join(prefix, "unit"), thermo.UnitNames(), "a unit is required")
+		return 0, 0, Invalid(errs.Join(prefix, "unit"), thermo.UnitNames(), "a unit is required")
 	}
 	u, err := thermo.ParseUnit(unit)
 	if err != nil {
-		return 0, 0, Invalid(join(prefix, "unit"), thermo.UnitNames(), "%v", err)
+		return 0, 0, Invalid(errs.Join(prefix, "unit"), thermo.UnitNames(), "%v", err)
 	}
 	return *v, u, nil
 }

@@ -8,6 +8,7 @@ import (
 	"sort"
 	"strings"
 
+	"drawsift/engine/errs"
 	"drawsift/engine/library"
 	"drawsift/engine/screen"
 	"drawsift/engine/thermo"
@@ -315,9 +316,9 @@ func Screen(ctx context.Context, req *ScreenRequest, progress func(done, total i
 		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
 			return nil, &Error{Field: "", Message: "screen cancelled: " + err.Error(), Kind: KindInvalid}
 		}
-		var ie *screen.InputError
+		var ie *errs.InputError
 		if errors.As(err, &ie) {
-			ae := &Error{Field: ie.Field, Message: ie.Msg, Limit: ie.Limit, Kind: KindInvalid}
+			ae := fromEngine("", err)
 			if res != nil && ie.Field == "basis.value" {
 				var why []string
 				for _, x := range res.Excluded {
@@ -337,11 +338,7 @@ func Screen(ctx context.Context, req *ScreenRequest, progress func(done, total i
 		}
 		series, err := screen.Sweep(ctx, sc, lib, spec)
 		if err != nil {
-			var ie *screen.InputError
-			if errors.As(err, &ie) {
-				return nil, &Error{Field: ie.Field, Message: ie.Msg, Limit: ie.Limit, Kind: KindInvalid}
-			}
-			return nil, fromEngine("sweep", err)
+			return nil, fromEngine("", err)
 		}
 		resp.Sweep = sweepSeries(series, req.Sweep)
 	}

@@ -2,6 +2,7 @@ package screen
 
 import (
 	"context"
+	"drawsift/engine/errs"
 	"errors"
 	"fmt"
 	"math"
@@ -74,8 +75,8 @@ var ErrNoCandidate = errors.New("no candidate passes the hard limits")
 // with sc.Uncertainty the Monte Carlo robustness run follows, calling
 // progress(done, total) as it goes and stopping when ctx is cancelled.
 //
-// Errors: *InputError for a scenario that cannot run (field named);
-// an *InputError on "basis.value" when no candidate can reach the basis
+// Errors: *errs.InputError for a scenario that cannot run (field named);
+// an *errs.InputError on "basis.value" when no candidate can reach the basis
 // target (the Result is returned too, with every exclusion); ctx.Err()
 // when cancelled.
 func Run(ctx context.Context, sc *Scenario, lib *library.Library, progress func(done, total int)) (*Result, error) {
@@ -120,7 +121,7 @@ func Run(ctx context.Context, sc *Scenario, lib *library.Library, progress func(
 		case BasisOsmoticPressure, BasisWaterFlux, BasisConcentration:
 			field = "basis.value"
 		}
-		return res, &InputError{Field: field, Msg: fmt.Sprintf("%v: no candidate can be evaluated at this basis (see excluded)", ErrNoCandidate)}
+		return res, &errs.InputError{Field: field, Msg: fmt.Sprintf("%v: no candidate can be evaluated at this basis (see excluded)", ErrNoCandidate)}
 	}
 	rankRows(res.Ranked, &sc.Weights, sc.Pareto)
 	if u := sc.Uncertainty; u != nil && u.Samples > 0 {

@@ -17,6 +17,7 @@
 package screen
 
 import (
+	"drawsift/engine/errs"
 	"fmt"
 	"math"
 	"strings"
@@ -254,18 +255,10 @@ type Scenario struct {
 	Seed                 uint64
 }
 
-// InputError reports a scenario the screen cannot run. Field uses the
-// contract's names.
-type InputError struct {
-	Field string
-	Limit any
-	Msg   string
-}
-
-func (e *InputError) Error() string { return e.Field + ": " + e.Msg }
-
-func inputErr(field string, limit any, format string, a ...any) *InputError {
-	return &InputError{Field: field, Limit: limit, Msg: fmt.Sprintf(format, a...)}
+// inputErr builds the *errs.InputError of a scenario the screen cannot
+// run; field uses the contract's names.
+func inputErr(field string, limit any, format string, a ...any) *errs.InputError {
+	return &errs.InputError{Field: field, Limit: limit, Msg: fmt.Sprintf(format, a...)}
 }
 
 // validate checks the resolved scenario.

@@ -2,6 +2,7 @@ package screen
 
 import (
 	"context"
+	"drawsift/engine/errs"
 	"math"
 	"math/rand/v2"
 	"sort"
@@ -313,7 +314,7 @@ func TestUnreachableBasis(t *testing.T) {
 	sc := baseScenario(t, "K2SO4", "NaHCO3")
 	sc.Basis = Basis{Kind: BasisOsmoticPressure, PiPa: 300e5}
 	_, err := Run(context.Background(), sc, lib(t), nil)
-	ie, ok := err.(*InputError)
+	ie, ok := err.(*errs.InputError)
 	if !ok || ie.Field != "basis.value" {
 		t.Fatalf("got %v, want an InputError on basis.value", err)
 	}

@@ -1,6 +1,7 @@
 package thermo
 
 import (
+	"drawsift/engine/errs"
 	"fmt"
 	"math"
 
@@ -222,7 +223,7 @@ func (x *Solution) OsmoticFunc(c float64) (pi, dpdc float64) {
 // fails for negative or non-finite values and for mass fractions ≥ 1.
 func (x *Solution) ToMolality(v float64, u Unit) (float64, error) {
 	if !(v >= 0) || math.IsInf(v, 0) {
-		return 0, &InputError{Field: "concentration", Value: v, Limit: "≥ 0 and finite", Msg: "concentration must be a finite, non-negative number"}
+		return 0, &errs.InputError{Field: "concentration", Value: v, Limit: "≥ 0 and finite", Msg: "concentration must be a finite, non-negative number"}
 	}
 	var w float64
 	switch u {
@@ -237,7 +238,7 @@ func (x *Solution) ToMolality(v float64, u Unit) (float64, error) {
 		m, err := x.MolalityForPi(v * x.piPerG)
 		if err != nil {
 			lim := x.FromMolality(x.solMolal, u)
-			return 0, &InputError{Field: "concentration", Value: v, Limit: trimFloat(lim) + " " + u.String(),
+			return 0, &errs.InputError{Field: "concentration", Value: v, Limit: trimFloat(lim) + " " + u.String(),
 				Msg: fmt.Sprintf("%s cannot reach this osmolality below its solubility at %s °C", x.Solute.ID, trimFloat(x.tC))}
 		}
 		return m, nil
@@ -249,15 +250,15 @@ func (x *Solution) ToMolality(v float64, u Unit) (float64, error) {
 		ww, ok := x.dens.massFraction(k, x.wCap)
 		if !ok {
 			lim := math.Min(x.solMolal, x.capMolal)
-			return 0, &InputError{Field: "concentration", Value: v, Limit: trimFloat(x.FromMolality(lim, u)) + " " + u.String(),
+			return 0, &errs.InputError{Field: "concentration", Value: v, Limit: trimFloat(x.FromMolality(lim, u)) + " " + u.String(),
 				Msg: fmt.Sprintf("%s is beyond its solubility at %s °C", x.Solute.ID, trimFloat(x.tC))}
 		}
 		w = ww
 	default:
-		return 0, &InputError{Field: "unit", Msg: "unknown unit"}
+		return 0, &errs.InputError{Field: "unit", Msg: "unknown unit"}
 	}
 	if w >= 1 {
-		return 0, &InputError{Field: "concentration", Value: v, Limit: "mass fraction < 1", Msg: "concentration implies no water"}
+		return 0, &errs.InputError{Field: "concentration", Value: v, Limit: "mass fraction < 1", Msg: "concentration implies no water"}
 	}
 	return x.molalityFromMassFraction(w), nil
 }

@@ -1,9 +1,13 @@
 package thermo
 
-import "math"
+import (
+	"math"
+
+	"drawsift/engine/errs"
+)
 
 // MolalityForPi returns the molality at which the solution's osmotic
-// pressure reaches targetPa. It fails with an *InputError (field
+// pressure reaches targetPa. It fails with an *errs.InputError (field
 // "target") if the target is negative or lies above π at the solubility
 // limit (or at the model's data limit for a miscible solute).
 //
@@ -12,7 +16,7 @@ import "math"
 // bracket [0, m_top] converges to 1e-13 relative in a few steps.
 func (x *Solution) MolalityForPi(targetPa float64) (float64, error) {
 	if !(targetPa >= 0) || math.IsInf(targetPa, 0) {
-		return 0, &InputError{Field: "target", Value: targetPa / PascalPerBar, Limit: "≥ 0 bar", Msg: "target osmotic pressure must be a finite, non-negative number"}
+		return 0, &errs.InputError{Field: "target", Value: targetPa / PascalPerBar, Limit: "≥ 0 bar", Msg: "target osmotic pressure must be a finite, non-negative number"}
 	}
 	if targetPa == 0 {
 		return 0, nil
@@ -23,7 +27,7 @@ func (x *Solution) MolalityForPi(targetPa float64) (float64, error) {
 	}
 	piTop, _ := x.piMono(top)
 	if targetPa > piTop*(1+1e-12) {
-		return 0, &InputError{Field: "target", Value: targetPa / PascalPerBar,
+		return 0, &errs.InputError{Field: "target", Value: targetPa / PascalPerBar,
 			Limit: formatBar(piTop), Msg: x.Solute.ID + " cannot reach this osmotic pressure below its solubility limit"}
 	}
 	lo, hi := 0.0, top

@@ -1,6 +1,7 @@
 package thermo
 
 import (
+	"drawsift/engine/errs"
 	"errors"
 	"fmt"
 	"math"
@@ -170,7 +171,7 @@ func TestSolubilityLimit(t *testing.T) {
 		t.Error("6.15 mol/kg NaCl is past the Pitzer data limit (6 mol/kg) and should warn")
 	}
 	_, err = Evaluate(s, 27, WtPercent, ReferenceK)
-	var ie *InputError
+	var ie *errs.InputError
 	if !errors.As(err, &ie) || ie.Field != "concentration" || ie.Limit != "26.46 wt%" {
 		t.Errorf("27 wt%% NaCl: %v; want concentration error with limit 26.46 wt%%", err)
 	}

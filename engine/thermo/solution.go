@@ -1,6 +1,7 @@
 package thermo
 
 import (
+	"drawsift/engine/errs"
 	"fmt"
 	"math"
 	"sort"
@@ -56,13 +57,13 @@ type Solution struct {
 	fastState // the table behind FastOsmoticFunc, built on first use
 }
 
-// NewSolution prepares s at tK kelvin. It fails with an *InputError if tK
+// NewSolution prepares s at tK kelvin. It fails with an *errs.InputError if tK
 // lies outside 0–100 °C; a temperature outside the solute's parameter data
 // gives a Solution with a warning.
 func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 	tC := tK - ZeroCelsiusK
 	if !(tC >= MinTemperatureC && tC <= MaxTemperatureC) {
-		return nil, &InputError{Field: "temperature_c", Value: tC, Limit: "0–100 °C",
+		return nil, &errs.InputError{Field: "temperature_c", Value: tC, Limit: "0–100 °C",
 			Msg: "temperature outside the range of the water property correlations"}
 	}
 	x := &Solution{Solute: s, TK: tK, tC: tC, kind: s.Osmotic.Kind, nu: s.Nu(), mKg: s.MolarMassKgPerMol()}
@@ -125,7 +126,7 @@ func (x *Solution) prepareTable() error {
 	t := x.Solute.Osmotic.Table
 	u, err := ParseUnit(t.Unit)
 	if err != nil {
-		return &InputError{Field: "osmotic_model.table.unit", Msg: err.Error()}
+		return &errs.InputError{Field: "osmotic_model.table.unit", Msg: err.Error()}
 	}
 	// Concentration conversions use the density model at the table's
 	// own temperature.
@@ -137,7 +138,7 @@ func (x *Solution) prepareTable() error {
 	for i, p := range t.Points {
 		m, err := ref.ToMolality(p.Concentration, u)
 		if err != nil || !(m > xs[len(xs)-1]) {
-			return &InputError{Field: fmt.Sprintf("osmotic_model.table.points[%d].concentration", i), Value: p.Concentration,
+			return &errs.InputError{Field: fmt.Sprintf("osmotic_model.table.points[%d].concentration", i), Value: p.Concentration,
 				Msg: "table concentration cannot be converted to an increasing molality"}
 		}
 		xs = append(xs, m)
@@ -145,7 +146,7 @@ func (x *Solution) prepareTable() error {
 	}
 	var f interp.FritschButland
 	if err := f.Fit(xs, ys); err != nil {
-		return &InputError{Field: "osmotic_model.table", Msg: err.Error()}
+		return &errs.InputError{Field: "osmotic_model.table", Msg: err.Error()}
 	}
 	x.table = &f
 	x.tabMax = xs[len(xs)-1]

@@ -1,6 +1,7 @@
 package thermo
 
 import (
+	"drawsift/engine/errs"
 	"fmt"
 	"math"
 	"strconv"
@@ -31,7 +32,7 @@ type State struct {
 }
 
 // Evaluate prepares s at tK and returns its State at the given
-// concentration. Errors (*InputError) name the field: "concentration" for
+// concentration. Errors (*errs.InputError) name the field: "concentration" for
 // negative, non-finite or beyond-solubility values (the limit is given in
 // the request's unit), "temperature_c" outside 0–100 °C. Between the
 // model's data limit and the solubility the State carries a warning.
@@ -51,11 +52,11 @@ func Evaluate(s *library.Solute, conc float64, u Unit, tK float64) (State, error
 // solubility limit in an error.
 func (x *Solution) StateAt(m float64, u Unit) (State, error) {
 	if !(m >= 0) || math.IsInf(m, 0) {
-		return State{}, &InputError{Field: "concentration", Value: m, Limit: "≥ 0 and finite", Msg: "concentration must be a finite, non-negative number"}
+		return State{}, &errs.InputError{Field: "concentration", Value: m, Limit: "≥ 0 and finite", Msg: "concentration must be a finite, non-negative number"}
 	}
 	if m > x.solMolal*(1+1e-9) {
 		lim := x.FromMolality(x.solMolal, u)
-		return State{}, &InputError{Field: "concentration", Value: x.FromMolality(m, u),
+		return State{}, &errs.InputError{Field: "concentration", Value: x.FromMolality(m, u),
 			Limit: trimFloat(lim) + " " + u.String(),
 			Msg:   fmt.Sprintf("%s is beyond its solubility at %s °C", x.Solute.ID, trimFloat(x.tC))}
 	}
@@ -91,7 +92,7 @@ func (x *Solution) StateAt(m float64, u Unit) (State, error) {
 	for _, v := range []float64{st.OsmoticPressurePa, st.VantHoffPa, st.OsmoticCoefficient, st.WaterActivity,
 		st.DensityKgPerM3, st.ViscosityPaS, st.DiffusivityM2PerS, st.MolarityMolPerM3, st.LnGamma} {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return State{}, &InputError{Field: "concentration", Value: m, Msg: "the models give no finite result here"}
+			return State{}, &errs.InputError{Field: "concentration", Value: m, Msg: "the models give no finite result here"}
 		}
 	}
 	return st, nil

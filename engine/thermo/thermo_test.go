@@ -2,6 +2,7 @@ package thermo
 
 import (
 	"bufio"
+	"drawsift/engine/errs"
 	"errors"
 	"math"
 	"os"
@@ -324,7 +325,7 @@ func TestInverseRoundTrip(t *testing.T) {
 		}
 		// Beyond solubility: an error naming the field.
 		_, err := x.MolalityForPi(2 * x.OsmoticPressurePa(s.Osmotic.MaxMolalityMolPerKg))
-		var ie *InputError
+		var ie *errs.InputError
 		if !errors.As(err, &ie) || ie.Field != "target" {
 			t.Errorf("%s: target beyond solubility gave %v", s.ID, err)
 		}
@@ -347,7 +348,7 @@ func TestBadInput(t *testing.T) {
 		{"NaN temperature", 1, math.NaN(), "temperature_c"},
 	} {
 		_, err := Evaluate(naclPM73, tc.conc, MolPerKg, tc.tC+ZeroCelsiusK)
-		var ie *InputError
+		var ie *errs.InputError
 		if !errors.As(err, &ie) || ie.Field != tc.field {
 			t.Errorf("%s: got %v, want an InputError on %q", tc.name, err, tc.field)
 		}

@@ -36,5 +36,5 @@ func ExampleSolve() {
 	// Output:
 	// AL-FS: Jw = 13.11 LMH, Js = 79.34 mmol/(m² h), Js/Jw = 6.051 mol/m³
 	// AL-DS: Jw = 33.19 LMH, Js = 200.8 mmol/(m² h), Js/Jw = 6.051 mol/m³
-	// transport: membrane.a_lmh_per_bar = -3.6e+11: must be > 0 and ≤ 360 LMH/bar
+	// membrane.a_lmh_per_bar = -3.6e+11: must be > 0 and ≤ 360 LMH/bar
 }

@@ -66,7 +66,7 @@ const (
 //
 // Special cases are: any dimension, the velocity, the density, the
 // viscosity or the diffusivity ≤ 0, non-finite or absurdly large returns an
-// *InputError naming the field ("channel.height_m", "channel.width_m",
+// *errs.InputError naming the field ("channel.height_m", "channel.width_m",
 // "channel.length_m", "channel.velocity_m_per_s", "fluid.density_kg_per_m3",
 // "fluid.viscosity_pa_s", "fluid.diffusivity_m2_per_s").
 func MassTransferCoefficient(ch Channel, f Fluid) (MassTransfer, error) {

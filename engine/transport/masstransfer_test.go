@@ -1,6 +1,7 @@
 package transport
 
 import (
+	"drawsift/engine/errs"
 	"errors"
 	"math"
 	"strings"
@@ -97,7 +98,7 @@ func TestMassTransferBadInput(t *testing.T) {
 		{"fluid.diffusivity_m2_per_s", good, Fluid{DensityKgPerM3: 1000, ViscosityPaS: 1e-3, DiffusivityM2PerS: -1e-9}},
 	} {
 		_, err := MassTransferCoefficient(tc.ch, tc.f)
-		var ie *InputError
+		var ie *errs.InputError
 		if !errors.As(err, &ie) || ie.Field != tc.field || ie.Limit == "" {
 			t.Errorf("%s: error %v", tc.field, err)
 		}

@@ -1,6 +1,10 @@
 package transport
 
-import "math"
+import (
+	"math"
+
+	"drawsift/engine/errs"
+)
 
 // Root finder for the water flux. The residual
 //
@@ -241,7 +245,7 @@ func (s *solver) solve(out *Result) error {
 		j = next
 	}
 	res := math.Abs(bestF) / scale
-	return &ConvergenceError{Iterations: maxIterations, Residual: res}
+	return &errs.ConvergenceError{Solver: "water-flux solver", Iterations: maxIterations, Residual: res}
 }
 
 // accept ends the iteration at a point where float64 cannot do better; the
@@ -249,7 +253,7 @@ func (s *solver) solve(out *Result) error {
 func (s *solver) accept(out *Result, j, f float64, it int) error {
 	scale := s.a * s.drive
 	if math.Abs(f) > acceptRelTol*scale {
-		return &ConvergenceError{Iterations: it, Residual: math.Abs(f) / scale}
+		return &errs.ConvergenceError{Solver: "water-flux solver", Iterations: it, Residual: math.Abs(f) / scale}
 	}
 	if s.lastJ != j {
 		f, _ = s.eval(j)

@@ -59,7 +59,7 @@
 package transport
 
 import (
-	"errors"
+	"drawsift/engine/errs"
 	"fmt"
 	"math"
 	"strconv"
@@ -107,7 +107,7 @@ func ParseOrientation(s string) (Orientation, error) {
 	case "AL-DS", "PRO":
 		return ALDS, nil
 	}
-	return ALFS, &InputError{Field: "orientation", Text: s,
+	return ALFS, &errs.InputError{Field: "orientation", Text: s,
 		Limit: `one of "AL-FS", "AL-DS", "FO", "PRO"`, Err: ErrInvalidInput}
 }
 
@@ -178,42 +178,8 @@ type Stats struct {
 	Method      string  // "newton-bracketed", or "trivial" when Jw = 0 exactly
 }
 
-// ErrInvalidInput is wrapped by every *InputError.
-var ErrInvalidInput = errors.New("invalid input")
-
-// InputError reports an input outside its allowed range. Field uses the
-// names of the JSON contract; Value is the offending value in the unit that
-// field name carries (LMH/bar, µm, LMH, bar, mol/L, or SI where the name says
-// so). Text holds the offending text for non-numeric fields and for NaN or
-// infinite values (then Value is 0), so an error never carries NaN or Inf.
-type InputError struct {
-	Field string
-	Value float64
-	Text  string
-	Limit string
-	Err   error
-}
-
-func (e *InputError) Error() string {
-	if e.Text != "" {
-		return fmt.Sprintf("transport: %s = %q: must be %s", e.Field, e.Text, e.Limit)
-	}
-	return fmt.Sprintf("transport: %s = %g: must be %s", e.Field, e.Value, e.Limit)
-}
-
-func (e *InputError) Unwrap() error { return e.Err }
-
-// ConvergenceError reports that the root finder stopped without meeting its
-// tolerance. Residual is relative, as in Stats.Residual.
-type ConvergenceError struct {
-	Iterations int
-	Residual   float64
-}
-
-func (e *ConvergenceError) Error() string {
-	return fmt.Sprintf("transport: water-flux solver did not converge after %d iterations (relative residual %.3g)",
-		e.Iterations, e.Residual)
-}
+// ErrInvalidInput is wrapped by every input error (errs.ErrInvalidInput).
+var ErrInvalidInput = errs.ErrInvalidInput
 
 // Limits enforced by Solve. Besides the physical signs, the upper bounds are
 // generous (far beyond any membrane or solution) and exist so that every
@@ -247,8 +213,8 @@ const (
 //	feed π above draw π                  Jw < 0, not an error
 //	B = 0                                N_j = 0 (no solute crosses)
 //
-// Errors are *InputError for invalid input (including an OsmoticFunc that
-// returns a non-finite or negative π) and *ConvergenceError if the root
+// Errors are *errs.InputError for invalid input (including an OsmoticFunc that
+// returns a non-finite or negative π) and *errs.ConvergenceError if the root
 // finder fails, which the property tests have not seen happen. Solve never
 // returns NaN or Inf.
 func Solve(in *Input) (Result, error) {
@@ -283,18 +249,18 @@ func speciesFields(i int) (b, d, draw, feed, pi string) {
 
 func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 
-// inErr builds an *InputError. A non-finite offending value travels as Text
+// inErr builds an *errs.InputError. A non-finite offending value travels as Text
 // ("NaN", "+Inf", "-Inf") so that no error carries NaN or Inf either.
 func inErr(field string, v float64, limit string) error {
 	if !finite(v) {
-		return &InputError{Field: field, Text: strconv.FormatFloat(v, 'g', -1, 64), Limit: limit, Err: ErrInvalidInput}
+		return &errs.InputError{Field: field, Text: strconv.FormatFloat(v, 'g', -1, 64), Limit: limit, Err: ErrInvalidInput}
 	}
-	return &InputError{Field: field, Value: v, Limit: limit, Err: ErrInvalidInput}
+	return &errs.InputError{Field: field, Value: v, Limit: limit, Err: ErrInvalidInput}
 }
 
 func validate(in *Input) error {
 	if in == nil {
-		return &InputError{Field: "request", Text: "nil", Limit: "non-nil", Err: ErrInvalidInput}
+		return &errs.InputError{Field: "request", Text: "nil", Limit: "non-nil", Err: ErrInvalidInput}
 	}
 	if !(in.AMPerSPa > 0 && in.AMPerSPa <= maxAMPerSPa) {
 		return inErr("membrane.a_lmh_per_bar", in.AMPerSPa/MPerSPaPerLMHBar,
@@ -304,7 +270,7 @@ func validate(in *Input) error {
 		return inErr("membrane.s_um", in.SM*1e6, fmt.Sprintf("> 0 and ≤ %g µm", maxSM*1e6))
 	}
 	if in.Orientation != ALFS && in.Orientation != ALDS {
-		return &InputError{Field: "orientation", Text: in.Orientation.String(),
+		return &errs.InputError{Field: "orientation", Text: in.Orientation.String(),
 			Limit: `"AL-FS" or "AL-DS"`, Err: ErrInvalidInput}
 	}
 	if !(math.Abs(in.DeltaPPa) <= maxAbsDeltaPa) {
@@ -337,7 +303,7 @@ func validate(in *Input) error {
 			return inErr(ffeed, sp.FeedBulkMolPerM3/molPerM3PerMolPerL, cLimit())
 		}
 		if sp.Pi == nil {
-			return &InputError{Field: fpi, Text: "nil", Limit: "an osmotic-pressure function", Err: ErrInvalidInput}
+			return &errs.InputError{Field: fpi, Text: "nil", Limit: "an osmotic-pressure function", Err: ErrInvalidInput}
 		}
 	}
 	return nil

@@ -1,6 +1,7 @@
 package transport
 
 import (
+	"drawsift/engine/errs"
 	"errors"
 	"math"
 	"testing"
@@ -302,7 +303,7 @@ func TestOrientationParseAndString(t *testing.T) {
 		t.Errorf("String: %q %q", ALFS, ALDS)
 	}
 	_, err := ParseOrientation("sideways")
-	var ie *InputError
+	var ie *errs.InputError
 	if !errors.As(err, &ie) || ie.Field != "orientation" || !errors.Is(err, ErrInvalidInput) {
 		t.Errorf("ParseOrientation(sideways) error = %v", err)
 	}
@@ -361,9 +362,9 @@ func TestBadInput(t *testing.T) {
 		in := good()
 		tc.mod(in)
 		_, err := Solve(in)
-		var ie *InputError
+		var ie *errs.InputError
 		if !errors.As(err, &ie) {
-			t.Errorf("%s: error %v, want *InputError", tc.name, err)
+			t.Errorf("%s: error %v, want *errs.InputError", tc.name, err)
 			continue
 		}
 		if ie.Field != tc.field || ie.Limit == "" || !errors.Is(err, ErrInvalidInput) {
