@@ -28,12 +28,14 @@ commands:
   osmotic   osmotic pressure and properties of one solution (request JSON on stdin or -f)
   flux      water and reverse solute flux through an FO membrane
   screen    rank candidate draw solutes for a scenario (or many: JSON array or NDJSON)
+  batch     run a JSON array of {"op": "osmotic"|"flux", "body": {...}} in one call
+  defaults  print the engine's defaults and limits (what every field takes when omitted)
   serve     serve the JSON API at /v1/ and the page at / (drawsift serve -h)
   bundle    write the single-file offline page (drawsift bundle -o FILE.html)
   demo      print the built-in demo table
   version   print the engine version
 
-flags for osmotic, flux, screen:
+flags for osmotic, flux, screen, batch:
   -f FILE             read the request from FILE instead of standard input
   --format FORMAT     json (default), csv or table
 `
@@ -52,8 +54,24 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	}
 	cmd, rest := args[0], args[1:]
 	switch cmd {
-	case api.OpOsmotic, api.OpFlux, api.OpScreen:
+	case api.OpOsmotic, api.OpFlux, api.OpScreen, api.OpBatch:
 		return runOp(cmd, rest, stdin, stdout, stderr)
+	case api.OpDefaults:
+		if len(rest) > 0 {
+			fmt.Fprintf(stderr, "drawsift defaults: unexpected argument %q\n", rest[0])
+			return 1
+		}
+		out, e := api.Dispatch(context.Background(), api.OpDefaults, nil)
+		if e != nil {
+			stdout.Write(out)
+			fmt.Fprintln(stdout)
+			return 2
+		}
+		if err := render(stdout, api.OpDefaults, "json", out); err != nil {
+			fmt.Fprintf(stderr, "drawsift defaults: %v\n", err)
+			return 1
+		}
+		return 0
 	case "serve":
 		return runServe(rest, stdout, stderr)
 	case "bundle":

@@ -29,7 +29,14 @@ const (
 	OpSolutes = "solutes"
 	OpPresets = "presets"
 	OpHealth  = "health"
+	// OpDefaults reports the engine's defaults and limits.
+	OpDefaults = "defaults"
+	// OpBatch runs a list of osmotic and flux requests in one call.
+	OpBatch = "batch"
 )
+
+// Operations lists every operation Dispatch runs.
+var Operations = []string{OpOsmotic, OpFlux, OpScreen, OpSolutes, OpPresets, OpDefaults, OpBatch, OpHealth}
 
 // Error kinds, mapped to HTTP statuses by the hosts.
 const (
@@ -110,10 +117,19 @@ func DispatchProgress(ctx context.Context, op string, body []byte, progress func
 		resp, e = Solutes()
 	case OpPresets:
 		resp, e = Presets()
+	case OpDefaults:
+		resp = Defaults()
+	case OpBatch:
+		var items []BatchItem
+		if e = decode(body, &items); e == nil {
+			resp, e = Batch(ctx, items, progress)
+		} else {
+			e.Field = errs.Join("batch", e.Field)
+		}
 	case OpHealth:
 		resp = Health{Status: "ok", EngineVersion: EngineVersion, JSON: jsonx.Library}
 	default:
-		e = &Error{Field: "operation", Message: fmt.Sprintf("unknown operation %q (one of osmotic, flux, screen, solutes, presets, health)", op), Kind: KindNotFound}
+		e = &Error{Field: "operation", Message: fmt.Sprintf("unknown operation %q (one of %s)", op, strings.Join(Operations, ", ")), Kind: KindNotFound}
 	}
 	if e != nil {
 		return encodeError(e), e

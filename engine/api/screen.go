@@ -303,6 +303,9 @@ const DefaultSamples = 1000
 
 var pressureUnits = map[string]float64{"bar": 1e5, "kpa": 1e3, "mpa": 1e6, "atm": 101325, "psi": 6894.757293168, "pa": 1}
 
+// pressureUnitNames spell the keys of pressureUnits as people write them.
+var pressureUnitNames = []string{"bar", "kPa", "MPa", "atm", "psi", "Pa"}
+
 // Screen ranks the scenario's candidates. progress, if not nil, receives
 // (done, total) Monte Carlo samples.
 func Screen(ctx context.Context, req *ScreenRequest, progress func(done, total int)) (*ScreenResponse, *Error) {
@@ -769,7 +772,7 @@ func resolveBasis(b *BasisSpec, feedHasPi bool) (screen.Basis, *Error) {
 		}
 		f, ok := pressureUnits[strings.ToLower(unit)]
 		if !ok {
-			return screen.Basis{}, Invalid("basis.unit", []string{"bar", "kPa", "MPa", "atm", "psi", "Pa"}, "unknown pressure unit %q", b.Unit)
+			return screen.Basis{}, Invalid("basis.unit", pressureUnitNames, "unknown pressure unit %q", b.Unit)
 		}
 		return screen.Basis{Kind: screen.BasisOsmoticPressure, PiPa: v * f}, nil
 	case "concentration":

@@ -15,14 +15,11 @@
 // contract's error object. Long operations report onProgress(fraction).
 // While one runs it yields to the worker's event loop every few tens of
 // milliseconds, so that a cancel message posted by the page is seen.
-//
-// Besides the contract's operations it answers one of the page's own:
-// "batch" (a list of {op, body} run in one call, for the plots); it only
-// decodes, calls the engine and encodes.
+// Every operation, the plots' "batch" included, is api.DispatchProgress's:
+// this file only moves text between JavaScript and the engine.
 package main
 
 import (
-	"bytes"
 	"context"
 	"encoding/json"
 	"fmt"
@@ -74,7 +71,7 @@ func call(this js.Value, args []js.Value) any {
 			}
 			y.maybe()
 		}
-		out, e := run(ctx, op, body, progress, y)
+		out, e := run(ctx, op, body, progress)
 		onDone.Invoke(e == nil, string(out))
 	}()
 	return nil
@@ -112,7 +109,7 @@ func (y *yielder) maybe() {
 }
 
 // run answers one operation.
-func run(ctx context.Context, op string, body []byte, progress func(float64), y *yielder) (out []byte, e *api.Error) {
+func run(ctx context.Context, op string, body []byte, progress func(float64)) (out []byte, e *api.Error) {
 	defer func() {
 		if r := recover(); r != nil {
 			e = &api.Error{Message: "internal error", Kind: api.KindInternal}
@@ -120,9 +117,6 @@ func run(ctx context.Context, op string, body []byte, progress func(float64), y 
 			fmt.Println("drawsift: internal error:", r)
 		}
 	}()
-	if op == "batch" {
-		return batch(ctx, body, y)
-	}
 	out, e = api.DispatchProgress(ctx, op, body, func(done, total int) {
 		if total > 0 {
 			progress(float64(done) / float64(total))
@@ -132,77 +126,6 @@ func run(ctx context.Context, op string, body []byte, progress func(float64), y 
 		fmt.Println("drawsift: internal error:", e.Detail())
 	}
 	return out, e
-}
-
-// batchItem is one operation of a batch.
-type batchItem struct {
-	Op   string          `json:"op"`
-	Body json.RawMessage `json:"body"`
-}
-
-// batchResult is one answer: the response or the error object.
-type batchResult struct {
-	OK     bool            `json:"ok"`
-	Result json.RawMessage `json:"result"`
-}
-
-// maxBatch bounds a batch (the plots need a few thousand points at most).
-const maxBatch = 20000
-
-// batch runs a list of osmotic and flux requests; one failure does not
-// stop the rest.
-func batch(ctx context.Context, body []byte, y *yielder) ([]byte, *api.Error) {
-	var items []batchItem
-	if err := decodeStrict(body, &items); err != nil {
-		e := api.Invalid("batch", nil, "malformed batch: %v", err)
-		return encodeError(e), e
-	}
-	if len(items) > maxBatch {
-		e := api.Invalid("batch", maxBatch, "a batch holds at most %d requests (got %d)", maxBatch, len(items))
-		return encodeError(e), e
-	}
-	res := make([]batchResult, len(items))
-	for i, it := range items {
-		if ctx.Err() != nil {
-			e := api.Invalid("batch", nil, "cancelled")
-			return encodeError(e), e
-		}
-		if it.Op != api.OpOsmotic && it.Op != api.OpFlux {
-			e := api.Invalid(fmt.Sprintf("batch[%d].op", i), []string{api.OpOsmotic, api.OpFlux}, "a batch runs osmotic and flux requests only (got %q)", it.Op)
-			res[i] = batchResult{OK: false, Result: encodeError(e)}
-			continue
-		}
-		out, e := api.Dispatch(ctx, it.Op, it.Body)
-		res[i] = batchResult{OK: e == nil, Result: out}
-		y.maybe()
-	}
-	return encode(res)
-}
-
-func decodeStrict(b []byte, v any) error {
-	dec := json.NewDecoder(bytes.NewReader(b))
-	dec.DisallowUnknownFields()
-	if err := dec.Decode(v); err != nil {
-		return err
-	}
-	if dec.More() {
-		return fmt.Errorf("unexpected data after the JSON value")
-	}
-	return nil
-}
-
-func encode(v any) ([]byte, *api.Error) {
-	b, err := json.Marshal(v)
-	if err != nil {
-		return internal("encoding the response: " + err.Error())
-	}
-	return b, nil
-}
-
-func internal(detail string) ([]byte, *api.Error) {
-	fmt.Println("drawsift: internal error:", detail)
-	e := &api.Error{Message: "internal error", Kind: api.KindInternal}
-	return encodeError(e), e
 }
 
 func encodeError(e *api.Error) []byte {

@@ -11,6 +11,8 @@
 //	POST /v1/screen    rank candidate draw solutes for a scenario
 //	GET  /v1/solutes   the solute library with its sources
 //	GET  /v1/presets   the membrane and feed presets with their sources
+//	GET  /v1/defaults  the engine's defaults and limits
+//	POST /v1/batch     many osmotic and flux requests in one call
 //	GET  /v1/health    status and engine version
 //
 // Every failure is the contract's error object,
@@ -82,6 +84,8 @@ var routes = []route{
 	{"/v1/" + api.OpScreen, http.MethodPost, api.OpScreen},
 	{"/v1/" + api.OpSolutes, http.MethodGet, api.OpSolutes},
 	{"/v1/" + api.OpPresets, http.MethodGet, api.OpPresets},
+	{"/v1/" + api.OpDefaults, http.MethodGet, api.OpDefaults},
+	{"/v1/" + api.OpBatch, http.MethodPost, api.OpBatch},
 	{"/v1/" + api.OpHealth, http.MethodGet, api.OpHealth},
 }
 

@@ -1,0 +1,152 @@
+package api
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"strings"
+
+	"drawsift/engine/internal/jsonx"
+	"drawsift/engine/scenario"
+	"drawsift/engine/screen"
+	"drawsift/engine/thermo"
+)
+
+// LimitReport is one numeric input's accepted range and default, in the
+// unit its field names. Min and Max are absent when unbounded.
+type LimitReport struct {
+	Field        string   `json:"field"`
+	Unit         string   `json:"unit,omitempty"`
+	Min          *float64 `json:"min,omitempty"`
+	Max          *float64 `json:"max,omitempty"`
+	MinExclusive bool     `json:"min_exclusive"`
+	MaxExclusive bool     `json:"max_exclusive"`
+	Integer      bool     `json:"integer"`
+	Default      *float64 `json:"default,omitempty"`
+	Text         string   `json:"text"`
+	Why          string   `json:"why,omitempty"`
+}
+
+// ObjectiveReport is one objective of the score and the Pareto front.
+type ObjectiveReport struct {
+	Key      string `json:"key"`
+	Unit     string `json:"unit"`
+	Maximise bool   `json:"maximise"`
+}
+
+// DefaultsResponse is the engine's defaults and limits: what the page
+// shows before the user changes anything and checks beside each field.
+// No front end keeps a copy of any of these numbers.
+type DefaultsResponse struct {
+	// Limits by key (the contract field, or a key of its own where
+	// several ranges share a field, e.g. basis.osmotic_pressure_bar).
+	Limits              map[string]LimitReport `json:"limits"`
+	Weights             map[string]float64     `json:"weights"`
+	Objectives          []ObjectiveReport      `json:"objectives"`
+	ParetoObjectives    []string               `json:"pareto_objectives"`
+	Channel             ChannelSpec            `json:"channel"`
+	MembranePreset      string                 `json:"membrane_preset"`
+	FeedPreset          string                 `json:"feed_preset"`
+	Orientation         string                 `json:"orientation"`
+	Orientations        []string               `json:"orientations"`
+	OsmoticModel        string                 `json:"osmotic_model"`
+	OsmoticModels       []string               `json:"osmotic_models"`
+	HazardFlags         []string               `json:"hazard_flags"`
+	ConcentrationUnits  []string               `json:"concentration_units"`
+	PressureUnitsPa     map[string]float64     `json:"pressure_units_pa"`
+	GasConstantJPerMolK float64                `json:"gas_constant_j_per_mol_k"`
+	BatchMaxRequests    int                    `json:"batch_max_requests"`
+	EngineVersion       string                 `json:"engine_version"`
+}
+
+// Defaults reports the engine's defaults and limits (scenario.Defaults).
+func Defaults() *DefaultsResponse {
+	t := scenario.Defaults()
+	r := &DefaultsResponse{
+		Limits: map[string]LimitReport{}, Weights: map[string]float64{},
+		Channel:        defaultChannel(),
+		MembranePreset: t.MembranePreset, FeedPreset: t.FeedPreset,
+		Orientation: t.Orientation, Orientations: t.Orientations,
+		OsmoticModel: t.OsmoticModel, OsmoticModels: t.OsmoticModels,
+		HazardFlags:         t.HazardFlags,
+		ConcentrationUnits:  thermo.UnitNames()[:thermo.OsmolPerKg],
+		PressureUnitsPa:     map[string]float64{},
+		GasConstantJPerMolK: thermo.GasConstant,
+		BatchMaxRequests:    MaxBatch,
+		EngineVersion:       EngineVersion,
+	}
+	for _, g := range t.Ranges {
+		l := LimitReport{Field: g.Field, Unit: g.Unit, MinExclusive: g.MinOpen, MaxExclusive: g.MaxOpen, Integer: g.Integer,
+			Text: g.Text(), Why: g.Why}
+		if !math.IsInf(g.Min, 0) {
+			l.Min = ptr(g.Min)
+		}
+		if !math.IsInf(g.Max, 0) {
+			l.Max = ptr(g.Max)
+		}
+		if g.HasDefault {
+			l.Default = ptr(g.Default)
+		}
+		r.Limits[g.ID()] = l
+	}
+	for o := screen.Objective(0); o < screen.NumObjectives; o++ {
+		r.Weights[o.Key()] = t.Weights[o]
+		r.Objectives = append(r.Objectives, ObjectiveReport{Key: o.Key(), Unit: o.Unit(), Maximise: o.Maximise()})
+	}
+	for _, o := range t.ParetoObjectives {
+		r.ParetoObjectives = append(r.ParetoObjectives, o.Key())
+	}
+	for _, name := range pressureUnitNames {
+		r.PressureUnitsPa[name] = pressureUnits[strings.ToLower(name)]
+	}
+	return r
+}
+
+// defaultChannel is the channel a request without one gets.
+func defaultChannel() ChannelSpec {
+	return ChannelSpec{HeightMM: scenario.ChannelHeight.Default, WidthMM: scenario.ChannelWidth.Default,
+		LengthMM: scenario.ChannelLength.Default, CrossflowVelocityMPerS: scenario.Crossflow.Default}
+}
+
+// MaxBatch bounds a batch: the page's plots need a few thousand points at
+// most, and a batch runs in one call.
+const MaxBatch = 20000
+
+// BatchItem is one operation of a batch.
+type BatchItem struct {
+	Op   string           `json:"op"`
+	Body jsonx.RawMessage `json:"body"`
+}
+
+// BatchResult is one answer of a batch: the response, or the error object.
+type BatchResult struct {
+	OK     bool             `json:"ok"`
+	Result jsonx.RawMessage `json:"result"`
+}
+
+// Batch runs a list of osmotic and flux requests in one call; one failure
+// does not stop the rest (its answer is the error object, ok false).
+// progress, if not nil, receives (done, total) after each item; a
+// cancelled ctx stops the batch.
+func Batch(ctx context.Context, items []BatchItem, progress func(done, total int)) ([]BatchResult, *Error) {
+	if len(items) > MaxBatch {
+		return nil, Invalid("batch", MaxBatch, "a batch holds at most %d requests (got %d)", MaxBatch, len(items))
+	}
+	res := make([]BatchResult, len(items))
+	for i, it := range items {
+		if err := ctx.Err(); err != nil {
+			return nil, fromEngine("", err)
+		}
+		if it.Op != OpOsmotic && it.Op != OpFlux {
+			e := Invalid(fmt.Sprintf("batch[%d].op", i), []string{OpOsmotic, OpFlux}, "a batch runs osmotic and flux requests only (got %q)", it.Op)
+			res[i] = BatchResult{OK: false, Result: encodeError(e)}
+		} else {
+			out, e := DispatchProgress(ctx, it.Op, it.Body, nil)
+			res[i] = BatchResult{OK: e == nil, Result: out}
+		}
+		if progress != nil {
+			progress(i+1, len(items))
+		}
+	}
+	return res, nil
+}

@@ -1,0 +1,214 @@
+package scenario
+
+import (
+	"math"
+	"strconv"
+	"strings"
+
+	"drawsift/engine/errs"
+	"drawsift/engine/thermo"
+)
+
+// Range is the accepted interval of one numeric input, in the unit its
+// contract field names, with its default. Every range of every operation
+// is a Range in this file, checked by its Check method and listed by the
+// defaults operation, so the page, the CLI, the HTTP API and the engine's
+// own validation read the same numbers.
+type Range struct {
+	Field string // contract path ("membrane.a_lmh_per_bar"); "[]" marks a list index
+	// Key names the range in the defaults listing when several ranges
+	// share a field (the basis value in bar or in LMH); "" → Field.
+	Key  string
+	Unit string // as printed after the numbers; "" for dimensionless
+	Min  float64
+	Max  float64 // +Inf for no upper bound
+	// MinOpen, MaxOpen make a bound exclusive.
+	MinOpen, MaxOpen bool
+	Integer          bool
+	// Default applies when the field is omitted (HasDefault).
+	Default    float64
+	HasDefault bool
+	// Why says where the bounds come from.
+	Why string
+}
+
+// ID is the range's key in the defaults listing.
+func (r *Range) ID() string {
+	if r.Key != "" {
+		return r.Key
+	}
+	return r.Field
+}
+
+// Contains reports whether v lies in the range (false for NaN).
+func (r *Range) Contains(v float64) bool {
+	if math.IsNaN(v) {
+		return false
+	}
+	if r.MinOpen && !(v > r.Min) || !r.MinOpen && !(v >= r.Min) {
+		return false
+	}
+	if r.MaxOpen && !(v < r.Max) || !r.MaxOpen && !(v <= r.Max) {
+		return false
+	}
+	return !r.Integer || v == math.Trunc(v)
+}
+
+// Text is the limit as the contract's errors state it: "0–100 °C",
+// "> 0 and ≤ 20 m/s", "≥ 0 LMH".
+func (r *Range) Text() string {
+	lo, hi := num(r.Min), num(r.Max)
+	var s string
+	switch {
+	case math.IsInf(r.Max, 1) && r.MinOpen:
+		s = "> " + lo
+	case math.IsInf(r.Max, 1):
+		s = "≥ " + lo
+	case !r.MinOpen && !r.MaxOpen:
+		s = lo + "–" + hi
+	default:
+		a, b := "≥ ", "≤ "
+		if r.MinOpen {
+			a = "> "
+		}
+		if r.MaxOpen {
+			b = "< "
+		}
+		s = a + lo + " and " + b + hi
+	}
+	if r.Integer {
+		s += " (whole number)"
+	}
+	if r.Unit != "" {
+		s += " " + r.Unit
+	}
+	return s
+}
+
+// Check returns nil if v is in range, else an *errs.InputError on the
+// range's field.
+func (r *Range) Check(v float64) error { return r.CheckAt(r.Field, v) }
+
+// CheckAt is Check for an indexed instance of the field
+// ("custom_solutes[2].molar_mass_g_per_mol").
+func (r *Range) CheckAt(field string, v float64) error {
+	if r.Contains(v) {
+		return nil
+	}
+	name := field[strings.LastIndexByte(field, '.')+1:]
+	return errs.Invalid(field, v, r.Text(), "%s = %s is outside %s", name, num(v), r.Text())
+}
+
+// Or returns the default when p is nil, else *p checked against the range.
+func (r *Range) Or(p *float64) (float64, error) {
+	if p == nil {
+		return r.Default, nil
+	}
+	return *p, r.Check(*p)
+}
+
+// num prints a bound the way people write it: 1e-8, not 1e-08.
+func num(v float64) string {
+	if math.IsInf(v, 0) || math.IsNaN(v) {
+		return strconv.FormatFloat(v, 'g', -1, 64)
+	}
+	s := strconv.FormatFloat(v, 'g', -1, 64)
+	s = strings.Replace(s, "e-0", "e-", 1)
+	return strings.Replace(s, "e+0", "e+", 1)
+}
+
+var inf = math.Inf(1)
+
+// Bounds that catch unit slips rather than judge a membrane or a cell:
+// each is far beyond anything reported for forward osmosis (common
+// practice), so a value past it is almost surely in the wrong unit
+// (A in m s⁻¹ Pa⁻¹, S in m, a channel in µm).
+var (
+	TemperatureC = Range{Field: "temperature_c", Unit: "°C", Min: thermo.MinTemperatureC, Max: thermo.MaxTemperatureC,
+		Default: 25, HasDefault: true, Why: "liquid water at atmospheric pressure; the water-property fits of engine/water"}
+	MembraneA = Range{Field: "membrane.a_lmh_per_bar", Unit: "LMH/bar", Min: 1e-3, Max: 100, Why: "unit-slip guard"}
+	MembraneB = Range{Field: "membrane.b_lmh", Unit: "LMH", Min: 0, Max: 100, Why: "unit-slip guard"}
+	// MembraneBNaCl is the membrane's NaCl B, the base of estimates.
+	MembraneBNaCl = Range{Field: "membrane.b_nacl_lmh", Unit: "LMH", Min: 0, Max: 100, Why: "unit-slip guard"}
+	MembraneS     = Range{Field: "membrane.s_um", Unit: "µm", Min: 1, Max: 1e5, Why: "unit-slip guard"}
+	FeedB         = Range{Field: "b_feed_lmh", Unit: "LMH", Min: 0, Max: 100, Why: "unit-slip guard"}
+	KDraw         = Range{Field: "k_draw_m_per_s", Unit: "m/s", Min: 1e-8, Max: 1, Why: "unit-slip guard"}
+	KFeed         = Range{Field: "k_feed_m_per_s", Unit: "m/s", Min: 1e-8, Max: 1, Why: "unit-slip guard"}
+	Diffusivity   = Range{Field: "diffusivity_m2_per_s", Unit: "m²/s", Min: 1e-12, Max: 1e-7, Why: "unit-slip guard"}
+	DeltaP        = Range{Field: "delta_p_bar", Unit: "bar", Min: -1000, Max: 1000, HasDefault: true, Why: "unit-slip guard"}
+
+	// The default channel is a bench-scale flat-sheet FO cell with an
+	// empty channel at 0.25 m/s crossflow (common practice for lab FO
+	// tests; the 0.25 m/s of the standard protocol, Cath et al. 2013, is
+	// from memory).
+	ChannelHeight = Range{Field: "channel.height_mm", Unit: "mm", Min: 0, MinOpen: true, Max: 1e4, Default: 2, HasDefault: true, Why: "unit-slip guard"}
+	ChannelWidth  = Range{Field: "channel.width_mm", Unit: "mm", Min: 0, MinOpen: true, Max: 1e4, Default: 26, HasDefault: true, Why: "unit-slip guard"}
+	ChannelLength = Range{Field: "channel.length_mm", Unit: "mm", Min: 0, MinOpen: true, Max: 1e6, Default: 77, HasDefault: true, Why: "unit-slip guard"}
+	Crossflow     = Range{Field: "channel.crossflow_velocity_m_per_s", Unit: "m/s", Min: 0, MinOpen: true, Max: 20, Default: 0.25, HasDefault: true, Why: "unit-slip guard"}
+	FeedCrossflow = Range{Field: "channel.feed_crossflow_velocity_m_per_s", Unit: "m/s", Min: 0, MinOpen: true, Max: 20, Why: "unit-slip guard; omitted → the draw side's"}
+
+	FeedPH = Range{Field: "feed.ph", Min: 0, Max: 14, Default: 7, HasDefault: true, Why: "the pH scale of dilute aqueous solutions"}
+	// FeedIonMgPerL bounds one custom feed ion.
+	FeedIonMgPerL    = Range{Field: "feed.ions[].mg_per_l", Unit: "mg/L", Min: 0, Max: 1e6, Why: "a litre holds at most about 10⁶ mg of anything dissolved"}
+	FeedIonMolarMass = Range{Field: "feed.ions[].molar_mass_g_per_mol", Unit: "g/mol", Min: 0, MinOpen: true, Max: 1e4, Why: "unit-slip guard"}
+
+	// RegenerationRecovery: the fraction of the diluted draw's water
+	// recovered as product when re-concentrating (0.5 by default, our own
+	// choice; 0.95 keeps the minimum-energy integral away from the
+	// solubility of every library solute, common practice).
+	RegenerationRecovery = Range{Field: "regeneration_recovery", Min: 0, MinOpen: true, Max: 0.95, Default: 0.5, HasDefault: true,
+		Why: "a fraction; above 0.95 the re-concentrated draw nears solubility"}
+	Seed = Range{Field: "seed", Min: 0, Max: math.MaxUint64, Integer: true, Default: 1, HasDefault: true, Why: "a 64-bit unsigned seed"}
+
+	// Basis.
+	BasisValue = Range{Field: "basis.value", Min: 0, MinOpen: true, Max: inf, Why: "a positive target"}
+	// BasisMultiple is the target as a multiple of the feed's π; 2 is the
+	// default basis for a feed with osmotic pressure (our own choice: a
+	// draw twice the feed's π keeps a useful driving force along a module).
+	BasisMultiple = Range{Field: "basis.multiple_of_feed", Min: 1, MinOpen: true, Max: 1e3, Default: 2, HasDefault: true,
+		Why: "the draw must exceed the feed's π"}
+	// BasisPressure is the equal-π basis for a solute-free feed: 28 bar,
+	// the equal osmotic pressure of Achilli, Cath & Childress (2010) J.
+	// Membr. Sci. 364:233 (2.8 MPa; from memory).
+	BasisPressure = Range{Field: "basis.value", Key: "basis.osmotic_pressure_bar", Unit: "bar", Min: 0, MinOpen: true, Max: 1e4, Default: 28, HasDefault: true,
+		Why: "positive; 10⁴ bar is beyond any solution"}
+	BasisFlux = Range{Field: "basis.value", Key: "basis.water_flux_lmh", Unit: "LMH", Min: 0, MinOpen: true, Max: 3600, MaxOpen: true, Why: "beyond any FO membrane"}
+	Weight    = Range{Field: "weights", Min: 0, Max: math.MaxFloat64, Why: "finite and non-negative"}
+
+	// Robustness (Monte Carlo). The spreads' defaults are engine/screen's
+	// (each names its source there); a preset membrane brings its own A, B
+	// and S scatter, a custom one takes the defaults below.
+	Samples = Range{Field: "uncertainty.samples", Min: 1, Max: 100000, Integer: true, Default: 1000, HasDefault: true,
+		Why: "10⁵ samples bound a request's time"}
+	ARelSD = Range{Field: "uncertainty.a_rel_sd", Min: 0, Max: 2, Default: 0.10, HasDefault: true,
+		Why: "relative SD; custom-membrane default 10 % (common practice, from memory)"}
+	BRelSD = Range{Field: "uncertainty.b_rel_sd", Min: 0, Max: 2, Default: 0.30, HasDefault: true,
+		Why: "relative SD; custom-membrane default 30 % (common practice, from memory)"}
+	SRelSD = Range{Field: "uncertainty.s_rel_sd", Min: 0, Max: 2, Default: 0.15, HasDefault: true,
+		Why: "relative SD; custom-membrane default 15 % (common practice, from memory)"}
+	OsmoticRelSD     = Range{Field: "uncertainty.osmotic_rel_sd", Min: 0, Max: 2, Default: 0.02, HasDefault: true, Why: "relative SD; see screen.DefaultOsmoticRelSD"}
+	DiffusivityRelSD = Range{Field: "uncertainty.diffusivity_rel_sd", Min: 0, Max: 2, Default: 0.05, HasDefault: true, Why: "relative SD; see screen.DefaultDiffusivityRelSD"}
+	EstimatedBRelSD  = Range{Field: "uncertainty.estimated_b_rel_sd", Min: 0, Max: 2, Default: 1.0, HasDefault: true, Why: "relative SD; see screen.DefaultEstimatedBRelSD"}
+
+	// Sweeps.
+	SweepPoints = Range{Field: "sweep.points", Min: 2, Max: 1000, Integer: true, Why: "a series of 2–1000 points"}
+
+	// Custom solutes.
+	CustomMolarMass   = Range{Field: "custom_solutes[].molar_mass_g_per_mol", Unit: "g/mol", Min: 0, MinOpen: true, Max: 1e7, MaxOpen: true, Why: "unit-slip guard"}
+	CustomDiffusivity = Range{Field: "custom_solutes[].diffusivity_m2_per_s", Unit: "m²/s", Min: 0, MinOpen: true, Max: 1e-8, MaxOpen: true, Why: "unit-slip guard"}
+	CustomVantHoff    = Range{Field: "custom_solutes[].van_t_hoff_factor", Min: 0, Max: 10, Why: "particles per formula unit; 0 → Σ ion counts, or 1"}
+	PiTablePoints     = Range{Field: "custom_solutes[].pi_table.points", Min: 2, Max: 1000, Integer: true, Why: "a table of 2–1000 points"}
+)
+
+// Ranges lists every range, in the order the defaults operation reports
+// them.
+func Ranges() []*Range {
+	return []*Range{
+		&TemperatureC, &MembraneA, &MembraneB, &MembraneBNaCl, &MembraneS, &FeedB, &KDraw, &KFeed, &Diffusivity, &DeltaP,
+		&ChannelHeight, &ChannelWidth, &ChannelLength, &Crossflow, &FeedCrossflow,
+		&FeedPH, &FeedIonMgPerL, &FeedIonMolarMass, &RegenerationRecovery, &Seed,
+		&BasisValue, &BasisMultiple, &BasisPressure, &BasisFlux, &Weight,
+		&Samples, &ARelSD, &BRelSD, &SRelSD, &OsmoticRelSD, &DiffusivityRelSD, &EstimatedBRelSD,
+		&SweepPoints, &CustomMolarMass, &CustomDiffusivity, &CustomVantHoff, &PiTablePoints,
+	}
+}
