@@ -189,22 +189,6 @@ func soluteSources(s *library.Solute) []Source {
 	return out
 }
 
-// lookupSolute finds a solute or returns the contract error on field.
-func lookupSolute(field, name string) (*library.Solute, *Error) {
-	if strings.TrimSpace(name) == "" {
-		return nil, Invalid(field, nil, "a solute is required (e.g. \"NaCl\")")
-	}
-	lib, err := library.Default()
-	if err != nil {
-		return nil, &Error{Message: "internal error: solute library: " + err.Error(), Kind: KindInternal}
-	}
-	s, ok := lib.Lookup(name)
-	if !ok {
-		return nil, Invalid(field, nil, "unknown solute %q; known: %s", name, strings.Join(lib.IDs(), ", "))
-	}
-	return s, nil
-}
-
 // fromEngine converts an engine error into the contract error — the one
 // converter from the engine's error types (engine/errs) — prefixing the
 // field path of the request part it came from. An input error keeps its

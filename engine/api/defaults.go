@@ -64,7 +64,7 @@ func Defaults() *DefaultsResponse {
 	t := scenario.Defaults()
 	r := &DefaultsResponse{
 		Limits: map[string]LimitReport{}, Weights: map[string]float64{},
-		Channel:        defaultChannel(),
+		Channel:        scenario.DefaultChannel(),
 		MembranePreset: t.MembranePreset, FeedPreset: t.FeedPreset,
 		Orientation: t.Orientation, Orientations: t.Orientations,
 		OsmoticModel: t.OsmoticModel, OsmoticModels: t.OsmoticModels,
@@ -100,12 +100,6 @@ func Defaults() *DefaultsResponse {
 		r.PressureUnitsPa[name] = pressureUnits[strings.ToLower(name)]
 	}
 	return r
-}
-
-// defaultChannel is the channel a request without one gets.
-func defaultChannel() ChannelSpec {
-	return ChannelSpec{HeightMM: scenario.ChannelHeight.Default, WidthMM: scenario.ChannelWidth.Default,
-		LengthMM: scenario.ChannelLength.Default, CrossflowVelocityMPerS: scenario.Crossflow.Default}
 }
 
 // MaxBatch bounds a batch: the page's plots need a few thousand points at

@@ -1,9 +1,8 @@
 package api
 
 import (
-	"fmt"
-	"math"
-	"strings"
+	"drawsift/engine/scenario"
+	"drawsift/engine/warn"
 
 	"drawsift/engine/library"
 	"drawsift/engine/thermo"
@@ -11,58 +10,12 @@ import (
 )
 
 // MembraneSpec is a membrane in a request: a preset, custom values, or a
-// preset with some values overridden.
-type MembraneSpec struct {
-	Preset     string   `json:"preset,omitempty"`
-	ALMHPerBar *float64 `json:"a_lmh_per_bar,omitempty"`
-	// BLMH is B for the draw solute; omitted → the preset's measured value
-	// for that solute or an estimate (library.BEstimateRule).
-	BLMH *float64 `json:"b_lmh,omitempty"`
-	// BNaClLMH is the membrane's NaCl B, the base of the estimate for other
-	// solutes (custom membranes).
-	BNaClLMH *float64 `json:"b_nacl_lmh,omitempty"`
-	SUM      *float64 `json:"s_um,omitempty"`
-}
+// preset with some values overridden (scenario.MembraneSpec).
+type MembraneSpec = scenario.MembraneSpec
 
 // ChannelSpec describes a crossflow channel; k follows from a Sherwood
-// correlation.
-type ChannelSpec struct {
-	HeightMM                 float64  `json:"height_mm"`
-	WidthMM                  float64  `json:"width_mm"`
-	LengthMM                 float64  `json:"length_mm"`
-	CrossflowVelocityMPerS   float64  `json:"crossflow_velocity_m_per_s"`
-	Spacer                   bool     `json:"spacer"`
-	FeedCrossflowVelocityMPS *float64 `json:"feed_crossflow_velocity_m_per_s,omitempty"`
-}
-
-// validate checks a channel's numbers in the request's units, so that the
-// error names the request's field and its limit (the correlations in
-// engine/transport check again, in SI). The bounds catch unit slips, not
-// unusual cells: 10 m is far beyond any channel dimension.
-func (c *ChannelSpec) validate() *Error {
-	for _, f := range []struct {
-		name  string
-		v, hi float64
-		unit  string
-	}{
-		{"height_mm", c.HeightMM, 1e4, "mm"}, {"width_mm", c.WidthMM, 1e4, "mm"}, {"length_mm", c.LengthMM, 1e6, "mm"},
-		{"crossflow_velocity_m_per_s", c.CrossflowVelocityMPerS, 20, "m/s"},
-	} {
-		if !(f.v > 0 && f.v <= f.hi) {
-			lim := fmt.Sprintf("> 0 and ≤ %g %s", f.hi, f.unit)
-			return Invalid("channel."+f.name, lim, "channel %s = %g must be %s", f.name, f.v, lim)
-		}
-	}
-	if u := c.FeedCrossflowVelocityMPS; u != nil && !(*u > 0 && *u <= 20) {
-		return Invalid("channel.feed_crossflow_velocity_m_per_s", "> 0 and ≤ 20 m/s", "the feed-side crossflow velocity must be > 0 and ≤ 20 m/s")
-	}
-	return nil
-}
-
-// DefaultChannel is a bench-scale flat-sheet FO cell with an empty
-// channel at 0.25 m/s crossflow (common practice for lab FO tests; the
-// 0.25 m/s of the standard protocol, Cath et al. 2013, is from memory).
-var DefaultChannel = ChannelSpec{HeightMM: 2, WidthMM: 26, LengthMM: 77, CrossflowVelocityMPerS: 0.25}
+// correlation (scenario.ChannelSpec).
+type ChannelSpec = scenario.ChannelSpec
 
 // FluxRequest is the contract's flux request.
 type FluxRequest struct {
@@ -169,97 +122,6 @@ var fluxSources = []Source{
 	{Field: "model.interfaces", Reference: "interface concentrations from the exponential profiles, then π from the real model (never a non-ideal π times the exponentials)"},
 }
 
-// resolvedMembrane holds the membrane numbers in SI.
-type resolvedMembrane struct {
-	rec      *library.Membrane // preset record, or nil
-	aLMHBar  float64
-	bNaClLMH float64 // base for estimates, valid when bNaClSet
-	bNaClSet bool    // from the preset or b_nacl_lmh
-	bDrawLMH *float64
-	sUM      float64
-}
-
-// resolveMembrane reads a MembraneSpec: a preset, overridden field by field.
-func resolveMembrane(spec *MembraneSpec) (*resolvedMembrane, *Error) {
-	if spec == nil {
-		return nil, Invalid("membrane", nil, "a membrane is required: {\"preset\": ID} or {\"a_lmh_per_bar\", \"b_lmh\", \"s_um\"}")
-	}
-	r := &resolvedMembrane{}
-	if spec.Preset != "" {
-		m, ok := library.LookupMembrane(spec.Preset)
-		if !ok {
-			ids := []string{}
-			all, _ := library.Membranes()
-			for _, p := range all {
-				ids = append(ids, p.ID)
-			}
-			return nil, Invalid("membrane.preset", ids, "unknown membrane preset %q", spec.Preset)
-		}
-		r.rec = m
-		r.aLMHBar, r.bNaClLMH, r.sUM = m.ALMHPerBar, m.BNaClLMH, m.SUM
-		r.bNaClSet = true
-	}
-	set := func(field string, v *float64, dst *float64, lo, hi float64) *Error {
-		if v == nil {
-			return nil
-		}
-		if !(*v >= lo && *v <= hi) {
-			return Invalid("membrane."+field, fmt.Sprintf("%g–%g", lo, hi), "%s = %g is outside %g–%g", field, *v, lo, hi)
-		}
-		*dst = *v
-		return nil
-	}
-	// Bounds: far outside any FO membrane reported, to catch unit slips
-	// (e.g. A in m/s/Pa or S in m) rather than to judge the membrane.
-	if e := set("a_lmh_per_bar", spec.ALMHPerBar, &r.aLMHBar, 1e-3, 100); e != nil {
-		return nil, e
-	}
-	if e := set("s_um", spec.SUM, &r.sUM, 1, 1e5); e != nil {
-		return nil, e
-	}
-	if e := set("b_nacl_lmh", spec.BNaClLMH, &r.bNaClLMH, 0, 100); e != nil {
-		return nil, e
-	}
-	r.bNaClSet = r.bNaClSet || spec.BNaClLMH != nil
-	if spec.BLMH != nil {
-		var b float64
-		if e := set("b_lmh", spec.BLMH, &b, 0, 100); e != nil {
-			return nil, e
-		}
-		r.bDrawLMH = &b
-	}
-	if r.aLMHBar == 0 {
-		return nil, Invalid("membrane.a_lmh_per_bar", "> 0", "a_lmh_per_bar is required for a custom membrane")
-	}
-	if r.sUM == 0 {
-		return nil, Invalid("membrane.s_um", "> 0", "s_um is required for a custom membrane")
-	}
-	return r, nil
-}
-
-// bFor returns B (LMH) for solute s and whether it is an estimate.
-func (r *resolvedMembrane) bFor(field string, s *library.Solute, override *float64) (float64, bool, *Error) {
-	if override != nil {
-		return *override, false, nil
-	}
-	if r.rec != nil {
-		if b, ok := r.rec.BBySolute[s.ID]; ok && r.bNaClLMH == r.rec.BNaClLMH {
-			return b, false, nil
-		}
-	}
-	if !r.bNaClSet {
-		return 0, false, Invalid(field, "≥ 0", "B for %s is needed: give %s, or membrane.b_nacl_lmh to estimate it from the NaCl value", s.ID, field)
-	}
-	if library.Key(s.ID) == "nacl" {
-		return r.bNaClLMH, false, nil
-	}
-	nacl, e := lookupSolute(field, "NaCl")
-	if e != nil {
-		return 0, false, e
-	}
-	return r.bNaClLMH * s.Diffusivity.D0M2PerS / nacl.Diffusivity.D0M2PerS, true, nil
-}
-
 // side is one prepared stream: its solute and its bulk state.
 type side struct {
 	sol   *library.Solute
@@ -271,13 +133,13 @@ type side struct {
 
 // prepareSide validates one stream's concentration and evaluates its bulk.
 func prepareSide(prefix string, c *Concentration, tK float64) (*side, *Error) {
-	s, e := lookupSolute(prefix+".solute", c.Solute)
-	if e != nil {
-		return nil, e
+	s, err := scenario.LookupSolute(prefix+".solute", c.Solute)
+	if err != nil {
+		return nil, fromEngine("", err)
 	}
-	v, u, e := parseConcentration(prefix, c.Concentration, c.Unit)
-	if e != nil {
-		return nil, e
+	v, u, err := scenario.ParseConcentration(prefix, c.Concentration, c.Unit)
+	if err != nil {
+		return nil, fromEngine("", err)
 	}
 	x, err := thermo.NewSolution(s, tK)
 	if err != nil {
@@ -302,30 +164,22 @@ func vantHoffFunc(nu, tK float64) transport.OsmoticFunc {
 
 // Flux computes the water and solute fluxes through an FO membrane.
 func Flux(req *FluxRequest) (*FluxResponse, *Error) {
-	mem, e := resolveMembrane(req.Membrane)
-	if e != nil {
-		return nil, e
+	mem, err := scenario.ResolveMembrane(req.Membrane)
+	if err != nil {
+		return nil, fromEngine("", err)
 	}
-	orient := transport.ALFS
-	if req.Orientation != "" {
-		o, err := transport.ParseOrientation(req.Orientation)
-		if err != nil {
-			return nil, Invalid("orientation", []string{"AL-FS", "AL-DS"}, "unknown orientation %q", req.Orientation)
-		}
-		orient = o
+	orient, err := scenario.ParseOrientation("orientation", req.Orientation)
+	if err != nil {
+		return nil, fromEngine("", err)
 	}
-	model := strings.ToLower(req.OsmoticModel)
-	switch model {
-	case "", "real":
-		model = "real"
-	case "van-t-hoff", "vant-hoff", "van't-hoff", "ideal":
-		model = "van-t-hoff"
-	default:
-		return nil, Invalid("osmotic_model", []string{"real", "van-t-hoff"}, "unknown osmotic model %q", req.OsmoticModel)
+	osm, err := scenario.ParseOsmoticModel(req.OsmoticModel)
+	if err != nil {
+		return nil, fromEngine("", err)
 	}
-	tK, e := parseTemperature("temperature_c", req.TemperatureC)
-	if e != nil {
-		return nil, e
+	model := osm.String()
+	tK, err := scenario.TemperatureK("temperature_c", req.TemperatureC)
+	if err != nil {
+		return nil, fromEngine("", err)
 	}
 	if req.Draw == nil {
 		return nil, Invalid("draw", nil, "a draw solution is required: {\"solute\", \"concentration\", \"unit\"}")
@@ -343,72 +197,80 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 	if e != nil {
 		return nil, e
 	}
-	deltaP := 0.0
-	if req.DeltaPBar != nil {
-		deltaP = *req.DeltaPBar
-		if !(math.Abs(deltaP) <= 1000) {
-			return nil, Invalid("delta_p_bar", "−1000–1000 bar", "delta_p_bar = %g is outside ±1000 bar", deltaP)
-		}
+	deltaP, err := scenario.DeltaP.Or(req.DeltaPBar)
+	if err != nil {
+		return nil, fromEngine("", err)
 	}
 	resp := &FluxResponse{Orientation: orient.String(), OsmoticModel: model, TemperatureC: tK - thermo.ZeroCelsiusK,
-		DeltaPBar: deltaP, EngineVersion: EngineVersion, Warnings: []string{}}
-	resp.Warnings = append(resp.Warnings, draw.state.Warnings...)
+		DeltaPBar: deltaP, EngineVersion: EngineVersion}
+	var warns []warn.Warning
+	warns = append(warns, draw.state.Warnings...)
 	if feed.sol != draw.sol {
-		resp.Warnings = append(resp.Warnings, feed.state.Warnings...)
+		warns = append(warns, feed.state.Warnings...)
 	}
 
 	// Diffusivities: the library's concentration- and temperature-dependent
 	// D at the bulk concentration, or the override.
 	dDraw := draw.x.DiffusivityM2PerS(draw.m)
 	if req.DiffusivityM2PerS != nil {
-		d := *req.DiffusivityM2PerS
-		if !(d >= 1e-12 && d <= 1e-7) {
-			return nil, Invalid("diffusivity_m2_per_s", "1e-12–1e-7 m²/s", "diffusivity_m2_per_s = %g is outside 1e-12–1e-7", d)
+		if err := scenario.Diffusivity.Check(*req.DiffusivityM2PerS); err != nil {
+			return nil, fromEngine("", err)
 		}
-		dDraw = d
+		dDraw = *req.DiffusivityM2PerS
 	}
-	bDraw, bDrawEst, e := mem.bFor("membrane.b_lmh", draw.sol, mem.bDrawLMH)
-	if e != nil {
-		return nil, e
+	bDrawSI, bDrawEst, err := mem.BFor("membrane.b_lmh", draw.sol, mem.BGivenMPerS)
+	if err != nil {
+		return nil, fromEngine("", err)
 	}
-	resp.Membrane = MembraneReport{ALMHPerBar: mem.aLMHBar, BLMH: bDraw, SUM: mem.sUM}
-	if mem.rec != nil {
-		resp.Membrane.Preset = mem.rec.ID
+	bDraw := bDrawSI / thermo.MPerSPerLMH
+	resp.Membrane = MembraneReport{ALMHPerBar: mem.AMPerSPa / thermo.MPerSPaPerLMHPerBar, BLMH: bDraw, SUM: mem.SM * 1e6}
+	if mem.Record != nil {
+		resp.Membrane.Preset = mem.Record.ID
 	}
 	if bDrawEst {
 		resp.Membrane.BRule = library.BEstimateRule
-		resp.Warnings = append(resp.Warnings, fmt.Sprintf("B for %s is an estimate (%.3g LMH) scaled from the NaCl value by diffusivity", draw.sol.ID, bDraw))
+		warns = append(warns, warn.New(warn.BEstimated, draw.sol.ID, "B for %s is an estimate (%.3g LMH) scaled from the NaCl value by diffusivity", draw.sol.ID, bDraw))
 	}
 
 	// Mass transfer on each side.
 	extCP := req.ExternalCP == nil || *req.ExternalCP
-	kDraw, repD, e := massTransfer("k_draw_m_per_s", req.KDrawMPerS, req.Channel, extCP, draw, dDraw, false)
-	if e != nil {
-		return nil, e
+	var ch transport.Channel
+	if extCP && (req.KDrawMPerS == nil || req.KFeedMPerS == nil) {
+		if ch, err = scenario.ResolveChannel(req.Channel); err != nil {
+			return nil, fromEngine("", err)
+		}
 	}
 	dFeed := feed.x.DiffusivityM2PerS(feed.m)
 	if feed.sol == draw.sol && req.DiffusivityM2PerS != nil {
 		dFeed = dDraw
 	}
-	kFeed, repF, e := massTransfer("k_feed_m_per_s", req.KFeedMPerS, req.Channel, extCP, feed, dFeed, true)
-	if e != nil {
-		return nil, e
+	kD, err := scenario.ResolveK(&scenario.KDraw, req.KDrawMPerS, ch, extCP, false, draw.fluid(dDraw))
+	if err != nil {
+		return nil, fromEngine("", err)
 	}
-	resp.KDraw, resp.KFeed = repD, repF
-	for _, r := range []MassTransferReport{repD, repF} {
-		if strings.Contains(r.Regime, "borderline") {
-			resp.Warnings = append(resp.Warnings, fmt.Sprintf("channel flow at Re = %.0f is between laminar and turbulent; the laminar correlation is used", r.Reynolds))
+	kF, err := scenario.ResolveK(&scenario.KFeed, req.KFeedMPerS, ch, extCP, true, feed.fluid(dFeed))
+	if err != nil {
+		return nil, fromEngine("", err)
+	}
+	kDraw, kFeed := kD.KMPerS, kF.KMPerS
+	resp.KDraw, resp.KFeed = kReport(kD), kReport(kF)
+	for _, k := range []struct {
+		side string
+		k    scenario.SideK
+	}{{"k_draw", kD}, {"k_feed", kF}} {
+		for _, w := range k.k.MassTransfer.Warnings {
+			warns = append(warns, w.About(k.side))
 		}
 	}
 
 	piFor := func(sd *side) transport.OsmoticFunc {
-		if model == "van-t-hoff" {
+		if osm == scenario.VantHoff {
 			return vantHoffFunc(sd.x.Nu(), tK)
 		}
 		return sd.x.OsmoticFunc
 	}
 	in := transport.Input{
-		AMPerSPa: mem.aLMHBar * thermo.MPerSPaPerLMHPerBar, SM: mem.sUM * 1e-6, Orientation: orient,
+		AMPerSPa: mem.AMPerSPa, SM: mem.SM, Orientation: orient,
 		DeltaPPa: deltaP * thermo.PascalPerBar, KDrawMPerS: kDraw, KFeedMPerS: kFeed,
 	}
 	var species [2]transport.Species
@@ -419,18 +281,23 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 	var bFeedEst bool
 	sameSolute := feed.sol == draw.sol
 	if req.BFeedLMH != nil && (sameSolute || feed.cSI == 0) {
-		resp.Warnings = append(resp.Warnings, "b_feed_lmh is not used: the feed holds no solute other than the draw's")
+		warns = append(warns, warn.New(warn.Unused, "b_feed_lmh", "b_feed_lmh is not used: the feed holds no solute other than the draw's"))
 	}
 	if sameSolute {
 		species[0].FeedBulkMolPerM3 = feed.cSI
 	} else if feed.cSI > 0 {
-		bFeed, bFeedEst, e = mem.bFor("b_feed_lmh", feed.sol, req.BFeedLMH)
-		if e != nil {
-			return nil, e
+		var over *float64
+		if req.BFeedLMH != nil {
+			if err := scenario.FeedB.Check(*req.BFeedLMH); err != nil {
+				return nil, fromEngine("", err)
+			}
+			over = ptr(*req.BFeedLMH * thermo.MPerSPerLMH)
 		}
-		if req.BFeedLMH != nil && !(*req.BFeedLMH >= 0 && *req.BFeedLMH <= 100) {
-			return nil, Invalid("b_feed_lmh", "0–100 LMH", "b_feed_lmh = %g is outside 0–100", *req.BFeedLMH)
+		b, est, err := mem.BFor("b_feed_lmh", feed.sol, over)
+		if err != nil {
+			return nil, fromEngine("", err)
 		}
+		bFeed, bFeedEst = b/thermo.MPerSPerLMH, est
 		species[1] = transport.Species{Name: feed.sol.ID, FeedBulkMolPerM3: feed.cSI, BMPerS: bFeed * thermo.MPerSPerLMH,
 			DM2PerS: dFeed, Pi: piFor(feed)}
 		n = 2
@@ -483,16 +350,15 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 		resp.ForwardSoluteFluxGMH = &fwd
 	}
 	resp.Solver = SolverReport{Method: res.Stats.Method, Iterations: res.Stats.Iterations, Evaluations: res.Stats.Evaluations, Residual: res.Stats.Residual}
-	resp.Warnings = append(resp.Warnings, fluxWarnings(resp, draw, feed, res, orient)...)
+	warns = append(warns, fluxWarnings(resp, draw, feed, res)...)
+	resp.Warnings = warn.Strings(warns)
 	resp.Sources = append(resp.Sources, fluxSources...)
 	if model == "real" {
 		resp.Sources = append(resp.Sources, modelSources[draw.sol.Osmotic.Kind]...)
 	}
 	resp.Sources = append(resp.Sources, soluteSources(draw.sol)...)
-	if mem.rec != nil {
-		for k, v := range mem.rec.Sources {
-			resp.Sources = append(resp.Sources, Source{Field: "membrane." + mem.rec.ID + "." + k, Reference: v})
-		}
+	if r := mem.Record; r != nil {
+		resp.Sources = append(resp.Sources, sortedSources("membrane."+r.ID, r.Sources)...)
 	}
 	if !finite(resp.WaterFluxLMH, resp.ReverseSoluteFluxGMH, resp.SpecificReverseSoluteFluxGPerL, resp.FluxEfficiency,
 		resp.DrawFaceOsmoticPressureBar, resp.FeedFaceOsmoticPressureBar) {
@@ -513,18 +379,18 @@ func profile(id, role string, r transport.SpeciesResult, sp transport.Species, b
 }
 
 // fluxWarnings flags results a user should look at twice.
-func fluxWarnings(resp *FluxResponse, draw, feed *side, res transport.Result, o transport.Orientation) []string {
-	var w []string
+func fluxWarnings(resp *FluxResponse, draw, feed *side, res transport.Result) []warn.Warning {
+	var w []warn.Warning
 	if res.JwMPerS < 0 {
-		w = append(w, "water flows from draw to feed (reverse flow): the hydraulic pressure or the feed's osmotic pressure exceeds what the draw provides at the membrane")
+		w = append(w, warn.New(warn.ReverseFlow, "", "water flows from draw to feed (reverse flow): the hydraulic pressure or the feed's osmotic pressure exceeds what the draw provides at the membrane"))
 	}
 	// Interface concentrations past solubility: draw solute at the faces.
 	check := func(x *thermo.Solution, id string, cSI float64, where string) {
 		m, ok := x.MolalityFromMolarity(cSI)
 		if !ok || m > x.SolubilityMolPerKg() {
-			w = append(w, fmt.Sprintf("%s at the %s (%.3g mol/L) exceeds its solubility: precipitation or scaling is possible", id, where, cSI/1000))
+			w = append(w, warn.New(warn.Solubility, id, "%s at the %s (%.3g mol/L) exceeds its solubility: precipitation or scaling is possible", id, where, cSI/1000))
 		} else if m > x.ValidMolPerKg() {
-			w = append(w, fmt.Sprintf("%s at the %s (%.3g mol/kg) is above the osmotic model's data limit; π there is extrapolated", id, where, m))
+			w = append(w, warn.New(warn.Extrapolated, id, "%s at the %s (%.3g mol/kg) is above the osmotic model's data limit; π there is extrapolated", id, where, m))
 		}
 	}
 	sp := res.Species[0]
@@ -534,44 +400,25 @@ func fluxWarnings(resp *FluxResponse, draw, feed *side, res transport.Result, o 
 		check(feed.x, feed.sol.ID, res.Species[1].FeedFaceMolPerM3, "feed-side face of the active layer")
 	}
 	if resp.PowerDensityWPerM2 != nil && res.JwMPerS < 0 {
-		w = append(w, "ΔP exceeds the osmotic pressure difference across the membrane: no PRO power is produced")
+		w = append(w, warn.New(warn.ReverseFlow, "delta_p_bar", "ΔP exceeds the osmotic pressure difference across the membrane: no PRO power is produced"))
 	}
-	_ = o
 	return w
 }
 
-// massTransfer resolves k for one side: given, from the channel, or none.
-func massTransfer(field string, given *float64, ch *ChannelSpec, extCP bool, sd *side, d float64, feedSide bool) (float64, MassTransferReport, *Error) {
-	if !extCP {
-		return math.Inf(1), MassTransferReport{Origin: "none"}, nil
+// fluid is the side's bulk solution as the Sherwood correlations see it.
+func (sd *side) fluid(d float64) transport.Fluid {
+	return transport.Fluid{DensityKgPerM3: sd.state.DensityKgPerM3, ViscosityPaS: sd.state.ViscosityPaS, DiffusivityM2PerS: d}
+}
+
+// kReport describes how a side's k was found.
+func kReport(k scenario.SideK) MassTransferReport {
+	switch k.Origin {
+	case scenario.KNone:
+		return MassTransferReport{Origin: string(k.Origin)}
+	case scenario.KGiven:
+		return MassTransferReport{KMPerS: k.KMPerS, Origin: string(k.Origin)}
 	}
-	if given != nil {
-		k := *given
-		if !(k >= 1e-8 && k <= 1) {
-			return 0, MassTransferReport{}, Invalid(field, "1e-8–1 m/s", "%s = %g is outside 1e-8–1 m/s", field, k)
-		}
-		return k, MassTransferReport{KMPerS: k, Origin: "given"}, nil
-	}
-	c := DefaultChannel
-	if ch != nil {
-		c = *ch
-	}
-	u := c.CrossflowVelocityMPerS
-	if feedSide && c.FeedCrossflowVelocityMPS != nil {
-		u = *c.FeedCrossflowVelocityMPS
-	}
-	if e := c.validate(); e != nil {
-		return 0, MassTransferReport{}, e
-	}
-	mt, err := transport.MassTransferCoefficient(transport.Channel{
-		HeightM: c.HeightMM * 1e-3, WidthM: c.WidthMM * 1e-3, LengthM: c.LengthMM * 1e-3,
-		VelocityMPerS: u, Spacer: c.Spacer,
-	}, transport.Fluid{DensityKgPerM3: sd.state.DensityKgPerM3, ViscosityPaS: sd.state.ViscosityPaS, DiffusivityM2PerS: d})
-	if err != nil {
-		// The channel was validated above, so only the solution's own
-		// properties can be refused here: an engine fault, not user input.
-		return 0, MassTransferReport{}, &Error{Message: "internal error", Kind: KindInternal, detail: "mass transfer: " + err.Error()}
-	}
-	return mt.KMPerS, MassTransferReport{KMPerS: mt.KMPerS, Origin: "correlation", Correlation: mt.Correlation,
-		Regime: mt.Regime, Reynolds: mt.Re, Schmidt: mt.Sc, Sherwood: mt.Sh}, nil
+	mt := k.MassTransfer
+	return MassTransferReport{KMPerS: mt.KMPerS, Origin: string(k.Origin), Correlation: mt.Correlation,
+		Regime: mt.Regime, Reynolds: mt.Re, Schmidt: mt.Sc, Sherwood: mt.Sh}
 }

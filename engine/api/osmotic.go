@@ -1,16 +1,13 @@
 package api
 
 import (
+	"drawsift/engine/scenario"
+	"drawsift/engine/warn"
 	"math"
-
-	"drawsift/engine/errs"
 
 	"drawsift/engine/library"
 	"drawsift/engine/thermo"
 )
-
-// DefaultTemperatureC applies when a request omits temperature_c.
-const DefaultTemperatureC = 25
 
 // Concentration is how a concentration travels: a solute, a value and a unit.
 type Concentration struct {
@@ -71,49 +68,19 @@ var commonSources = []Source{
 	{Field: "water", Reference: "pure-water density, viscosity: engine/water (Kell 1975; IAPWS 2008 viscosity)"},
 }
 
-// parseTemperature returns the request temperature in kelvin, default 25 °C.
-func parseTemperature(field string, tC *float64) (float64, *Error) {
-	t := float64(DefaultTemperatureC)
-	if tC != nil {
-		t = *tC
-	}
-	if !(t >= thermo.MinTemperatureC && t <= thermo.MaxTemperatureC) {
-		return 0, Invalid(field, "0–100 °C", "temperature %g °C is outside 0–100 °C", t)
-	}
-	return t + thermo.ZeroCelsiusK, nil
-}
-
-// parseConcentration validates a value/unit pair.
-func parseConcentration(prefix string, v *float64, unit string) (float64, thermo.Unit, *Error) {
-	if v == nil {
-		return 0, 0, Invalid(errs.Join(prefix, "concentration"), nil, "a concentration is required")
-	}
-	if !(*v >= 0) || math.IsInf(*v, 0) {
-		return 0, 0, Invalid(errs.Join(prefix, "concentration"), "≥ 0", "concentration must be a finite, non-negative number (got %g)", *v)
-	}
-	if unit == "" {
-		return 0, 0, Invalid(errs.Join(prefix, "unit"), thermo.UnitNames(), "a unit is required")
-	}
-	u, err := thermo.ParseUnit(unit)
-	if err != nil {
-		return 0, 0, Invalid(errs.Join(prefix, "unit"), thermo.UnitNames(), "%v", err)
-	}
-	return *v, u, nil
-}
-
 // Osmotic computes the osmotic properties of one solution.
 func Osmotic(req *OsmoticRequest) (*OsmoticResponse, *Error) {
-	s, e := lookupSolute("solute", req.Solute)
-	if e != nil {
-		return nil, e
+	s, err := scenario.LookupSolute("solute", req.Solute)
+	if err != nil {
+		return nil, fromEngine("", err)
 	}
-	tK, e := parseTemperature("temperature_c", req.TemperatureC)
-	if e != nil {
-		return nil, e
+	tK, err := scenario.TemperatureK("temperature_c", req.TemperatureC)
+	if err != nil {
+		return nil, fromEngine("", err)
 	}
-	v, u, e := parseConcentration("", req.Concentration, req.Unit)
-	if e != nil {
-		return nil, e
+	v, u, err := scenario.ParseConcentration("", req.Concentration, req.Unit)
+	if err != nil {
+		return nil, fromEngine("", err)
 	}
 	x, err := thermo.NewSolution(s, tK)
 	if err != nil {
@@ -147,7 +114,7 @@ func osmoticResponse(s *library.Solute, x *thermo.Solution, st thermo.State, tK 
 		ViscosityMPaS:          st.ViscosityPaS * 1e3,
 		DiffusivityM2PerS:      st.DiffusivityM2PerS,
 		VantHoffFactor:         x.Nu(),
-		Warnings:               append([]string{}, st.Warnings...),
+		Warnings:               warn.Strings(st.Warnings),
 		EngineVersion:          EngineVersion,
 	}
 	if st.HasGamma {

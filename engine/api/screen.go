@@ -2,6 +2,8 @@ package api
 
 import (
 	"context"
+	"drawsift/engine/scenario"
+	"drawsift/engine/warn"
 	"errors"
 	"fmt"
 	"math"
@@ -33,7 +35,7 @@ type ScreenRequest struct {
 	TemperatureC *float64 `json:"temperature_c,omitempty"` // default 25 °C
 	KDrawMPerS   *float64 `json:"k_draw_m_per_s,omitempty"`
 	KFeedMPerS   *float64 `json:"k_feed_m_per_s,omitempty"`
-	// Channel sets k from a Sherwood correlation (default DefaultChannel).
+	// Channel sets k from a Sherwood correlation (default scenario.DefaultChannel).
 	Channel    *ChannelSpec `json:"channel,omitempty"`
 	ExternalCP *bool        `json:"external_cp,omitempty"` // default true
 	// Candidates: solute IDs or aliases; omitted → the whole library plus
@@ -290,17 +292,6 @@ var ScreenCautions = []string{
 	"Handle each chemical per its safety data sheet (oxidisers, ammonia release on heating, toxicity); defer to local codes and licensed practice.",
 }
 
-// DefaultMembranePreset is used when a scenario names no membrane.
-const DefaultMembranePreset = "tfc-standard"
-
-// DefaultBasisPressureBar is the equal-π basis for a solute-free feed:
-// 28 bar, the equal osmotic pressure of Achilli, Cath & Childress (2010)
-// J. Membr. Sci. 364:233 (2.8 MPa; from memory).
-const DefaultBasisPressureBar = 28
-
-// DefaultSamples is the robustness sample count when not given.
-const DefaultSamples = 1000
-
 var pressureUnits = map[string]float64{"bar": 1e5, "kpa": 1e3, "mpa": 1e6, "atm": 101325, "psi": 6894.757293168, "pa": 1}
 
 // pressureUnitNames spell the keys of pressureUnits as people write them.
@@ -358,47 +349,39 @@ type scenarioInfo struct {
 }
 
 func resolveScenario(req *ScreenRequest) (*screen.Scenario, *scenarioInfo, *Error) {
-	lib, err := library.Default()
-	if err != nil {
+	lib, lerr := library.Default()
+	if lerr != nil {
 		return nil, nil, &Error{Message: "internal error: solute library", Kind: KindInternal}
 	}
 	info := &scenarioInfo{custom: map[string]bool{}}
-	sc := &screen.Scenario{Seed: 1, RegenerationRecovery: 0.5, AllowExtrapolation: req.AllowExtrapolation}
+	var err error
+	sc := &screen.Scenario{Seed: uint64(scenario.Seed.Default), AllowExtrapolation: req.AllowExtrapolation}
 	if req.Seed != nil {
 		sc.Seed = *req.Seed
 	}
-	if req.RegenerationRecovery != nil {
-		sc.RegenerationRecovery = *req.RegenerationRecovery
-		if !(sc.RegenerationRecovery > 0 && sc.RegenerationRecovery <= 0.95) {
-			return nil, nil, Invalid("regeneration_recovery", "0 < r ≤ 0.95", "regeneration_recovery = %g is outside (0, 0.95]", sc.RegenerationRecovery)
-		}
+	if sc.RegenerationRecovery, err = scenario.RegenerationRecovery.Or(req.RegenerationRecovery); err != nil {
+		return nil, nil, fromEngine("", err)
 	}
-	tK, e := parseTemperature("temperature_c", req.TemperatureC)
-	if e != nil {
-		return nil, nil, e
+	tK, err := scenario.TemperatureK("temperature_c", req.TemperatureC)
+	if err != nil {
+		return nil, nil, fromEngine("", err)
 	}
 	sc.TemperatureK = tK
-	switch strings.ToLower(req.OsmoticModel) {
-	case "", "real":
-	case "van-t-hoff", "vant-hoff", "van't-hoff", "ideal":
-		sc.VantHoff = true
-	default:
-		return nil, nil, Invalid("osmotic_model", []string{"real", "van-t-hoff"}, "unknown osmotic model %q", req.OsmoticModel)
-	}
-	// Orientations.
-	first := "AL-FS"
-	if req.Orientation != "" {
-		first = req.Orientation
-	}
-	o, err := transport.ParseOrientation(first)
+	osm, err := scenario.ParseOsmoticModel(req.OsmoticModel)
 	if err != nil {
-		return nil, nil, Invalid("orientation", []string{"AL-FS", "AL-DS"}, "unknown orientation %q", first)
+		return nil, nil, fromEngine("", err)
+	}
+	sc.VantHoff = osm == scenario.VantHoff
+	// Orientations.
+	o, err := scenario.ParseOrientation("orientation", req.Orientation)
+	if err != nil {
+		return nil, nil, fromEngine("", err)
 	}
 	sc.Orientations = []transport.Orientation{o}
 	for i, s := range req.Orientations {
-		o2, err := transport.ParseOrientation(s)
-		if err != nil {
-			return nil, nil, Invalid(fmt.Sprintf("orientations[%d]", i), []string{"AL-FS", "AL-DS"}, "unknown orientation %q", s)
+		o2, err := scenario.ParseOrientation(fmt.Sprintf("orientations[%d]", i), s)
+		if err != nil || s == "" {
+			return nil, nil, Invalid(fmt.Sprintf("orientations[%d]", i), scenario.OrientationNames, "unknown orientation %q", s)
 		}
 		dup := false
 		for _, have := range sc.Orientations {
@@ -411,73 +394,47 @@ func resolveScenario(req *ScreenRequest) (*screen.Scenario, *scenarioInfo, *Erro
 	// Membrane.
 	ms := req.Membrane
 	if ms == nil {
-		ms = &MembraneSpec{Preset: DefaultMembranePreset}
+		ms = &MembraneSpec{Preset: scenario.DefaultMembranePreset}
 	}
-	mem, e := resolveMembrane(ms)
-	if e != nil {
-		return nil, nil, e
+	mem, err := scenario.ResolveMembrane(ms)
+	if err != nil {
+		return nil, nil, fromEngine("", err)
 	}
-	info.membraneRec = mem.rec
-	m := screen.Membrane{ID: "custom", AMPerSPa: mem.aLMHBar * thermo.MPerSPaPerLMHPerBar, SM: mem.sUM * 1e-6,
-		BNaClMPerS: mem.bNaClLMH * thermo.MPerSPerLMH, ARelSD: 0.10, BRelSD: 0.30, SRelSD: 0.15}
+	info.membraneRec = mem.Record
+	m := screen.Membrane{ID: mem.Preset(), AMPerSPa: mem.AMPerSPa, SM: mem.SM, B: mem.B,
+		ARelSD: mem.ARelSD, BRelSD: mem.BRelSD, SRelSD: mem.SRelSD}
 	info.bRule = library.BEstimateRule
-	if mem.bDrawLMH != nil {
+	// In a screen, b_lmh alone is the membrane's NaCl B (the base of the
+	// estimates); with b_nacl_lmh beside it, B for every candidate.
+	if b := mem.BGivenMPerS; b != nil {
 		if ms.BNaClLMH == nil {
-			m.BNaClMPerS = *mem.bDrawLMH * thermo.MPerSPerLMH
+			m.B = library.SoluteB{NaCl: *b}
 			info.bRule = "membrane.b_lmh taken as the NaCl B; " + library.BEstimateRule
 		} else {
-			m.BDrawMPerS, m.BDrawSet = *mem.bDrawLMH*thermo.MPerSPerLMH, true
+			m.BDrawMPerS, m.BDrawSet = *b, true
 			info.bRule = "membrane.b_lmh used for every candidate"
 		}
-	} else if !mem.bNaClSet {
+	} else if !mem.BKnown {
 		return nil, nil, Invalid("membrane.b_lmh", "≥ 0", "a custom membrane needs b_lmh (its NaCl B)")
-	}
-	if r := mem.rec; r != nil {
-		m.ID, m.ARelSD, m.BRelSD, m.SRelSD = r.ID, r.ARelSD, r.BRelSD, r.SRelSD
-		if ms.BNaClLMH == nil && mem.bDrawLMH == nil {
-			m.BBySolute = map[string]float64{}
-			for k, v := range r.BBySolute {
-				m.BBySolute[k] = v * thermo.MPerSPerLMH
-			}
-		}
 	}
 	sc.Membrane = m
 	// Feed.
-	feed, rec, e := resolveFeed(req.Feed, lib, tK)
+	feed, rec, e := resolveFeed(req.Feed, tK)
 	if e != nil {
 		return nil, nil, e
 	}
 	sc.Feed, info.feedRec = feed, rec
 	// Mass transfer.
 	extCP := req.ExternalCP == nil || *req.ExternalCP
-	ch := DefaultChannel
-	if req.Channel != nil {
-		ch = *req.Channel
-		if e := ch.validate(); e != nil {
-			return nil, nil, e
-		}
-	}
-	sc.Channel = screen.Channel{HeightM: ch.HeightMM * 1e-3, WidthM: ch.WidthMM * 1e-3, LengthM: ch.LengthMM * 1e-3,
-		VelocityMPerS: ch.CrossflowVelocityMPerS, Spacer: ch.Spacer}
-	if ch.FeedCrossflowVelocityMPS != nil {
-		sc.Channel.FeedVelocityMPerS = *ch.FeedCrossflowVelocityMPS
+	if sc.Channel, err = scenario.ResolveChannel(req.Channel); err != nil {
+		return nil, nil, fromEngine("", err)
 	}
 	info.kRule = "k from the channel's Sherwood correlation (engine/transport), with each solution's density, viscosity and diffusivity"
-	kGiven := func(field string, v *float64, dst *float64) *Error {
-		if v == nil {
-			return nil
-		}
-		if !(*v >= 1e-8 && *v <= 1) {
-			return Invalid(field, "1e-8–1 m/s", "%s = %g is outside 1e-8–1 m/s", field, *v)
-		}
-		*dst = *v
-		return nil
+	if sc.KDrawMPerS, err = scenario.GivenK(&scenario.KDraw, req.KDrawMPerS); err != nil {
+		return nil, nil, fromEngine("", err)
 	}
-	if e := kGiven("k_draw_m_per_s", req.KDrawMPerS, &sc.KDrawMPerS); e != nil {
-		return nil, nil, e
-	}
-	if e := kGiven("k_feed_m_per_s", req.KFeedMPerS, &sc.KFeedMPerS); e != nil {
-		return nil, nil, e
+	if sc.KFeedMPerS, err = scenario.GivenK(&scenario.KFeed, req.KFeedMPerS); err != nil {
+		return nil, nil, fromEngine("", err)
 	}
 	if !extCP {
 		sc.KDrawMPerS, sc.KFeedMPerS = math.Inf(1), math.Inf(1)
@@ -576,26 +533,26 @@ func resolveScenario(req *ScreenRequest) (*screen.Scenario, *scenarioInfo, *Erro
 	sc.ExcludeHazards = req.ExcludeHazards
 	// Uncertainty.
 	if u := req.Uncertainty; u != nil {
-		su := &screen.Uncertainty{Samples: DefaultSamples, ARelSD: m.ARelSD, BRelSD: m.BRelSD, SRelSD: m.SRelSD,
-			DefaultOsmotic: true, DiffusivityRelSD: screen.DefaultDiffusivityRelSD, EstimatedBRelSD: screen.DefaultEstimatedBRelSD, Prices: true}
+		su := &screen.Uncertainty{Samples: int(scenario.Samples.Default), ARelSD: m.ARelSD, BRelSD: m.BRelSD, SRelSD: m.SRelSD,
+			DefaultOsmotic: true, DiffusivityRelSD: scenario.DiffusivityRelSD.Default, EstimatedBRelSD: scenario.EstimatedBRelSD.Default, Prices: true}
 		if u.Samples != nil {
-			su.Samples = *u.Samples
-			if su.Samples < 1 || su.Samples > 100000 {
-				return nil, nil, Invalid("uncertainty.samples", "1–100000", "samples = %d is outside 1–100000", su.Samples)
+			if err := scenario.Samples.Check(float64(*u.Samples)); err != nil {
+				return nil, nil, fromEngine("", err)
 			}
+			su.Samples = *u.Samples
 		}
 		for _, f := range []struct {
-			name string
-			v    *float64
-			dst  *float64
-		}{{"a_rel_sd", u.ARelSD, &su.ARelSD}, {"b_rel_sd", u.BRelSD, &su.BRelSD}, {"s_rel_sd", u.SRelSD, &su.SRelSD},
-			{"osmotic_rel_sd", u.OsmoticRelSD, &su.OsmoticRelSD}, {"diffusivity_rel_sd", u.DiffusivityRelSD, &su.DiffusivityRelSD},
-			{"estimated_b_rel_sd", u.EstimatedBRelSD, &su.EstimatedBRelSD}} {
+			r   *scenario.Range
+			v   *float64
+			dst *float64
+		}{{&scenario.ARelSD, u.ARelSD, &su.ARelSD}, {&scenario.BRelSD, u.BRelSD, &su.BRelSD}, {&scenario.SRelSD, u.SRelSD, &su.SRelSD},
+			{&scenario.OsmoticRelSD, u.OsmoticRelSD, &su.OsmoticRelSD}, {&scenario.DiffusivityRelSD, u.DiffusivityRelSD, &su.DiffusivityRelSD},
+			{&scenario.EstimatedBRelSD, u.EstimatedBRelSD, &su.EstimatedBRelSD}} {
 			if f.v == nil {
 				continue
 			}
-			if !(*f.v >= 0 && *f.v <= 2) {
-				return nil, nil, Invalid("uncertainty."+f.name, "0–2", "%s = %g is outside 0–2", f.name, *f.v)
+			if err := f.r.Check(*f.v); err != nil {
+				return nil, nil, fromEngine("", err)
 			}
 			*f.dst = *f.v
 		}
@@ -611,12 +568,12 @@ func resolveScenario(req *ScreenRequest) (*screen.Scenario, *scenarioInfo, *Erro
 }
 
 // resolveFeed reads the feed: a preset, or a solute with optional ions.
-func resolveFeed(fs *FeedSpec, lib *library.Library, tK float64) (screen.Feed, *library.Feed, *Error) {
+func resolveFeed(fs *FeedSpec, tK float64) (screen.Feed, *library.Feed, *Error) {
 	if fs == nil {
-		fs = &FeedSpec{Preset: "deionised-water"}
+		fs = &FeedSpec{Preset: scenario.DefaultFeedPreset}
 	}
 	var rec *library.Feed
-	f := screen.Feed{ID: "custom", PH: 7}
+	f := screen.Feed{ID: "custom", PH: scenario.FeedPH.Default}
 	if fs.Preset != "" {
 		r, ok := library.LookupFeed(fs.Preset)
 		if !ok {
@@ -632,14 +589,14 @@ func resolveFeed(fs *FeedSpec, lib *library.Library, tK float64) (screen.Feed, *
 		}
 		rec = r
 		f.ID, f.PH = r.ID, r.PH
-		f.IonsPerKg = r.IonUnit == "mg/kg"
+		f.IonsPerKg = r.IonsPerKg()
 		switch r.Osmotic.Method {
 		case library.FeedOsmoticNone:
 			f.OsmoticMethod = "pure water"
 		case library.FeedOsmoticSolute:
-			s, e := lookupSolute("feed.preset", r.Osmotic.Solute)
-			if e != nil {
-				return f, nil, e
+			s, err := scenario.LookupSolute("feed.preset", r.Osmotic.Solute)
+			if err != nil {
+				return f, nil, fromEngine("", err)
 			}
 			u, err := thermo.ParseUnit(r.Osmotic.Unit)
 			if err != nil {
@@ -647,17 +604,17 @@ func resolveFeed(fs *FeedSpec, lib *library.Library, tK float64) (screen.Feed, *
 			}
 			f.Solute, f.Concentration, f.Unit = s, r.Osmotic.Concentration, u
 			if fs.Concentration != nil {
-				v, _, e := parseConcentration("feed", fs.Concentration, r.Osmotic.Unit)
-				if e != nil {
-					return f, nil, e
+				v, _, err := scenario.ParseConcentration("feed", fs.Concentration, r.Osmotic.Unit)
+				if err != nil {
+					return f, nil, fromEngine("", err)
 				}
 				f.Concentration = v
 			}
 			f.OsmoticMethod = fmt.Sprintf("library solute %s at %g %s", s.ID, f.Concentration, u)
 		case library.FeedOsmoticEquivalentNaCl:
-			s, e := lookupSolute("feed.preset", "NaCl")
-			if e != nil {
-				return f, nil, e
+			s, err := scenario.LookupSolute("feed.preset", "NaCl")
+			if err != nil {
+				return f, nil, fromEngine("", err)
 			}
 			f.Solute, f.Concentration, f.Unit = s, r.EquivalentNaClMolPerL(), thermo.MolPerL
 			f.Surrogate = true
@@ -666,32 +623,31 @@ func resolveFeed(fs *FeedSpec, lib *library.Library, tK float64) (screen.Feed, *
 				return f, nil, Invalid("feed.concentration", nil, "preset %q sets its osmotic pressure from its ions; use a custom feed to change it", r.ID)
 			}
 		}
-		scale := 1.0
-		if r.ReferenceSalinityGPerKg > 0 && f.Unit == thermo.GPerKg {
-			scale = f.Concentration / r.ReferenceSalinityGPerKg
+		salinity := -1.0 // the record's own composition
+		if f.Unit == thermo.GPerKg {
+			salinity = f.Concentration
 		}
-		for _, ion := range r.Ions {
-			f.Ions = append(f.Ions, screen.FeedIon{Symbol: ion.Symbol, Charge: ion.Charge, Conc: ion.Concentration / ion.MolarMassGPerMol / 1000 * scale})
-		}
+		f.Ions = r.IonsAt(salinity)
 	} else {
 		if fs.Solute == "" {
 			return f, nil, Invalid("feed", nil, "a feed needs a preset or a solute (e.g. {\"solute\": \"seawater\", \"concentration\": 35, \"unit\": \"g/kg\"})")
 		}
-		s, e := lookupSolute("feed.solute", fs.Solute)
-		if e != nil {
-			return f, nil, e
+		s, err := scenario.LookupSolute("feed.solute", fs.Solute)
+		if err != nil {
+			return f, nil, fromEngine("", err)
 		}
-		v, u, e := parseConcentration("feed", fs.Concentration, fs.Unit)
-		if e != nil {
-			return f, nil, e
+		v, u, err := scenario.ParseConcentration("feed", fs.Concentration, fs.Unit)
+		if err != nil {
+			return f, nil, fromEngine("", err)
 		}
 		f.Solute, f.Concentration, f.Unit = s, v, u
 		f.OsmoticMethod = fmt.Sprintf("library solute %s at %g %s", s.ID, v, u)
 		for i, ion := range fs.Ions {
-			if ion.Symbol == "" || ion.Charge == 0 || !(ion.MolarMassGPerMol > 0) || !(ion.MgPerL >= 0) || math.IsInf(ion.MgPerL, 0) {
-				return f, nil, Invalid(fmt.Sprintf("feed.ions[%d]", i), nil, "an ion needs a symbol, a non-zero charge, a positive molar_mass_g_per_mol and mg_per_l ≥ 0")
+			if ion.Symbol == "" || ion.Charge == 0 || !scenario.FeedIonMolarMass.Contains(ion.MolarMassGPerMol) || !scenario.FeedIonMgPerL.Contains(ion.MgPerL) {
+				return f, nil, Invalid(fmt.Sprintf("feed.ions[%d]", i), nil, "an ion needs a symbol, a non-zero charge, molar_mass_g_per_mol %s and mg_per_l %s",
+					scenario.FeedIonMolarMass.Text(), scenario.FeedIonMgPerL.Text())
 			}
-			f.Ions = append(f.Ions, screen.FeedIon{Symbol: ion.Symbol, Charge: ion.Charge, Conc: ion.MgPerL / ion.MolarMassGPerMol / 1000})
+			f.Ions = append(f.Ions, library.IonAmount{Symbol: ion.Symbol, Charge: ion.Charge, Mol: ion.MgPerL / ion.MolarMassGPerMol / 1000})
 		}
 		if fs.Ions == nil && v > 0 {
 			// The solute's own ions at its molarity; seawater: the
@@ -706,23 +662,20 @@ func resolveFeed(fs *FeedSpec, lib *library.Library, tK float64) (screen.Feed, *
 			}
 			if s.Osmotic.Kind == library.ModelSeawater {
 				if r, ok := library.LookupFeed("seawater"); ok && r.ReferenceSalinityGPerKg > 0 {
-					scale := x.FromMolality(mm, thermo.GPerKg) / r.ReferenceSalinityGPerKg
 					f.IonsPerKg = true
-					for _, ion := range r.Ions {
-						f.Ions = append(f.Ions, screen.FeedIon{Symbol: ion.Symbol, Charge: ion.Charge, Conc: ion.Concentration / ion.MolarMassGPerMol / 1000 * scale})
-					}
+					f.Ions = r.IonsAt(x.FromMolality(mm, thermo.GPerKg))
 				}
 			} else {
 				c := x.MolarityMolPerM3(mm) / 1000
 				for _, ion := range s.Ions {
-					f.Ions = append(f.Ions, screen.FeedIon{Symbol: ion.Symbol, Charge: ion.Charge, Conc: c * float64(ion.Count)})
+					f.Ions = append(f.Ions, library.IonAmount{Symbol: ion.Symbol, Charge: ion.Charge, Mol: c * float64(ion.Count)})
 				}
 			}
 		}
 	}
 	if fs.PH != nil {
-		if !(*fs.PH >= 0 && *fs.PH <= 14) {
-			return f, nil, Invalid("feed.ph", "0–14", "pH %g is outside 0–14", *fs.PH)
+		if err := scenario.FeedPH.Check(*fs.PH); err != nil {
+			return f, nil, fromEngine("", err)
 		}
 		f.PH = *fs.PH
 	}
@@ -732,9 +685,9 @@ func resolveFeed(fs *FeedSpec, lib *library.Library, tK float64) (screen.Feed, *
 func resolveBasis(b *BasisSpec, feedHasPi bool) (screen.Basis, *Error) {
 	if b == nil {
 		if feedHasPi {
-			return screen.Basis{Kind: screen.BasisOsmoticPressure, MultipleOfFeed: 2}, nil
+			return screen.Basis{Kind: screen.BasisOsmoticPressure, MultipleOfFeed: scenario.BasisMultiple.Default}, nil
 		}
-		return screen.Basis{Kind: screen.BasisOsmoticPressure, PiPa: DefaultBasisPressureBar * thermo.PascalPerBar}, nil
+		return screen.Basis{Kind: screen.BasisOsmoticPressure, PiPa: scenario.BasisPressure.Default * thermo.PascalPerBar}, nil
 	}
 	kinds := []string{"osmotic-pressure", "concentration", "water-flux"}
 	val := func() (float64, *Error) {
@@ -983,7 +936,7 @@ func buildScreenResponse(req *ScreenRequest, sc *screen.Scenario, info *scenario
 		Orientation:            sc.Orientations[0].String(),
 		FeedOsmoticPressureBar: res.FeedPiPa / thermo.PascalPerBar,
 		Weights:                map[string]float64{},
-		Warnings:               append([]string{}, res.Warnings...),
+		Warnings:               warn.Strings(res.Warnings),
 		Cautions:               ScreenCautions,
 		Scenario:               req,
 		EngineVersion:          EngineVersion,
@@ -1022,7 +975,7 @@ func buildScreenResponse(req *ScreenRequest, sc *screen.Scenario, info *scenario
 			BLMH:                          r.BMPerS / thermo.MPerSPerLMH,
 			BEstimated:                    r.BEstimated,
 			HazardFlags:                   append([]string{}, r.Solute.HazardFlags...),
-			Warnings:                      append([]string{}, r.Warnings...),
+			Warnings:                      warn.Strings(r.Warnings),
 		}
 		if !math.IsInf(m.SolubilityMolPerKg, 1) {
 			c.SolubilityMolPerKg = ptr(m.SolubilityMolPerKg)

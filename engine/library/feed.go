@@ -46,6 +46,37 @@ type FeedIon struct {
 	Concentration    float64 `json:"concentration"` // in the feed's IonUnit
 }
 
+// IonAmount is one ion of a feed in mol per litre or per kg of feed.
+type IonAmount struct {
+	Symbol string
+	Charge int
+	Mol    float64
+}
+
+// IonsAt returns the feed's ions in mol per unit of feed (per kg for
+// IonUnit "mg/kg", else per litre), scaled to salinityGPerKg when the
+// record gives its ions at a reference salinity:
+//
+//	c_i = (w_i / M_i) · S / S_ref
+//
+// (the constant-proportion composition of seawater, Millero et al. 2008
+// Deep-Sea Res. I 55:50). A negative salinityGPerKg, or a record without
+// a reference salinity, gives the ions as listed; zero gives none.
+func (f *Feed) IonsAt(salinityGPerKg float64) []IonAmount {
+	scale := 1.0
+	if f.ReferenceSalinityGPerKg > 0 && salinityGPerKg >= 0 {
+		scale = salinityGPerKg / f.ReferenceSalinityGPerKg
+	}
+	out := make([]IonAmount, len(f.Ions))
+	for i, ion := range f.Ions {
+		out[i] = IonAmount{Symbol: ion.Symbol, Charge: ion.Charge, Mol: ion.Concentration / ion.MolarMassGPerMol / 1000 * scale}
+	}
+	return out
+}
+
+// IonsPerKg reports whether IonsAt is per kg of feed (else per litre).
+func (f *Feed) IonsPerKg() bool { return f.IonUnit == "mg/kg" }
+
 // EquivalentNaClRule names the approximation behind FeedOsmoticEquivalentNaCl.
 const EquivalentNaClRule = "feed osmotic pressure as NaCl of equal total ion molarity (c_NaCl = Σc_i/2), " +
 	"evaluated with NaCl's own osmotic coefficient: equal van 't Hoff osmolarity, common practice for dilute mixed waters"

@@ -60,17 +60,41 @@ const BEstimateRule = "B scaled from the membrane's NaCl value by the ratio of b
 	"An estimate, and often a pessimistic one: membranes usually reject multivalent ions and larger neutral molecules " +
 	"(sugars) much better than diffusivity alone predicts, so enter measured B values where you have them."
 
-// EstimateB returns B (LMH) of the membrane for solute s, and whether it
-// is an estimate (no measured value in the record). d0NaCl is NaCl's
-// infinite-dilution diffusivity.
-func (m *Membrane) EstimateB(s *Solute, d0NaCl float64) (bLMH float64, estimated bool) {
-	if b, ok := m.BBySolute[s.ID]; ok {
-		return b, false
+// SoluteB is a membrane's permeability to each solute: the values
+// measured for some solutes, and the NaCl value that BEstimateRule scales
+// for the rest. Both are in one unit (LMH in a record, m/s in the engine);
+// For answers in that unit.
+type SoluteB struct {
+	NaCl     float64
+	Measured map[string]float64 // by solute ID
+}
+
+// SoluteB returns the record's B values, in LMH.
+func (m *Membrane) SoluteB() SoluteB { return SoluteB{NaCl: m.BNaClLMH, Measured: m.BBySolute} }
+
+// For returns B for solute s and whether it is an estimate:
+//
+//	B_j = B_measured,j                  when the membrane has one
+//	B_j = B_NaCl                        for NaCl
+//	B_j = B_NaCl · D_j / D_NaCl         otherwise (BEstimateRule)
+//
+// with D the infinite-dilution diffusivities of the library records.
+func (b *SoluteB) For(s *Solute) (v float64, estimated bool) {
+	if v, ok := b.Measured[s.ID]; ok {
+		return v, false
 	}
 	if Key(s.ID) == "nacl" {
-		return m.BNaClLMH, false
+		return b.NaCl, false
 	}
-	return m.BNaClLMH * s.Diffusivity.D0M2PerS / d0NaCl, true
+	lib, err := Default()
+	if err != nil {
+		return b.NaCl, true
+	}
+	nacl, ok := lib.Lookup("NaCl")
+	if !ok || !(nacl.Diffusivity.D0M2PerS > 0) {
+		return b.NaCl, true
+	}
+	return b.NaCl * s.Diffusivity.D0M2PerS / nacl.Diffusivity.D0M2PerS, true
 }
 
 var membranePresets = presetFile[Membrane]{name: "membranes",

@@ -1,6 +1,7 @@
 package screen
 
 import (
+	"drawsift/engine/warn"
 	"fmt"
 	"math"
 
@@ -36,6 +37,8 @@ type Metrics struct {
 	RegenJPerM3          float64
 	Scaling              Scaling
 	FeedFaceDrawMolPerM3 float64 // draw solute at the feed-side face of the active layer
+	// Warnings raised while computing these metrics (nominal run only).
+	Warnings []warn.Warning
 }
 
 // CostMidUSDPerM3 is the replenishment cost at the middle of the price range.
@@ -140,7 +143,7 @@ type candidate struct {
 	piFn       transport.OsmoticFunc
 	basisM     float64 // concentration basis: molality
 	ions       []ionCount
-	warnings   []string
+	warnings   []warn.Warning
 	excl       *exclusion // set at preparation (hazard, bad temperature)
 	osmRelSD   float64
 }
@@ -166,12 +169,13 @@ type env struct {
 	feedFn   transport.OsmoticFunc
 	feedIons []ionConc // bulk, mol/L
 	kFeed    float64   // nominal, +Inf for none
-	kFeedErr error
-	targetPi float64 // Pa, osmotic-pressure basis
-	davies   float64 // Davies A at T (log10 units)
+	targetPi float64   // Pa, osmotic-pressure basis
+	davies   float64   // Davies A at T (log10 units)
 	cands    []candidate
-	warnings []string
-	nacl     *library.Solute
+	warnings []warn.Warning
+	// mtDraw, mtFeed: the last solve's Sherwood results, when k came from
+	// the channel (for the nominal run's warnings).
+	mtDraw, mtFeed *transport.MassTransfer
 }
 
 type ionConc struct {
@@ -187,9 +191,6 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 		return nil, err
 	}
 	e := &env{sc: sc, tK: sc.TemperatureK, davies: daviesA(sc.TemperatureK)}
-	if lib != nil {
-		e.nacl, _ = lib.Lookup("NaCl")
-	}
 	// Feed.
 	f := sc.Feed
 	if f.Solute != nil && f.Concentration > 0 {
@@ -211,16 +212,16 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 		e.feedFn = e.feedPi.fn
 		e.feedPiPa, _ = e.feedFn(e.feedC)
 		for _, w := range x.Warnings {
-			e.warnings = append(e.warnings, "feed: "+w)
+			e.warnings = append(e.warnings, w.About("feed"))
 		}
-		b, est := feedB(&sc.Membrane, f.Solute, e.nacl)
+		b, est := feedB(&sc.Membrane, f.Solute)
 		e.feedB = b
 		if est {
-			e.warnings = append(e.warnings, fmt.Sprintf("feed: B for %s estimated from the NaCl value by diffusivity (%s)", f.Solute.ID, "B_j = B_NaCl·D_j/D_NaCl"))
+			e.warnings = append(e.warnings, warn.New(warn.BEstimated, "feed", "B for %s estimated from the NaCl value by diffusivity (%s)", f.Solute.ID, "B_j = B_NaCl·D_j/D_NaCl"))
 		}
 		rho := x.DensityKgPerM3(m)
 		for _, ion := range f.Ions {
-			c := ion.Conc
+			c := ion.Mol
 			if f.IonsPerKg {
 				c *= rho / 1000 // per kg of solution → per litre
 			}
@@ -228,7 +229,7 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 		}
 	} else {
 		for _, ion := range f.Ions {
-			e.feedIons = append(e.feedIons, ionConc{ion.Symbol, ion.Charge, ion.Conc})
+			e.feedIons = append(e.feedIons, ionConc{ion.Symbol, ion.Charge, ion.Mol})
 		}
 	}
 	// Basis target.
@@ -248,7 +249,7 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 		// The regeneration energy assumes the draw was diluted by the
 		// recovered water; FO cannot dilute it below the feed's π.
 		if r := sc.RegenerationRecovery; e.feedPiPa > 0 && e.targetPi*(1-r) < e.feedPiPa {
-			e.warnings = append(e.warnings, fmt.Sprintf(
+			e.warnings = append(e.warnings, warn.New(warn.Regeneration, "regeneration",
 				"regeneration: at %.0f %% recovery the diluted draw (about %.3g bar) would sit below the feed's %.3g bar, which forward osmosis cannot reach; the minimum energy shown is then a lower bound (lower the recovery to at most %.0f %%)",
 				100*r, (1-r)*e.targetPi/thermo.PascalPerBar, e.feedPiPa/thermo.PascalPerBar, 100*(1-e.feedPiPa/e.targetPi)))
 		}
@@ -257,9 +258,13 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 	// solute-free feed: computed per candidate then).
 	e.kFeed = sc.KFeedMPerS
 	if e.kFeed == 0 && e.feedX != nil {
-		e.kFeed, e.kFeedErr = channelK(sc.Channel, true, e.feedX.DensityKgPerM3(e.feedM), e.feedX.ViscosityPaS(e.feedM), e.feedD)
-		if e.kFeedErr != nil {
-			return nil, e.kFeedErr
+		mt, err := channelK(sc.Channel, true, e.feedX.DensityKgPerM3(e.feedM), e.feedX.ViscosityPaS(e.feedM), e.feedD)
+		if err != nil {
+			return nil, err
+		}
+		e.kFeed = mt.KMPerS
+		for _, w := range mt.Warnings {
+			e.warnings = append(e.warnings, w.About("k_feed"))
 		}
 	}
 	// Candidates.
@@ -280,15 +285,15 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 		if s.Osmotic.Kind == library.ModelNone {
 			c.osmRelSD = DefaultVantHoffRelSD
 		}
-		c.bMPerS, c.bEstimated = drawB(&sc.Membrane, s, e.nacl)
+		c.bMPerS, c.bEstimated = drawB(&sc.Membrane, s)
 		if c.bEstimated {
-			c.warnings = append(c.warnings, fmt.Sprintf("%s: B estimated from the membrane's NaCl value by diffusivity (%.3g LMH): %s",
+			c.warnings = append(c.warnings, warn.New(warn.BEstimated, s.ID, "%s: B estimated from the membrane's NaCl value by diffusivity (%.3g LMH): %s",
 				s.ID, c.bMPerS/thermo.MPerSPerLMH, "likely pessimistic for multivalent ions and sugars; enter a measured B where known"))
 		}
 		if p := s.Price; p != nil {
 			c.hasPrice, c.priceMin, c.priceMax = true, p.USDPerKgMin, p.USDPerKgMax
 		} else {
-			c.warnings = append(c.warnings, s.ID+": no price on record; scored as the worst on replenishment cost")
+			c.warnings = append(c.warnings, warn.New(warn.NoPrice, s.ID, "%s: no price on record; scored as the worst on replenishment cost", s.ID))
 		}
 		for _, ion := range s.Ions {
 			c.ions = append(c.ions, ionCount{ion.Symbol, ion.Charge, float64(ion.Count)})
@@ -320,25 +325,18 @@ func hazardHit(s *library.Solute, excl []string) string {
 	return ""
 }
 
-// drawB returns B (m/s) of the membrane for a draw solute.
-func drawB(m *Membrane, s *library.Solute, nacl *library.Solute) (float64, bool) {
+// drawB returns B (m/s) of the membrane for a draw solute: the
+// scenario's B for every candidate when set, else feedB.
+func drawB(m *Membrane, s *library.Solute) (float64, bool) {
 	if m.BDrawSet {
 		return m.BDrawMPerS, false
 	}
-	return feedB(m, s, nacl)
+	return feedB(m, s)
 }
 
 // feedB returns B (m/s) for solute s: measured, NaCl's own, or scaled
-// from NaCl by diffusivity (library.BEstimateRule).
-func feedB(m *Membrane, s *library.Solute, nacl *library.Solute) (float64, bool) {
-	if b, ok := m.BBySolute[s.ID]; ok {
-		return b, false
-	}
-	if library.Key(s.ID) == "nacl" || nacl == nil {
-		return m.BNaClMPerS, nacl == nil && library.Key(s.ID) != "nacl"
-	}
-	return m.BNaClMPerS * s.Diffusivity.D0M2PerS / nacl.Diffusivity.D0M2PerS, true
-}
+// from NaCl by diffusivity (library.SoluteB.For).
+func feedB(m *Membrane, s *library.Solute) (float64, bool) { return m.B.For(s) }
 
 // basisMolality returns the draw molality that meets the basis, or an
 // exclusion.
@@ -446,20 +444,21 @@ func (e *env) solve(c *candidate, ori transport.Orientation, m float64, p *pertu
 	cD := x.MolarityMolPerM3(m)
 	d := x.DiffusivityM2PerS(m) * p.fD
 	kD := sc.KDrawMPerS
+	e.mtDraw, e.mtFeed = nil, nil
 	if kD == 0 {
-		var err error
-		kD, err = channelK(sc.Channel, false, x.DensityKgPerM3(m), x.ViscosityPaS(m), d)
+		mt, err := channelK(sc.Channel, false, x.DensityKgPerM3(m), x.ViscosityPaS(m), d)
 		if err != nil {
 			return err
 		}
+		kD, e.mtDraw = mt.KMPerS, &mt
 	}
 	kF := e.kFeed
 	if kF == 0 { // solute-free feed: the reverse-fluxed draw solute sets k
-		var err error
-		kF, err = channelK(sc.Channel, true, x.DensityKgPerM3(0), x.ViscosityPaS(0), x.DiffusivityM2PerS(0)*p.fD)
+		mt, err := channelK(sc.Channel, true, x.DensityKgPerM3(0), x.ViscosityPaS(0), x.DiffusivityM2PerS(0)*p.fD)
 		if err != nil {
 			return err
 		}
+		kF, e.mtFeed = mt.KMPerS, &mt
 	}
 	c.pi.f = p.fPi
 	in := transport.Input{
@@ -512,6 +511,21 @@ func (e *env) metricsAt(c *candidate, ori transport.Orientation, m float64, p *p
 	}
 	r := scratch
 	*out = Metrics{Orientation: ori, MolalityMolPerKg: m, SolubilityMolPerKg: sol, FeedPiPa: e.feedPiPa}
+	if p == &nominal {
+		// The channel's regime and the correlation's caveats reach every
+		// host with the candidate (only on the nominal run: the Monte
+		// Carlo samples would repeat them).
+		for _, k := range [...]struct {
+			side string
+			mt   *transport.MassTransfer
+		}{{"k_draw", e.mtDraw}, {"k_feed", e.mtFeed}} {
+			if k.mt != nil {
+				for _, w := range k.mt.Warnings {
+					out.Warnings = append(out.Warnings, w.About(c.sol.ID+" "+k.side))
+				}
+			}
+		}
+	}
 	out.MolarityMolPerM3 = x.MolarityMolPerM3(m)
 	out.MassConcKgPerM3 = out.MolarityMolPerM3 * x.MolarMassKgPerMol()
 	out.SolubilityMargin = 1

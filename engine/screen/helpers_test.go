@@ -46,10 +46,10 @@ func baseScenario(t testing.TB, ids ...string) *Scenario {
 	return &Scenario{
 		Feed: Feed{ID: "deionised-water", PH: 7},
 		Membrane: Membrane{ID: m.ID, AMPerSPa: m.ALMHPerBar * thermo.MPerSPaPerLMHPerBar, SM: m.SUM * 1e-6,
-			BNaClMPerS: m.BNaClLMH * thermo.MPerSPerLMH, ARelSD: m.ARelSD, BRelSD: m.BRelSD, SRelSD: m.SRelSD},
+			B: library.SoluteB{NaCl: m.BNaClLMH * thermo.MPerSPerLMH}, ARelSD: m.ARelSD, BRelSD: m.BRelSD, SRelSD: m.SRelSD},
 		Orientations:         []transport.Orientation{transport.ALFS},
 		TemperatureK:         thermo.ReferenceK,
-		Channel:              Channel{HeightM: 2e-3, WidthM: 26e-3, LengthM: 77e-3, VelocityMPerS: 0.25},
+		Channel:              transport.Channel{HeightM: 2e-3, WidthM: 26e-3, LengthM: 77e-3, VelocityMPerS: 0.25},
 		Candidates:           solutes(t, ids...),
 		Basis:                Basis{Kind: BasisOsmoticPressure, PiPa: 28e5},
 		Weights:              DefaultWeights,
@@ -67,10 +67,7 @@ func seawaterFeed(t testing.TB) Feed {
 	}
 	sw := solutes(t, "seawater")[0]
 	feed := Feed{ID: f.ID, Solute: sw, Concentration: 35, Unit: thermo.GPerKg, PH: f.PH, IonsPerKg: true}
-	scale := 35 / f.ReferenceSalinityGPerKg
-	for _, ion := range f.Ions {
-		feed.Ions = append(feed.Ions, FeedIon{ion.Symbol, ion.Charge, ion.Concentration / ion.MolarMassGPerMol / 1000 * scale})
-	}
+	feed.Ions = f.IonsAt(35)
 	return feed
 }
 

@@ -3,6 +3,7 @@ package screen
 import (
 	"context"
 	"drawsift/engine/errs"
+	"drawsift/engine/warn"
 	"errors"
 	"fmt"
 	"math"
@@ -34,7 +35,7 @@ type Ranked struct {
 	PriceMin   float64
 	PriceMax   float64
 	Robustness *Robustness
-	Warnings   []string
+	Warnings   []warn.Warning
 
 	ci int // index of the candidate in the prepared env
 }
@@ -57,7 +58,7 @@ type Excluded struct {
 type Result struct {
 	Ranked   []Ranked
 	Excluded []Excluded
-	Warnings []string
+	Warnings []warn.Warning
 	FeedPiPa float64
 	// TargetPiPa is the basis osmotic pressure (osmotic-pressure basis).
 	TargetPiPa float64
@@ -99,6 +100,7 @@ func Run(ctx context.Context, sc *Scenario, lib *library.Library, progress func(
 		r := Ranked{ci: i, Solute: c.sol, Metrics: m, BMPerS: c.bMPerS, BEstimated: c.bEstimated,
 			HasPrice: c.hasPrice, PriceMin: c.priceMin, PriceMax: c.priceMax}
 		r.Warnings = append(r.Warnings, c.warnings...)
+		r.Warnings = append(r.Warnings, m.Warnings...)
 		r.Warnings = append(r.Warnings, metricWarnings(c, &m)...)
 		for _, o := range sc.Orientations[1:] {
 			oo := OtherOrientation{Orientation: o}
@@ -165,31 +167,32 @@ func rankRows(rows []Ranked, w *Weights, pareto []Objective) {
 }
 
 // metricWarnings flags a candidate's results worth a second look.
-func metricWarnings(c *candidate, m *Metrics) []string {
-	var w []string
+func metricWarnings(c *candidate, m *Metrics) []warn.Warning {
+	var w []warn.Warning
+	id := c.sol.ID
 	x := c.x
 	if m.MolalityMolPerKg > x.ValidMolPerKg()*(1+1e-9) {
-		w = append(w, fmt.Sprintf("%s: %.4g mol/kg is above the osmotic model's data limit of %.4g mol/kg (extrapolated)",
+		w = append(w, warn.New(warn.Extrapolated, id, "%s: %.4g mol/kg is above the osmotic model's data limit of %.4g mol/kg (extrapolated)",
 			c.sol.ID, m.MolalityMolPerKg, x.ValidMolPerKg()))
 	}
 	if mf, ok := x.MolalityFromMolarity(m.FeedFaceDrawMolPerM3); !ok || mf > x.SolubilityMolPerKg() {
-		w = append(w, fmt.Sprintf("%s exceeds its solubility at the feed-side face of the active layer", c.sol.ID))
+		w = append(w, warn.New(warn.Solubility, id, "%s exceeds its solubility at the feed-side face of the active layer", c.sol.ID))
 	}
 	if m.Scaling.Any && m.Scaling.Max > 0 {
 		for k := Mineral(0); k < NumMinerals; k++ {
 			if m.Scaling.Has[k] && m.Scaling.SI[k] > 0 {
-				w = append(w, fmt.Sprintf("%s: %s supersaturated at the feed-side membrane surface (SI %.2f)", c.sol.ID, k.Name(), m.Scaling.SI[k]))
+				w = append(w, warn.New(warn.Scaling, id, "%s: %s supersaturated at the feed-side membrane surface (SI %.2f)", c.sol.ID, k.Name(), m.Scaling.SI[k]))
 			}
 		}
 	}
 	if m.Scaling.IonicStrengthMolPerL > 0.5 {
-		w = append(w, fmt.Sprintf("%s: ionic strength %.2g mol/L at the feed-side surface is beyond the Davies equation's range; saturation indices are indicative", c.sol.ID, m.Scaling.IonicStrengthMolPerL))
+		w = append(w, warn.New(warn.Extrapolated, id, "%s: ionic strength %.2g mol/L at the feed-side surface is beyond the Davies equation's range; saturation indices are indicative", c.sol.ID, m.Scaling.IonicStrengthMolPerL))
 	}
 	if m.SolubilityMargin < 0.1 && !math.IsInf(m.SolubilityMolPerKg, 1) {
-		w = append(w, fmt.Sprintf("%s: within 10 %% of its solubility", c.sol.ID))
+		w = append(w, warn.New(warn.Solubility, id, "%s: within 10 %% of its solubility", c.sol.ID))
 	}
 	if len(c.sol.HazardFlags) > 0 {
-		w = append(w, fmt.Sprintf("%s: handle per its safety data sheet (flags: %v)", c.sol.ID, c.sol.HazardFlags))
+		w = append(w, warn.New(warn.ModelNote, id, "%s: handle per its safety data sheet (flags: %v)", c.sol.ID, c.sol.HazardFlags))
 	}
 	return w
 }

@@ -1,6 +1,7 @@
 package screen
 
 import (
+	"drawsift/engine/warn"
 	"math"
 
 	"drawsift/engine/thermo"
@@ -216,9 +217,9 @@ func (e *env) scaling(c *candidate, ori transport.Orientation, r *transport.Resu
 }
 
 // scalingWarnings are the scenario-level caveats of the scaling check.
-func scalingWarnings(tK float64) []string {
+func scalingWarnings(tK float64) []warn.Warning {
 	if math.Abs(tK-thermo.ReferenceK) > 5 {
-		return []string{"scaling: solubility products are 25 °C values, used unchanged at this temperature"}
+		return []warn.Warning{warn.New(warn.Temperature25C, "scaling", "scaling: solubility products are 25 °C values, used unchanged at this temperature")}
 	}
 	return nil
 }

@@ -142,14 +142,6 @@ type Basis struct {
 	JwMPerS float64
 }
 
-// FeedIon is one feed ion at bulk: mol per litre of feed (PerKg false) or
-// per kg of feed (PerKg true).
-type FeedIon struct {
-	Symbol string
-	Charge int
-	Conc   float64
-}
-
 // Feed is the resolved feed water.
 type Feed struct {
 	ID string // preset ID, or "custom"
@@ -164,33 +156,26 @@ type Feed struct {
 	// its own, never merged with a candidate of the same ID, so a NaCl draw
 	// is not credited with a forward flux of salt the feed does not hold.
 	Surrogate bool
-	Ions      []FeedIon
+	// Ions at bulk, in mol per litre of feed (per kg when IonsPerKg).
+	Ions      []library.IonAmount
 	IonsPerKg bool
 	PH        float64
 }
 
 // Membrane holds the membrane in SI.
 type Membrane struct {
-	ID         string // preset ID or "custom"
-	AMPerSPa   float64
-	SM         float64
-	BNaClMPerS float64
+	ID       string // preset ID or "custom"
+	AMPerSPa float64
+	SM       float64
+	// B is the NaCl B and the measured B by solute (m/s); other solutes'
+	// B is estimated (library.BEstimateRule).
+	B library.SoluteB
 	// BDrawMPerS, when BDrawSet, is used as B for every candidate (zero
 	// allowed: an ideal, solute-tight membrane).
 	BDrawMPerS float64
 	BDrawSet   bool
-	BBySolute  map[string]float64 // measured B (m/s) by solute ID
 	// Relative standard deviations for the robustness run.
 	ARelSD, BRelSD, SRelSD float64
-}
-
-// Channel is a crossflow channel for the Sherwood correlations of
-// package transport.
-type Channel struct {
-	HeightM, WidthM, LengthM float64
-	VelocityMPerS            float64
-	FeedVelocityMPerS        float64 // 0 → VelocityMPerS
-	Spacer                   bool
 }
 
 // Uncertainty describes the Monte Carlo robustness run.
@@ -238,7 +223,7 @@ type Scenario struct {
 	// KDrawMPerS, KFeedMPerS: given mass-transfer coefficients; 0 means
 	// from Channel; +Inf means no external CP on that side.
 	KDrawMPerS, KFeedMPerS float64
-	Channel                Channel
+	Channel                transport.Channel
 	Candidates             []*library.Solute
 	Basis                  Basis
 	VantHoff               bool // osmotic model "van-t-hoff" instead of "real"
@@ -273,7 +258,7 @@ func (sc *Scenario) validate() error {
 		return inputErr("temperature_c", "0–100 °C", "temperature outside 0–100 °C")
 	}
 	m := sc.Membrane
-	if !(m.AMPerSPa > 0) || !(m.SM > 0) || !(m.BNaClMPerS >= 0) || math.IsInf(m.AMPerSPa+m.SM+m.BNaClMPerS, 0) {
+	if !(m.AMPerSPa > 0) || !(m.SM > 0) || !(m.B.NaCl >= 0) || math.IsInf(m.AMPerSPa+m.SM+m.B.NaCl, 0) {
 		return inputErr("membrane", nil, "A and S must be positive and B non-negative")
 	}
 	sum := 0.0

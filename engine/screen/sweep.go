@@ -117,9 +117,11 @@ func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSp
 		case SweepCrossflow:
 			local.Channel.VelocityMPerS = x
 			if e.feedX != nil {
-				if e.kFeed, err = channelK(local.Channel, true, e.feedX.DensityKgPerM3(e.feedM), e.feedX.ViscosityPaS(e.feedM), e.feedD); err != nil {
+				mt, err := channelK(local.Channel, true, e.feedX.DensityKgPerM3(e.feedM), e.feedX.ViscosityPaS(e.feedM), e.feedD)
+				if err != nil {
 					return nil, err
 				}
+				e.kFeed = mt.KMPerS
 			}
 		}
 		k := 0

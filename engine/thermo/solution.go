@@ -2,6 +2,7 @@ package thermo
 
 import (
 	"drawsift/engine/errs"
+	"drawsift/engine/warn"
 	"fmt"
 	"math"
 	"sort"
@@ -52,7 +53,7 @@ type Solution struct {
 	wCap       float64 // mass fraction at capMolal
 
 	// Warnings that hold for every concentration at this temperature.
-	Warnings []string
+	Warnings []warn.Warning
 
 	fastState // the table behind FastOsmoticFunc, built on first use
 }
@@ -74,9 +75,9 @@ func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 	x.muW = water.Viscosity(tK)
 	x.dens = newDensity(s, rhoW, tC)
 	if s.Density == nil && x.kind != library.ModelSeawater {
-		x.warn("%s: no density model; the solute is taken to occupy the volume of an equal mass of water, so mol/L and g/L conversions are approximate", s.ID)
+		x.warn(warn.ModelNote, "%s: no density model; the solute is taken to occupy the volume of an equal mass of water, so mol/L and g/L conversions are approximate", s.ID)
 	} else if d := s.Density; d != nil && (tC < d.MinC || tC > d.MaxC) {
-		x.warn("%s: density model fitted %g–%g °C; extrapolated to %g °C", s.ID, d.MinC, d.MaxC, tC)
+		x.warn(warn.Extrapolated, "%s: density model fitted %g–%g °C; extrapolated to %g °C", s.ID, d.MinC, d.MaxC, tC)
 	}
 
 	m := s.Osmotic
@@ -86,9 +87,9 @@ func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 		var in bool
 		x.pz, in = pitzerParams(s, tK)
 		if t := m.Temperature; t == nil && !in {
-			x.warn("%s: Pitzer parameters are 25 °C data; used unchanged at %g °C", s.ID, tC)
+			x.warn(warn.Temperature25C, "%s: Pitzer parameters are 25 °C data; used unchanged at %g °C", s.ID, tC)
 		} else if t != nil && !in {
-			x.warn("%s: Pitzer temperature fit covers %g–%g °C; extrapolated to %g °C", s.ID, t.MinC, t.MaxC, tC)
+			x.warn(warn.Extrapolated, "%s: Pitzer temperature fit covers %g–%g °C; extrapolated to %g °C", s.ID, t.MinC, t.MaxC, tC)
 		}
 		if t := m.Temperature; t != nil && t.MaxMolalityMolPerKg > 0 && math.Abs(tK-ReferenceK) > 5 && t.MaxMolalityMolPerKg < x.validMolal {
 			x.validMolal = t.MaxMolalityMolPerKg
@@ -103,11 +104,11 @@ func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 			return nil, err
 		}
 	case library.ModelNone:
-		x.warn("%s: %s; osmotic pressure is the van 't Hoff estimate only", s.ID, m.Reason)
+		x.warn(warn.NoModel, "%s: %s; osmotic pressure is the van 't Hoff estimate only", s.ID, m.Reason)
 		x.validMolal = math.Inf(1)
 	case library.ModelPhiPolynomial, library.ModelNorrish:
 		if math.Abs(tK-ReferenceK) > 5 {
-			x.warn("%s: osmotic-coefficient data at 25 °C; used unchanged at %g °C", s.ID, tC)
+			x.warn(warn.Temperature25C, "%s: osmotic-coefficient data at 25 °C; used unchanged at %g °C", s.ID, tC)
 		}
 	}
 	x.prepareViscosity()
@@ -116,8 +117,8 @@ func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 	return x, nil
 }
 
-func (x *Solution) warn(format string, a ...any) {
-	x.Warnings = append(x.Warnings, fmt.Sprintf(format, a...))
+func (x *Solution) warn(code warn.Code, format string, a ...any) {
+	x.Warnings = append(x.Warnings, warn.New(code, x.Solute.ID, format, a...))
 }
 
 // prepareTable converts a measured π table to (molality, π) at its own
@@ -154,7 +155,7 @@ func (x *Solution) prepareTable() error {
 	// table's temperature).
 	x.tabScale = (x.TK / x.vw) / (tRefK / water.MolarVolume(tRefK))
 	if math.Abs(x.TK-tRefK) > 5 {
-		x.warn("%s: measured π table at %g °C scaled to %g °C assuming a constant osmotic coefficient", x.Solute.ID, t.TemperatureC, x.tC)
+		x.warn(warn.Temperature25C, "%s: measured π table at %g °C scaled to %g °C assuming a constant osmotic coefficient", x.Solute.ID, t.TemperatureC, x.tC)
 	}
 	x.validMolal = x.tabMax
 	return nil
@@ -170,7 +171,7 @@ func (x *Solution) solubilityAt(tC float64) float64 {
 	p := sol.Points
 	if len(p) == 1 {
 		if math.Abs(tC-p[0].TemperatureC) > 5 {
-			x.warn("%s: solubility known at %g °C only; used at %g °C", x.Solute.ID, p[0].TemperatureC, tC)
+			x.warn(warn.Solubility, "%s: solubility known at %g °C only; used at %g °C", x.Solute.ID, p[0].TemperatureC, tC)
 		}
 		return p[0].MolalityMolPerKg
 	}
@@ -180,7 +181,7 @@ func (x *Solution) solubilityAt(tC float64) float64 {
 			end = p[len(p)-1]
 		}
 		if math.Abs(tC-end.TemperatureC) > 1e-9 {
-			x.warn("%s: solubility data span %g–%g °C; the end value is used at %g °C", x.Solute.ID, p[0].TemperatureC, p[len(p)-1].TemperatureC, tC)
+			x.warn(warn.Solubility, "%s: solubility data span %g–%g °C; the end value is used at %g °C", x.Solute.ID, p[0].TemperatureC, p[len(p)-1].TemperatureC, tC)
 		}
 		return end.MolalityMolPerKg
 	}
@@ -210,7 +211,7 @@ func (x *Solution) prepareCap() {
 		m := c * float64(i) / steps
 		if _, dg := x.mPhi(m); !(dg > 0) {
 			c = c * float64(i-1) / steps
-			x.warn("%s: the osmotic model stops rising at %s mol/kg at %s °C; π is extended linearly beyond", x.Solute.ID, trimFloat(c), trimFloat(x.tC))
+			x.warn(warn.Extrapolated, "%s: the osmotic model stops rising at %s mol/kg at %s °C; π is extended linearly beyond", x.Solute.ID, trimFloat(c), trimFloat(x.tC))
 			break
 		}
 	}

@@ -2,6 +2,7 @@ package thermo
 
 import (
 	"drawsift/engine/errs"
+	"drawsift/engine/warn"
 	"fmt"
 	"math"
 	"strconv"
@@ -28,7 +29,7 @@ type State struct {
 	DiffusivityM2PerS    float64
 	// SolubilityMolPerKg is +Inf for a miscible solute.
 	SolubilityMolPerKg float64
-	Warnings           []string
+	Warnings           []warn.Warning
 }
 
 // Evaluate prepares s at tK and returns its State at the given
@@ -63,11 +64,11 @@ func (x *Solution) StateAt(m float64, u Unit) (State, error) {
 	st := State{MolalityMolPerKg: m, SolubilityMolPerKg: x.solMolal}
 	st.Warnings = append(st.Warnings, x.Warnings...)
 	if m > x.validMolal*(1+1e-9) {
-		st.Warnings = append(st.Warnings, fmt.Sprintf("%s: %s mol/kg is above the %s model's data limit of %s mol/kg (extrapolated)",
+		st.Warnings = append(st.Warnings, warn.New(warn.Extrapolated, x.Solute.ID, "%s: %s mol/kg is above the %s model's data limit of %s mol/kg (extrapolated)",
 			x.Solute.ID, trimFloat(m), x.kind, trimFloat(x.validMolal)))
 	}
 	if x.kind == library.ModelSeawater && m > 0 && x.FromMolality(m, GPerKg) < 10 {
-		st.Warnings = append(st.Warnings, "seawater: below 10 g/kg, the lower end of the Sharqawy et al. (2010) fit; accuracy about ±2.5 %")
+		st.Warnings = append(st.Warnings, warn.New(warn.Extrapolated, "seawater", "seawater: below 10 g/kg, the lower end of the Sharqawy et al. (2010) fit; accuracy about ±2.5 %%"))
 	}
 	st.MolarityMolPerM3 = x.molarityFromMolality(m)
 	st.MassFraction = x.massFractionFromMolality(m)
@@ -86,7 +87,7 @@ func (x *Solution) StateAt(m float64, u Unit) (State, error) {
 	st.DensityKgPerM3 = x.DensityKgPerM3(m)
 	st.ViscosityPaS = x.ViscosityPaS(m)
 	if w := x.viscosityWarning(st.MassFraction); w != "" {
-		st.Warnings = append(st.Warnings, w)
+		st.Warnings = append(st.Warnings, warn.Warning{Code: warn.Extrapolated, Subject: x.Solute.ID, Text: w})
 	}
 	st.DiffusivityM2PerS = x.DiffusivityM2PerS(m)
 	for _, v := range []float64{st.OsmoticPressurePa, st.VantHoffPa, st.OsmoticCoefficient, st.WaterActivity,

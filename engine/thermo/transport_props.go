@@ -1,6 +1,7 @@
 package thermo
 
 import (
+	"drawsift/engine/warn"
 	"fmt"
 	"math"
 	"sort"
@@ -16,12 +17,12 @@ func (x *Solution) prepareViscosity() {
 	v := x.Solute.Viscosity
 	if v == nil {
 		if x.kind != library.ModelSeawater {
-			x.warn("%s: no viscosity model; pure-water viscosity is reported", x.Solute.ID)
+			x.warn(warn.ModelNote, "%s: no viscosity model; pure-water viscosity is reported", x.Solute.ID)
 		}
 		return
 	}
 	if x.tC < v.MinC || x.tC > v.MaxC {
-		x.warn("%s: viscosity model fitted %g–%g °C; extrapolated to %g °C", x.Solute.ID, v.MinC, v.MaxC, x.tC)
+		x.warn(warn.Extrapolated, "%s: viscosity model fitted %g–%g °C; extrapolated to %g °C", x.Solute.ID, v.MinC, v.MaxC, x.tC)
 	}
 	if v.Kind == library.ViscosityRelativeTable && len(v.Points) > 0 {
 		xs, ys := []float64{0}, []float64{1}

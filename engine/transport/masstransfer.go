@@ -1,15 +1,29 @@
 package transport
 
 import (
+	"drawsift/engine/warn"
 	"fmt"
 	"math"
 )
 
-// Channel is a rectangular crossflow channel on one face of the membrane.
+// Channel is a rectangular crossflow channel on the faces of the membrane.
 type Channel struct {
 	HeightM, WidthM, LengthM float64
 	VelocityMPerS            float64 // mean crossflow velocity
-	Spacer                   bool    // spacer-filled (mesh) channel
+	// FeedVelocityMPerS, when positive, is the feed side's own velocity
+	// (see Side); MassTransferCoefficient itself uses VelocityMPerS.
+	FeedVelocityMPerS float64
+	Spacer            bool // spacer-filled (mesh) channel
+}
+
+// Side returns the channel as one side of the membrane sees it: the feed
+// side runs at FeedVelocityMPerS when that is set.
+func (c Channel) Side(feed bool) Channel {
+	if feed && c.FeedVelocityMPerS > 0 {
+		c.VelocityMPerS = c.FeedVelocityMPerS
+	}
+	c.FeedVelocityMPerS = 0
+	return c
 }
 
 // Fluid holds the solution properties that enter the Sherwood correlations.
@@ -27,7 +41,7 @@ type MassTransfer struct {
 	HydraulicDiameterM float64
 	Regime             string // "laminar", "transitional", "turbulent" or "spacer-filled"
 	Correlation        string // formula and source
-	Warnings           []string
+	Warnings           []warn.Warning
 }
 
 // Regime boundaries for flow in channels (common practice).
@@ -104,11 +118,11 @@ func MassTransferCoefficient(ch Channel, f Fluid) (MassTransfer, error) {
 		mt.Regime, mt.Correlation = "laminar", laminarCorr
 		if re >= reLaminarMax {
 			mt.Regime = "transitional"
-			mt.Warnings = append(mt.Warnings, warnBorderline)
+			mt.Warnings = append(mt.Warnings, warn.New(warn.FlowRegime, "", "%s (Re = %.0f)", warnBorderline, re))
 		}
 		mt.Sh = 1.85 * math.Cbrt(re*sc*dh/ch.LengthM)
 	}
-	mt.Warnings = append(mt.Warnings, warnUnverified)
+	mt.Warnings = append(mt.Warnings, warn.Warning{Code: warn.Unverified, Text: warnUnverified})
 	mt.KMPerS = mt.Sh * f.DiffusivityM2PerS / dh
 	return mt, nil
 }

@@ -2,6 +2,7 @@ package transport
 
 import (
 	"drawsift/engine/errs"
+	"drawsift/engine/warn"
 	"errors"
 	"math"
 	"strings"
@@ -75,7 +76,7 @@ func TestMassTransferBorderline(t *testing.T) {
 	}
 	found := false
 	for _, w := range mt.Warnings {
-		found = found || strings.Contains(w, "laminar/turbulent borderline")
+		found = found || strings.Contains(w.Text, "laminar/turbulent borderline") && w.Code == warn.FlowRegime
 	}
 	if mt.Regime != "transitional" || !found || !strings.HasPrefix(mt.Correlation, "Sh = 1.85") {
 		t.Errorf("Re %g: regime %q correlation %q warnings %v", mt.Re, mt.Regime, mt.Correlation, mt.Warnings)

@@ -1,0 +1,67 @@
+package scenario
+
+import (
+	"math"
+	"strings"
+
+	"drawsift/engine/errs"
+	"drawsift/engine/library"
+	"drawsift/engine/thermo"
+)
+
+// LookupSolute finds a library solute by ID or alias; the error names
+// field and lists the known IDs.
+func LookupSolute(field, name string) (*library.Solute, error) {
+	if strings.TrimSpace(name) == "" {
+		return nil, errs.InvalidText(field, name, nil, "a solute is required (e.g. \"NaCl\")")
+	}
+	lib, err := library.Default()
+	if err != nil {
+		return nil, err
+	}
+	s, ok := lib.Lookup(name)
+	if !ok {
+		return nil, errs.InvalidText(field, name, nil, "unknown solute %q; known: %s", name, strings.Join(lib.IDs(), ", "))
+	}
+	return s, nil
+}
+
+// TemperatureK returns a request's temperature in kelvin (TemperatureC's
+// default when omitted).
+func TemperatureK(field string, tC *float64) (float64, error) {
+	t := TemperatureC.Default
+	if tC != nil {
+		t = *tC
+	}
+	if err := TemperatureC.CheckAt(field, t); err != nil {
+		return 0, err
+	}
+	return t + thermo.ZeroCelsiusK, nil
+}
+
+// ParseConcentration checks a value/unit pair under prefix ("draw",
+// "feed", "" for the top level).
+func ParseConcentration(prefix string, v *float64, unit string) (float64, thermo.Unit, error) {
+	if v == nil {
+		return 0, 0, errs.InvalidText(errs.Join(prefix, "concentration"), "", nil, "a concentration is required")
+	}
+	if !(*v >= 0) || math.IsInf(*v, 0) {
+		return 0, 0, errs.Invalid(errs.Join(prefix, "concentration"), *v, "≥ 0", "concentration must be a finite, non-negative number (got %g)", *v)
+	}
+	if unit == "" {
+		return 0, 0, errs.InvalidText(errs.Join(prefix, "unit"), "", thermo.UnitNames(), "a unit is required")
+	}
+	u, err := thermo.ParseUnit(unit)
+	if err != nil {
+		return 0, 0, errs.InvalidText(errs.Join(prefix, "unit"), unit, thermo.UnitNames(), "%v", err)
+	}
+	return *v, u, nil
+}
+
+// optional checks an optional number against r under field (nil stays nil).
+func optional(r *Range, field string, v *float64) error {
+	if v == nil {
+		return nil
+	}
+	return r.CheckAt(field, *v)
+}
