@@ -182,3 +182,22 @@ func TestFluxFeedBAndWarnings(t *testing.T) {
 		t.Errorf("unused b_feed_lmh not flagged: %s", w)
 	}
 }
+
+// A channel flow between laminar and turbulent (Re ≈ 3,200 here; the
+// regime bounds 2,100 and 4,000 are common practice) reaches the response
+// as a warning, with the correlation's own caveat. Before warnings
+// were values, this request
+// returned "warnings": [].
+func TestFluxChannelWarningsReachResponse(t *testing.T) {
+	r := fluxOK(t, `{"membrane":{"a_lmh_per_bar":1,"b_lmh":0.3,"s_um":500},"orientation":"AL-FS",
+		"draw":{"solute":"NaCl","concentration":1,"unit":"mol/L"},
+		"channel":{"height_mm":2,"width_mm":40,"length_mm":80,"crossflow_velocity_m_per_s":0.75}}`)
+	ws, _ := r["warnings"].([]any)
+	joined := fmt.Sprint(ws...)
+	if !strings.Contains(joined, "laminar/turbulent borderline") || !strings.Contains(joined, "from memory") {
+		t.Errorf("warnings %v, want the borderline-regime and unverified-correlation warnings", ws)
+	}
+	if reg := r["k_draw"].(map[string]any)["regime"]; reg != "transitional" {
+		t.Errorf("regime %v", reg)
+	}
+}
