@@ -38,6 +38,7 @@ vet:
 	@test -z "$$(gofmt -l $$(git ls-files '*.go' 2>/dev/null || find . -name '*.go'))" || (echo 'gofmt needed:'; gofmt -l .; false)
 	$(GO) vet ./...
 	GOOS=js GOARCH=wasm $(GO) vet ./engine/... ./wasm/...
+	@$(GO) mod tidy -diff >/dev/null || (echo 'go mod tidy would change go.mod or go.sum:'; $(GO) mod tidy -diff; false)
 
 # The engine stays pure: no syscall/js, and only the standard library,
 # gonum and our own packages (plus go-json behind engine/internal/jsonx).

@@ -12,7 +12,7 @@ package thermo
 const (
 	// GasConstant R in J mol⁻¹ K⁻¹ (exact since the 2019 SI redefinition:
 	// N_A·k_B, CODATA 2018).
-	GasConstant = 8.314462618
+	GasConstant = 8.31446261815324
 	// ZeroCelsiusK is 0 °C in kelvin (exact by definition).
 	ZeroCelsiusK = 273.15
 	// PascalPerBar (exact).
