@@ -96,8 +96,8 @@ func Defaults() *DefaultsResponse {
 	for _, o := range t.ParetoObjectives {
 		r.ParetoObjectives = append(r.ParetoObjectives, o.Key())
 	}
-	for _, name := range pressureUnitNames {
-		r.PressureUnitsPa[name] = pressureUnits[strings.ToLower(name)]
+	for _, name := range scenario.PressureUnitNames {
+		r.PressureUnitsPa[name] = scenario.PressureUnits[strings.ToLower(name)]
 	}
 	return r
 }

@@ -1,0 +1,699 @@
+package scenario
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"drawsift/engine/errs"
+	"drawsift/engine/library"
+	"drawsift/engine/screen"
+	"drawsift/engine/thermo"
+	"drawsift/engine/transport"
+)
+
+// Spec is a scenario as a request gives it: the document users save,
+// share and rerun (the contract's screen request; engine/api re-exports it
+// as ScreenRequest).
+// Every field is optional except what the defaults cannot supply; the
+// defaults are listed on each field.
+type Spec struct {
+	// Feed: {"preset": ID} (see FeedPresets), or a solute at a
+	// concentration with optional ions and pH. Omitted → deionised water.
+	Feed *FeedSpec `json:"feed,omitempty"`
+	// Membrane: {"preset": ID} or custom a/b/s. In a screen, b_lmh is the
+	// membrane's NaCl B unless b_nacl_lmh is also given (then b_lmh is
+	// used for every candidate). Omitted → preset "tfc-standard".
+	Membrane *MembraneSpec `json:"membrane,omitempty"`
+	// Orientation ranks the candidates (default "AL-FS"); Orientations
+	// adds others, reported beside it.
+	Orientation  string   `json:"orientation,omitempty"`
+	Orientations []string `json:"orientations,omitempty"`
+	TemperatureC *float64 `json:"temperature_c,omitempty"` // default 25 °C
+	KDrawMPerS   *float64 `json:"k_draw_m_per_s,omitempty"`
+	KFeedMPerS   *float64 `json:"k_feed_m_per_s,omitempty"`
+	// Channel sets k from a Sherwood correlation (default DefaultChannel).
+	Channel    *ChannelSpec `json:"channel,omitempty"`
+	ExternalCP *bool        `json:"external_cp,omitempty"` // default true
+	// Candidates: solute IDs or aliases; omitted → the whole library plus
+	// the custom solutes.
+	Candidates    []string       `json:"candidates,omitempty"`
+	CustomSolutes []CustomSolute `json:"custom_solutes,omitempty"`
+	// Basis of comparison; omitted → 2 × the feed's π, or 28 bar for a
+	// solute-free feed.
+	Basis        *BasisSpec `json:"basis,omitempty"`
+	OsmoticModel string     `json:"osmotic_model,omitempty"` // "real" (default) or "van-t-hoff"
+	// Weights by objective key (screen.ObjectiveKeys); omitted →
+	// screen.DefaultWeights. Objectives not named weigh 0.
+	Weights map[string]float64 `json:"weights,omitempty"`
+	// ParetoObjectives: two or more objective keys (default water_flux,
+	// specific_reverse_solute_flux, replenishment_cost).
+	ParetoObjectives []string `json:"pareto_objectives,omitempty"`
+	// ExcludeHazards lists hazard flags whose solutes are excluded.
+	ExcludeHazards []string `json:"exclude_hazards,omitempty"`
+	// AllowExtrapolation keeps candidates needed above their osmotic
+	// model's data (flagged); default false: they are excluded.
+	AllowExtrapolation bool `json:"allow_extrapolation,omitempty"`
+	// RegenerationRecovery: fraction of the diluted draw's water recovered
+	// when re-concentrating (default 0.5).
+	RegenerationRecovery *float64 `json:"regeneration_recovery,omitempty"`
+	// Uncertainty asks for the robustness run.
+	Uncertainty *UncertaintySpec `json:"uncertainty,omitempty"`
+	Seed        *uint64          `json:"seed,omitempty"` // default 1
+	// Sweep asks for series of every metric against one variable.
+	Sweep *SweepSpec `json:"sweep,omitempty"`
+}
+
+// FeedSpec is the scenario's feed water.
+type FeedSpec struct {
+	Preset        string    `json:"preset,omitempty"`
+	Solute        string    `json:"solute,omitempty"`
+	Concentration *float64  `json:"concentration,omitempty"`
+	Unit          string    `json:"unit,omitempty"`
+	Ions          []IonSpec `json:"ions,omitempty"`
+	PH            *float64  `json:"ph,omitempty"`
+}
+
+// IonSpec is one ion of a custom feed.
+type IonSpec struct {
+	Symbol           string  `json:"symbol"` // e.g. "Ca+2", "SO4-2", "HCO3-"
+	Charge           int     `json:"charge"`
+	MolarMassGPerMol float64 `json:"molar_mass_g_per_mol"`
+	MgPerL           float64 `json:"mg_per_l"`
+}
+
+// BasisSpec is the basis of comparison.
+type BasisSpec struct {
+	Kind           string   `json:"kind"` // "osmotic-pressure", "concentration" or "water-flux"
+	Value          *float64 `json:"value,omitempty"`
+	Unit           string   `json:"unit,omitempty"` // bar, kPa, MPa, atm, psi | a concentration unit | LMH
+	MultipleOfFeed *float64 `json:"multiple_of_feed,omitempty"`
+}
+
+// UncertaintySpec sets the robustness run; omitted numbers take the
+// membrane record's scatter (custom membranes: 10 %, 30 %, 15 %), 2 % on
+// π (10 % for a van 't Hoff-only solute), 5 % on D, and prices drawn
+// uniformly within their ranges.
+type UncertaintySpec struct {
+	Samples          *int     `json:"samples,omitempty"` // default 1000
+	ARelSD           *float64 `json:"a_rel_sd,omitempty"`
+	BRelSD           *float64 `json:"b_rel_sd,omitempty"`
+	SRelSD           *float64 `json:"s_rel_sd,omitempty"`
+	OsmoticRelSD     *float64 `json:"osmotic_rel_sd,omitempty"`
+	DiffusivityRelSD *float64 `json:"diffusivity_rel_sd,omitempty"`
+	// EstimatedBRelSD: per candidate, for a B estimated from NaCl's
+	// (default screen.DefaultEstimatedBRelSD).
+	EstimatedBRelSD *float64 `json:"estimated_b_rel_sd,omitempty"`
+	Prices          *bool    `json:"prices,omitempty"`
+}
+
+// SweepSpec asks for series against one variable.
+type SweepSpec struct {
+	// Variable: "concentration" (in Unit, a concentration unit),
+	// "temperature" (°C), "s" (µm) or "crossflow" (m/s).
+	Variable string  `json:"variable"`
+	From     float64 `json:"from"`
+	To       float64 `json:"to"`
+	Points   int     `json:"points"`
+	Unit     string  `json:"unit,omitempty"`
+}
+
+// CustomSolute is a user-defined candidate. With a measured π table
+// (pi_table) its osmotic pressure is interpolated monotonically from the
+// table; without one it is the van 't Hoff value, flagged as such.
+type CustomSolute struct {
+	ID                 string      `json:"id"`
+	Name               string      `json:"name,omitempty"`
+	MolarMassGPerMol   float64     `json:"molar_mass_g_per_mol"`
+	Ions               []CustomIon `json:"ions,omitempty"`
+	VantHoffFactor     float64     `json:"van_t_hoff_factor,omitempty"` // default Σ ion counts, or 1
+	SolubilityMolPerKg *float64    `json:"solubility_mol_per_kg,omitempty"`
+	Miscible           bool        `json:"miscible,omitempty"`
+	DiffusivityM2PerS  float64     `json:"diffusivity_m2_per_s"`
+	PriceUSDPerKgMin   *float64    `json:"price_usd_per_kg_min,omitempty"`
+	PriceUSDPerKgMax   *float64    `json:"price_usd_per_kg_max,omitempty"`
+	HazardFlags        []string    `json:"hazard_flags,omitempty"`
+	Source             string      `json:"source,omitempty"`
+	// PiTable is a measured osmotic-pressure table: {"temperature_c",
+	// "unit", "points": [{"concentration", "osmotic_pressure_bar"}, …]}.
+	PiTable *library.PiTable `json:"pi_table,omitempty"`
+}
+
+// CustomIon is one ion of a custom solute.
+type CustomIon struct {
+	Symbol string `json:"symbol"`
+	Charge int    `json:"charge"`
+	Count  int    `json:"count"`
+}
+
+// Info is what a response reports about the resolution.
+type Info struct {
+	Membrane *library.Membrane // the preset, or nil
+	Feed     *library.Feed     // the preset, or nil
+	BRule    string            // how B was found for the candidates
+	KRule    string            // how k was found
+	Custom   map[string]bool   // IDs of the user-defined solutes
+}
+
+// Resolve turns a scenario into what engine/screen runs: presets looked
+// up and overridden, every default of the range table applied, every
+// number checked against its Range, B per candidate and k settled,
+// custom solutes built, in SI. Errors are *errs.InputError naming the
+// contract's field.
+func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
+	lib, lerr := library.Default()
+	if lerr != nil {
+		return nil, nil, fmt.Errorf("solute library: %w", lerr)
+	}
+	info := &Info{Custom: map[string]bool{}}
+	var err error
+	sc := &screen.Scenario{Seed: uint64(Seed.Default), AllowExtrapolation: req.AllowExtrapolation}
+	if req.Seed != nil {
+		sc.Seed = *req.Seed
+	}
+	if sc.RegenerationRecovery, err = RegenerationRecovery.Or(req.RegenerationRecovery); err != nil {
+		return nil, nil, err
+	}
+	tK, err := TemperatureK("temperature_c", req.TemperatureC)
+	if err != nil {
+		return nil, nil, err
+	}
+	sc.TemperatureK = tK
+	osm, err := ParseOsmoticModel(req.OsmoticModel)
+	if err != nil {
+		return nil, nil, err
+	}
+	sc.VantHoff = osm == VantHoff
+	// Orientations.
+	o, err := ParseOrientation("orientation", req.Orientation)
+	if err != nil {
+		return nil, nil, err
+	}
+	sc.Orientations = []transport.Orientation{o}
+	for i, s := range req.Orientations {
+		o2, err := ParseOrientation(fmt.Sprintf("orientations[%d]", i), s)
+		if err != nil || s == "" {
+			return nil, nil, invalid(fmt.Sprintf("orientations[%d]", i), OrientationNames, "unknown orientation %q", s)
+		}
+		dup := false
+		for _, have := range sc.Orientations {
+			dup = dup || have == o2
+		}
+		if !dup {
+			sc.Orientations = append(sc.Orientations, o2)
+		}
+	}
+	// Membrane.
+	ms := req.Membrane
+	if ms == nil {
+		ms = &MembraneSpec{Preset: DefaultMembranePreset}
+	}
+	mem, err := ResolveMembrane(ms)
+	if err != nil {
+		return nil, nil, err
+	}
+	info.Membrane = mem.Record
+	m := screen.Membrane{ID: mem.Preset(), AMPerSPa: mem.AMPerSPa, SM: mem.SM, B: mem.B,
+		ARelSD: mem.ARelSD, BRelSD: mem.BRelSD, SRelSD: mem.SRelSD}
+	info.BRule = library.BEstimateRule
+	// In a screen, b_lmh alone is the membrane's NaCl B (the base of the
+	// estimates); with b_nacl_lmh beside it, B for every candidate.
+	if b := mem.BGivenMPerS; b != nil {
+		if ms.BNaClLMH == nil {
+			m.B = library.SoluteB{NaCl: *b}
+			info.BRule = "membrane.b_lmh taken as the NaCl B; " + library.BEstimateRule
+		} else {
+			m.BDrawMPerS, m.BDrawSet = *b, true
+			info.BRule = "membrane.b_lmh used for every candidate"
+		}
+	} else if !mem.BKnown {
+		return nil, nil, invalid("membrane.b_lmh", "≥ 0", "a custom membrane needs b_lmh (its NaCl B)")
+	}
+	sc.Membrane = m
+	// Feed.
+	feed, rec, e := resolveFeed(req.Feed, tK)
+	if e != nil {
+		return nil, nil, e
+	}
+	sc.Feed, info.Feed = feed, rec
+	// Mass transfer.
+	extCP := req.ExternalCP == nil || *req.ExternalCP
+	if sc.Channel, err = ResolveChannel(req.Channel); err != nil {
+		return nil, nil, err
+	}
+	info.KRule = "k from the channel's Sherwood correlation (engine/transport), with each solution's density, viscosity and diffusivity"
+	if sc.KDrawMPerS, err = GivenK(&KDraw, req.KDrawMPerS); err != nil {
+		return nil, nil, err
+	}
+	if sc.KFeedMPerS, err = GivenK(&KFeed, req.KFeedMPerS); err != nil {
+		return nil, nil, err
+	}
+	if !extCP {
+		sc.KDrawMPerS, sc.KFeedMPerS = math.Inf(1), math.Inf(1)
+		info.KRule = "no external concentration polarization (k → ∞)"
+	} else if req.KDrawMPerS != nil || req.KFeedMPerS != nil {
+		info.KRule = "k as given where given; elsewhere from the channel's Sherwood correlation"
+	}
+	// Candidates.
+	customs := map[string]*library.Solute{}
+	var customOrder []*library.Solute
+	for i, cs := range req.CustomSolutes {
+		s, e := customSolute(i, &cs, lib)
+		if e != nil {
+			return nil, nil, e
+		}
+		if _, dup := customs[library.Key(s.ID)]; dup {
+			return nil, nil, invalid(fmt.Sprintf("custom_solutes[%d].id", i), nil, "custom solute %q is defined twice", s.ID)
+		}
+		customs[library.Key(s.ID)] = s
+		customOrder = append(customOrder, s)
+		info.Custom[s.ID] = true
+	}
+	if req.Candidates == nil {
+		sc.Candidates = append(sc.Candidates, lib.All()...)
+		sc.Candidates = append(sc.Candidates, customOrder...)
+	} else {
+		if len(req.Candidates) == 0 {
+			return nil, nil, invalid("candidates", "at least one solute", "the candidate list is empty (omit it to screen the whole library)")
+		}
+		seen := map[*library.Solute]bool{}
+		for i, name := range req.Candidates {
+			s, ok := customs[library.Key(name)]
+			if !ok {
+				s, ok = lib.Lookup(name)
+			}
+			if !ok {
+				return nil, nil, invalid(fmt.Sprintf("candidates[%d]", i), nil, "unknown solute %q; known: %s", name, strings.Join(lib.IDs(), ", "))
+			}
+			if !seen[s] {
+				seen[s] = true
+				sc.Candidates = append(sc.Candidates, s)
+			}
+		}
+	}
+	// Basis.
+	b, e := resolveBasis(req.Basis, sc.Feed.Solute != nil && sc.Feed.Concentration > 0)
+	if e != nil {
+		return nil, nil, e
+	}
+	sc.Basis = b
+	// Weights and Pareto objectives.
+	sc.Weights = screen.DefaultWeights
+	if req.Weights != nil {
+		sc.Weights = screen.Weights{}
+		keys := make([]string, 0, len(req.Weights))
+		for k := range req.Weights {
+			keys = append(keys, k)
+		}
+		sort.Strings(keys)
+		sum := 0.0
+		for _, k := range keys {
+			ob, ok := screen.ParseObjective(k)
+			if !ok {
+				return nil, nil, invalid("weights."+k, screen.ObjectiveKeys(), "unknown objective %q", k)
+			}
+			w := req.Weights[k]
+			if !(w >= 0) || math.IsInf(w, 0) {
+				return nil, nil, invalid("weights."+k, "≥ 0", "weights must be finite and non-negative (got %g)", w)
+			}
+			sc.Weights[ob] = w
+			sum += w
+		}
+		if !(sum > 0) {
+			return nil, nil, invalid("weights", "at least one weight > 0", "all weights are zero")
+		}
+	}
+	sc.Pareto = screen.DefaultPareto
+	if req.ParetoObjectives != nil {
+		if len(req.ParetoObjectives) < 2 {
+			return nil, nil, invalid("pareto_objectives", "two or more objectives", "the Pareto front needs two or more objectives")
+		}
+		sc.Pareto = nil
+		for i, k := range req.ParetoObjectives {
+			ob, ok := screen.ParseObjective(k)
+			if !ok {
+				return nil, nil, invalid(fmt.Sprintf("pareto_objectives[%d]", i), screen.ObjectiveKeys(), "unknown objective %q", k)
+			}
+			sc.Pareto = append(sc.Pareto, ob)
+		}
+	}
+	for i, h := range req.ExcludeHazards {
+		if !library.IsHazardFlag(h) {
+			return nil, nil, invalid(fmt.Sprintf("exclude_hazards[%d]", i), library.HazardFlags, "unknown hazard flag %q", h)
+		}
+	}
+	sc.ExcludeHazards = req.ExcludeHazards
+	// Uncertainty.
+	if u := req.Uncertainty; u != nil {
+		su := &screen.Uncertainty{Samples: int(Samples.Default), ARelSD: m.ARelSD, BRelSD: m.BRelSD, SRelSD: m.SRelSD,
+			DefaultOsmotic: true, DiffusivityRelSD: DiffusivityRelSD.Default, EstimatedBRelSD: EstimatedBRelSD.Default, Prices: true}
+		if u.Samples != nil {
+			if err := Samples.Check(float64(*u.Samples)); err != nil {
+				return nil, nil, err
+			}
+			su.Samples = *u.Samples
+		}
+		for _, f := range []struct {
+			r   *Range
+			v   *float64
+			dst *float64
+		}{{&ARelSD, u.ARelSD, &su.ARelSD}, {&BRelSD, u.BRelSD, &su.BRelSD}, {&SRelSD, u.SRelSD, &su.SRelSD},
+			{&OsmoticRelSD, u.OsmoticRelSD, &su.OsmoticRelSD}, {&DiffusivityRelSD, u.DiffusivityRelSD, &su.DiffusivityRelSD},
+			{&EstimatedBRelSD, u.EstimatedBRelSD, &su.EstimatedBRelSD}} {
+			if f.v == nil {
+				continue
+			}
+			if err := f.r.Check(*f.v); err != nil {
+				return nil, nil, err
+			}
+			*f.dst = *f.v
+		}
+		if u.OsmoticRelSD != nil {
+			su.DefaultOsmotic = false
+		}
+		if u.Prices != nil {
+			su.Prices = *u.Prices
+		}
+		sc.Uncertainty = su
+	}
+	return sc, info, nil
+}
+
+// resolveFeed reads the feed: a preset, or a solute with optional ions.
+func resolveFeed(fs *FeedSpec, tK float64) (screen.Feed, *library.Feed, error) {
+	if fs == nil {
+		fs = &FeedSpec{Preset: DefaultFeedPreset}
+	}
+	var rec *library.Feed
+	f := screen.Feed{ID: "custom", PH: FeedPH.Default}
+	if fs.Preset != "" {
+		r, ok := library.LookupFeed(fs.Preset)
+		if !ok {
+			all, _ := library.Feeds()
+			ids := []string{}
+			for _, p := range all {
+				ids = append(ids, p.ID)
+			}
+			return f, nil, invalid("feed.preset", ids, "unknown feed preset %q", fs.Preset)
+		}
+		if fs.Solute != "" || fs.Ions != nil {
+			return f, nil, invalid("feed.solute", nil, "give either a feed preset or a custom feed (solute, ions), not both")
+		}
+		rec = r
+		f.ID, f.PH = r.ID, r.PH
+		f.IonsPerKg = r.IonsPerKg()
+		switch r.Osmotic.Method {
+		case library.FeedOsmoticNone:
+			f.OsmoticMethod = "pure water"
+		case library.FeedOsmoticSolute:
+			s, err := LookupSolute("feed.preset", r.Osmotic.Solute)
+			if err != nil {
+				return f, nil, err
+			}
+			u, err := thermo.ParseUnit(r.Osmotic.Unit)
+			if err != nil {
+				return f, nil, fmt.Errorf("feed preset %s: unit: %w", r.ID, err)
+			}
+			f.Solute, f.Concentration, f.Unit = s, r.Osmotic.Concentration, u
+			if fs.Concentration != nil {
+				v, _, err := ParseConcentration("feed", fs.Concentration, r.Osmotic.Unit)
+				if err != nil {
+					return f, nil, err
+				}
+				f.Concentration = v
+			}
+			f.OsmoticMethod = fmt.Sprintf("library solute %s at %g %s", s.ID, f.Concentration, u)
+		case library.FeedOsmoticEquivalentNaCl:
+			s, err := LookupSolute("feed.preset", "NaCl")
+			if err != nil {
+				return f, nil, err
+			}
+			f.Solute, f.Concentration, f.Unit = s, r.EquivalentNaClMolPerL(), thermo.MolPerL
+			f.Surrogate = true
+			f.OsmoticMethod = fmt.Sprintf("%s: %.4g mol/L NaCl", library.EquivalentNaClRule, f.Concentration)
+			if fs.Concentration != nil {
+				return f, nil, invalid("feed.concentration", nil, "preset %q sets its osmotic pressure from its ions; use a custom feed to change it", r.ID)
+			}
+		}
+		salinity := -1.0 // the record's own composition
+		if f.Unit == thermo.GPerKg {
+			salinity = f.Concentration
+		}
+		f.Ions = r.IonsAt(salinity)
+	} else {
+		if fs.Solute == "" {
+			return f, nil, invalid("feed", nil, "a feed needs a preset or a solute (e.g. {\"solute\": \"seawater\", \"concentration\": 35, \"unit\": \"g/kg\"})")
+		}
+		s, err := LookupSolute("feed.solute", fs.Solute)
+		if err != nil {
+			return f, nil, err
+		}
+		v, u, err := ParseConcentration("feed", fs.Concentration, fs.Unit)
+		if err != nil {
+			return f, nil, err
+		}
+		f.Solute, f.Concentration, f.Unit = s, v, u
+		f.OsmoticMethod = fmt.Sprintf("library solute %s at %g %s", s.ID, v, u)
+		for i, ion := range fs.Ions {
+			if ion.Symbol == "" || ion.Charge == 0 || !FeedIonMolarMass.Contains(ion.MolarMassGPerMol) || !FeedIonMgPerL.Contains(ion.MgPerL) {
+				return f, nil, invalid(fmt.Sprintf("feed.ions[%d]", i), nil, "an ion needs a symbol, a non-zero charge, molar_mass_g_per_mol %s and mg_per_l %s",
+					FeedIonMolarMass.Text(), FeedIonMgPerL.Text())
+			}
+			f.Ions = append(f.Ions, library.IonAmount{Symbol: ion.Symbol, Charge: ion.Charge, Mol: ion.MgPerL / ion.MolarMassGPerMol / 1000})
+		}
+		if fs.Ions == nil && v > 0 {
+			// The solute's own ions at its molarity; seawater: the
+			// Reference Composition scaled to its salinity.
+			x, err := thermo.NewSolution(s, tK)
+			if err != nil {
+				return f, nil, prefixed("feed", err)
+			}
+			mm, err := x.ToMolality(v, u)
+			if err != nil {
+				return f, nil, prefixed("feed", err)
+			}
+			if s.Osmotic.Kind == library.ModelSeawater {
+				if r, ok := library.LookupFeed("seawater"); ok && r.ReferenceSalinityGPerKg > 0 {
+					f.IonsPerKg = true
+					f.Ions = r.IonsAt(x.FromMolality(mm, thermo.GPerKg))
+				}
+			} else {
+				c := x.MolarityMolPerM3(mm) / 1000
+				for _, ion := range s.Ions {
+					f.Ions = append(f.Ions, library.IonAmount{Symbol: ion.Symbol, Charge: ion.Charge, Mol: c * float64(ion.Count)})
+				}
+			}
+		}
+	}
+	if fs.PH != nil {
+		if err := FeedPH.Check(*fs.PH); err != nil {
+			return f, nil, err
+		}
+		f.PH = *fs.PH
+	}
+	return f, rec, nil
+}
+
+func resolveBasis(b *BasisSpec, feedHasPi bool) (screen.Basis, error) {
+	if b == nil {
+		if feedHasPi {
+			return screen.Basis{Kind: screen.BasisOsmoticPressure, MultipleOfFeed: BasisMultiple.Default}, nil
+		}
+		return screen.Basis{Kind: screen.BasisOsmoticPressure, PiPa: BasisPressure.Default * thermo.PascalPerBar}, nil
+	}
+	kinds := []string{"osmotic-pressure", "concentration", "water-flux"}
+	val := func() (float64, error) {
+		if b.Value == nil {
+			return 0, invalid("basis.value", "> 0", "the basis needs a value")
+		}
+		v := *b.Value
+		if !(v > 0) || math.IsInf(v, 0) {
+			return 0, invalid("basis.value", "> 0", "the basis value must be positive and finite (got %g)", v)
+		}
+		return v, nil
+	}
+	switch strings.ToLower(b.Kind) {
+	case "osmotic-pressure":
+		if b.MultipleOfFeed != nil {
+			k := *b.MultipleOfFeed
+			if b.Value != nil {
+				return screen.Basis{}, invalid("basis.multiple_of_feed", nil, "give either value (with unit) or multiple_of_feed, not both")
+			}
+			if !(k > 1) || math.IsInf(k, 0) {
+				return screen.Basis{}, invalid("basis.multiple_of_feed", "> 1", "the multiple of the feed's osmotic pressure must exceed 1 (got %g)", k)
+			}
+			if !feedHasPi {
+				return screen.Basis{}, invalid("basis.multiple_of_feed", nil, "the feed has no osmotic pressure; give the target in bar instead")
+			}
+			return screen.Basis{Kind: screen.BasisOsmoticPressure, MultipleOfFeed: k}, nil
+		}
+		v, e := val()
+		if e != nil {
+			return screen.Basis{}, e
+		}
+		unit := b.Unit
+		if unit == "" {
+			unit = "bar"
+		}
+		f, ok := PressureUnits[strings.ToLower(unit)]
+		if !ok {
+			return screen.Basis{}, invalid("basis.unit", PressureUnitNames, "unknown pressure unit %q", b.Unit)
+		}
+		return screen.Basis{Kind: screen.BasisOsmoticPressure, PiPa: v * f}, nil
+	case "concentration":
+		v, e := val()
+		if e != nil {
+			return screen.Basis{}, e
+		}
+		if b.Unit == "" {
+			return screen.Basis{}, invalid("basis.unit", thermo.UnitNames(), "a concentration basis needs a unit")
+		}
+		u, err := thermo.ParseUnit(b.Unit)
+		if err != nil {
+			return screen.Basis{}, invalid("basis.unit", thermo.UnitNames(), "%v", err)
+		}
+		return screen.Basis{Kind: screen.BasisConcentration, Concentration: v, Unit: u}, nil
+	case "water-flux":
+		v, e := val()
+		if e != nil {
+			return screen.Basis{}, e
+		}
+		switch strings.ToLower(b.Unit) {
+		case "", "lmh":
+			v *= thermo.MPerSPerLMH
+		case "m/s":
+		default:
+			return screen.Basis{}, invalid("basis.unit", []string{"LMH", "m/s"}, "unknown flux unit %q", b.Unit)
+		}
+		if !(v < 1e-3) {
+			return screen.Basis{}, invalid("basis.value", "< 3600 LMH", "the target water flux is beyond any FO membrane")
+		}
+		return screen.Basis{Kind: screen.BasisWaterFlux, JwMPerS: v}, nil
+	}
+	return screen.Basis{}, invalid("basis.kind", kinds, "unknown basis kind %q", b.Kind)
+}
+
+// customSolute builds a van 't Hoff-only library record from a user's
+// definition.
+func customSolute(i int, cs *CustomSolute, lib *library.Library) (*library.Solute, error) {
+	field := func(f string) string { return fmt.Sprintf("custom_solutes[%d].%s", i, f) }
+	if strings.TrimSpace(cs.ID) == "" {
+		return nil, invalid(field("id"), nil, "a custom solute needs an id")
+	}
+	if _, clash := lib.Lookup(cs.ID); clash {
+		return nil, invalid(field("id"), nil, "%q is already a library solute; choose another id", cs.ID)
+	}
+	if !(cs.MolarMassGPerMol > 0 && cs.MolarMassGPerMol < 1e7) {
+		return nil, invalid(field("molar_mass_g_per_mol"), "> 0", "a positive molar mass is required")
+	}
+	if !(cs.DiffusivityM2PerS > 0 && cs.DiffusivityM2PerS < 1e-8) {
+		return nil, invalid(field("diffusivity_m2_per_s"), "(0, 1e-8) m²/s", "a diffusion coefficient in (0, 1e-8) m²/s is required")
+	}
+	s := &library.Solute{ID: cs.ID, Name: cs.Name, Family: "custom", Formula: cs.ID, MolarMassGPerMol: cs.MolarMassGPerMol,
+		HazardFlags: cs.HazardFlags, Hazards: []string{}, Regeneration: []string{}, Aliases: []string{}}
+	if s.Name == "" {
+		s.Name = cs.ID + " (user-defined)"
+	}
+	for _, ion := range cs.Ions {
+		s.Ions = append(s.Ions, library.Ion{Symbol: ion.Symbol, Charge: ion.Charge, Count: ion.Count})
+	}
+	s.Osmotic = library.OsmoticModel{Kind: library.ModelNone, Reason: "user-defined solute: van 't Hoff osmotic pressure only",
+		VantHoffNu: cs.VantHoffFactor}
+	if cs.VantHoffFactor < 0 || cs.VantHoffFactor > 10 {
+		return nil, invalid(field("van_t_hoff_factor"), "0–10", "van_t_hoff_factor = %g is outside 0–10", cs.VantHoffFactor)
+	}
+	if t := cs.PiTable; t != nil {
+		if _, err := thermo.ParseUnit(t.Unit); err != nil || t.Unit == thermo.OsmolPerKg.String() {
+			return nil, invalid(field("pi_table.unit"), []string{"mol/kg", "mol/L", "g/L", "g/kg", "wt%"}, "unknown table unit %q", t.Unit)
+		}
+		if !(t.TemperatureC >= thermo.MinTemperatureC && t.TemperatureC <= thermo.MaxTemperatureC) {
+			return nil, invalid(field("pi_table.temperature_c"), "0–100 °C", "table temperature %g °C is outside 0–100 °C", t.TemperatureC)
+		}
+		if len(t.Points) < 2 || len(t.Points) > 1000 {
+			return nil, invalid(field("pi_table.points"), "2–1000 points", "a measured table needs 2 to 1000 points")
+		}
+		prevC, prevP := 0.0, 0.0
+		for j, p := range t.Points {
+			if !(p.Concentration > prevC) || !(p.OsmoticPressureBar > prevP) || math.IsInf(p.Concentration, 0) || p.OsmoticPressureBar > 1e4 {
+				return nil, invalid(fmt.Sprintf("custom_solutes[%d].pi_table.points[%d]", i, j), "increasing, positive",
+					"concentration and osmotic pressure must both be positive and increase from point to point")
+			}
+			prevC, prevP = p.Concentration, p.OsmoticPressureBar
+		}
+		s.Osmotic = library.OsmoticModel{Kind: library.ModelTable, Table: t, VantHoffNu: cs.VantHoffFactor}
+	}
+	switch {
+	case cs.Miscible:
+		s.Solubility.Miscible = true
+	case cs.SolubilityMolPerKg != nil && *cs.SolubilityMolPerKg > 0:
+		s.Solubility.Points = []library.SolubilityPoint{{TemperatureC: 25, MolalityMolPerKg: *cs.SolubilityMolPerKg}}
+	default:
+		return nil, invalid(field("solubility_mol_per_kg"), "> 0", "give solubility_mol_per_kg (or miscible: true)")
+	}
+	s.Diffusivity.D0M2PerS = cs.DiffusivityM2PerS
+	if cs.PriceUSDPerKgMin != nil || cs.PriceUSDPerKgMax != nil {
+		if cs.PriceUSDPerKgMin == nil || cs.PriceUSDPerKgMax == nil {
+			return nil, invalid(field("price_usd_per_kg_max"), nil, "give both price_usd_per_kg_min and price_usd_per_kg_max")
+		}
+		s.Price = &library.Price{USDPerKgMin: *cs.PriceUSDPerKgMin, USDPerKgMax: *cs.PriceUSDPerKgMax}
+	}
+	src := cs.Source
+	if src == "" {
+		src = "user-defined (no source given)"
+	}
+	s.Sources = map[string]string{"record": src}
+	if err := s.Validate(); err != nil {
+		return nil, invalid(fmt.Sprintf("custom_solutes[%d]", i), nil, "%v", err)
+	}
+	return s, nil
+}
+
+// ResolveSweep checks a sweep and returns it in SI.
+func ResolveSweep(sw *SweepSpec) (screen.SweepSpec, error) {
+	spec := screen.SweepSpec{From: sw.From, To: sw.To, Points: sw.Points}
+	switch strings.ToLower(sw.Variable) {
+	case "concentration":
+		spec.Variable = screen.SweepConcentration
+		if sw.Unit == "" {
+			return spec, invalid("sweep.unit", thermo.UnitNames(), "a concentration sweep needs a unit")
+		}
+		u, err := thermo.ParseUnit(sw.Unit)
+		if err != nil {
+			return spec, invalid("sweep.unit", thermo.UnitNames(), "%v", err)
+		}
+		spec.Unit = u
+	case "temperature":
+		spec.Variable = screen.SweepTemperature
+		spec.From += thermo.ZeroCelsiusK
+		spec.To += thermo.ZeroCelsiusK
+	case "s":
+		spec.Variable = screen.SweepS
+		spec.From *= 1e-6
+		spec.To *= 1e-6
+	case "crossflow":
+		spec.Variable = screen.SweepCrossflow
+	default:
+		return spec, invalid("sweep.variable", []string{"concentration", "temperature", "s", "crossflow"}, "unknown sweep variable %q", sw.Variable)
+	}
+	return spec, nil
+}
+
+// invalid returns an *errs.InputError on field with its limit.
+func invalid(field string, limit any, format string, a ...any) error {
+	return errs.InvalidText(field, "", limit, format, a...)
+}
+
+// prefixed puts prefix in front of an input error's field.
+func prefixed(prefix string, err error) error {
+	if ie, ok := err.(*errs.InputError); ok {
+		return ie.Prefix(prefix)
+	}
+	return err
+}
+
+// PressureUnits maps each accepted pressure unit (lower case) to pascals.
+var PressureUnits = map[string]float64{"bar": 1e5, "kpa": 1e3, "mpa": 1e6, "atm": 101325, "psi": 6894.757293168, "pa": 1}
+
+// PressureUnitNames spell the keys of PressureUnits as people write them.
+var PressureUnitNames = []string{"bar", "kPa", "MPa", "atm", "psi", "Pa"}
