@@ -10,11 +10,7 @@ import (
 )
 
 // Concentration is how a concentration travels: a solute, a value and a unit.
-type Concentration struct {
-	Solute        string   `json:"solute"`
-	Concentration *float64 `json:"concentration"`
-	Unit          string   `json:"unit"`
-}
+type Concentration = scenario.Concentration
 
 // OsmoticRequest asks for the osmotic properties of one solution.
 type OsmoticRequest struct {

@@ -1,0 +1,256 @@
+package scenario
+
+import (
+	"drawsift/engine/library"
+	"drawsift/engine/thermo"
+	"drawsift/engine/transport"
+	"drawsift/engine/warn"
+)
+
+// Concentration is how a concentration travels: a solute, a value and a
+// unit (the contract's JSON names; engine/api re-exports the type).
+type Concentration struct {
+	Solute        string   `json:"solute"`
+	Concentration *float64 `json:"concentration"`
+	Unit          string   `json:"unit"`
+}
+
+// FluxSpec is a flux request as the contract gives it (engine/api
+// re-exports it as FluxRequest).
+type FluxSpec struct {
+	Membrane     *MembraneSpec  `json:"membrane"`
+	Orientation  string         `json:"orientation"`
+	Draw         *Concentration `json:"draw"`
+	Feed         *Concentration `json:"feed,omitempty"` // omitted → deionised water
+	TemperatureC *float64       `json:"temperature_c,omitempty"`
+	KDrawMPerS   *float64       `json:"k_draw_m_per_s,omitempty"`
+	KFeedMPerS   *float64       `json:"k_feed_m_per_s,omitempty"`
+	Channel      *ChannelSpec   `json:"channel,omitempty"`
+	ExternalCP   *bool          `json:"external_cp,omitempty"` // default true
+	// DiffusivityM2PerS overrides the draw solute's D.
+	DiffusivityM2PerS *float64 `json:"diffusivity_m2_per_s,omitempty"`
+	// BFeedLMH is B for the feed solute when it differs from the draw solute.
+	BFeedLMH     *float64 `json:"b_feed_lmh,omitempty"`
+	OsmoticModel string   `json:"osmotic_model,omitempty"` // "real" (default) or "van-t-hoff"
+	DeltaPBar    *float64 `json:"delta_p_bar,omitempty"`   // hydraulic pressure on the draw side
+}
+
+// Side is one prepared stream: its solute, its solution at the
+// temperature and its bulk state.
+type Side struct {
+	Solute *library.Solute
+	X      *thermo.Solution
+	M      float64 // molality, mol/kg
+	CSI    float64 // molarity, mol/m³
+	State  thermo.State
+}
+
+// PrepareSide checks one stream's solute and concentration (fields under
+// prefix) and evaluates its bulk state at tK.
+func PrepareSide(prefix string, c *Concentration, tK float64) (*Side, error) {
+	s, err := LookupSolute(prefix+".solute", c.Solute)
+	if err != nil {
+		return nil, err
+	}
+	v, u, err := ParseConcentration(prefix, c.Concentration, c.Unit)
+	if err != nil {
+		return nil, err
+	}
+	x, err := thermo.NewSolution(s, tK)
+	if err != nil {
+		return nil, prefixed(prefix, err)
+	}
+	m, err := x.ToMolality(v, u)
+	if err != nil {
+		return nil, prefixed(prefix, err)
+	}
+	st, err := x.StateAt(m, u)
+	if err != nil {
+		return nil, prefixed(prefix, err)
+	}
+	return &Side{Solute: s, X: x, M: m, CSI: st.MolarityMolPerM3, State: st}, nil
+}
+
+// Fluid is the side's bulk solution as the Sherwood correlations see it,
+// with diffusivity d.
+func (sd *Side) Fluid(d float64) transport.Fluid {
+	return transport.Fluid{DensityKgPerM3: sd.State.DensityKgPerM3, ViscosityPaS: sd.State.ViscosityPaS, DiffusivityM2PerS: d}
+}
+
+// Pi is the side's π(c) under the osmotic model.
+func (sd *Side) Pi(model OsmoticModel, tK float64) transport.OsmoticFunc {
+	if model == VantHoff {
+		k := sd.X.Nu() * thermo.GasConstant * tK
+		return func(c float64) (float64, float64) { return k * c, k }
+	}
+	return sd.X.OsmoticFunc
+}
+
+// Flux is a resolved flux request: the transport problem and what the
+// response reports about it.
+type Flux struct {
+	Input        transport.Input
+	Draw, Feed   *Side
+	Membrane     *Membrane
+	Model        OsmoticModel
+	TemperatureK float64
+	DeltaPBar    float64
+	// SameSolute: the feed holds the draw solute (one species).
+	SameSolute                     bool
+	BDrawMPerS, BFeedMPerS         float64
+	BDrawEstimated, BFeedEstimated bool
+	KDraw, KFeed                   SideK
+	Warnings                       []warn.Warning
+}
+
+// ResolveFlux checks a flux request and builds its transport problem:
+// the membrane (preset and overrides), both streams at temperature, D at
+// the bulk concentration (or the override), B per solute, k per side
+// (given, from the channel, or none) and π per species under the osmotic
+// model. A feed that is omitted is deionised water.
+func ResolveFlux(req *FluxSpec) (*Flux, error) {
+	mem, err := ResolveMembrane(req.Membrane)
+	if err != nil {
+		return nil, err
+	}
+	orient, err := ParseOrientation("orientation", req.Orientation)
+	if err != nil {
+		return nil, err
+	}
+	model, err := ParseOsmoticModel(req.OsmoticModel)
+	if err != nil {
+		return nil, err
+	}
+	tK, err := TemperatureK("temperature_c", req.TemperatureC)
+	if err != nil {
+		return nil, err
+	}
+	if req.Draw == nil {
+		return nil, invalid("draw", nil, "a draw solution is required: {\"solute\", \"concentration\", \"unit\"}")
+	}
+	draw, err := PrepareSide("draw", req.Draw, tK)
+	if err != nil {
+		return nil, err
+	}
+	feedSpec := req.Feed
+	if feedSpec == nil {
+		zero := 0.0
+		feedSpec = &Concentration{Solute: draw.Solute.ID, Concentration: &zero, Unit: "mol/L"}
+	}
+	feed, err := PrepareSide("feed", feedSpec, tK)
+	if err != nil {
+		return nil, err
+	}
+	deltaP, err := DeltaP.Or(req.DeltaPBar)
+	if err != nil {
+		return nil, err
+	}
+	f := &Flux{Draw: draw, Feed: feed, Membrane: mem, Model: model, TemperatureK: tK, DeltaPBar: deltaP,
+		SameSolute: feed.Solute == draw.Solute}
+	f.Warnings = append(f.Warnings, draw.State.Warnings...)
+	if !f.SameSolute {
+		f.Warnings = append(f.Warnings, feed.State.Warnings...)
+	}
+
+	// Diffusivities: the library's concentration- and temperature-dependent
+	// D at the bulk concentration, or the override.
+	dDraw := draw.X.DiffusivityM2PerS(draw.M)
+	if req.DiffusivityM2PerS != nil {
+		if err := Diffusivity.Check(*req.DiffusivityM2PerS); err != nil {
+			return nil, err
+		}
+		dDraw = *req.DiffusivityM2PerS
+	}
+	f.BDrawMPerS, f.BDrawEstimated, err = mem.BFor("membrane.b_lmh", draw.Solute, mem.BGivenMPerS)
+	if err != nil {
+		return nil, err
+	}
+	if f.BDrawEstimated {
+		f.Warnings = append(f.Warnings, warn.New(warn.BEstimated, draw.Solute.ID, "B for %s is an estimate (%.3g LMH) scaled from the NaCl value by diffusivity",
+			draw.Solute.ID, f.BDrawMPerS/thermo.MPerSPerLMH))
+	}
+
+	// Mass transfer on each side.
+	extCP := req.ExternalCP == nil || *req.ExternalCP
+	var ch transport.Channel
+	if extCP && (req.KDrawMPerS == nil || req.KFeedMPerS == nil) {
+		if ch, err = ResolveChannel(req.Channel); err != nil {
+			return nil, err
+		}
+	}
+	dFeed := feed.X.DiffusivityM2PerS(feed.M)
+	if f.SameSolute && req.DiffusivityM2PerS != nil {
+		dFeed = dDraw
+	}
+	if f.KDraw, err = ResolveK(&KDraw, req.KDrawMPerS, ch, extCP, false, draw.Fluid(dDraw)); err != nil {
+		return nil, err
+	}
+	if f.KFeed, err = ResolveK(&KFeed, req.KFeedMPerS, ch, extCP, true, feed.Fluid(dFeed)); err != nil {
+		return nil, err
+	}
+	for _, k := range []struct {
+		side string
+		k    SideK
+	}{{"k_draw", f.KDraw}, {"k_feed", f.KFeed}} {
+		for _, w := range k.k.MassTransfer.Warnings {
+			f.Warnings = append(f.Warnings, w.About(k.side))
+		}
+	}
+
+	f.Input = transport.Input{
+		AMPerSPa: mem.AMPerSPa, SM: mem.SM, Orientation: orient,
+		DeltaPPa: deltaP * thermo.PascalPerBar, KDrawMPerS: f.KDraw.KMPerS, KFeedMPerS: f.KFeed.KMPerS,
+	}
+	species := []transport.Species{{Name: draw.Solute.ID, DrawBulkMolPerM3: draw.CSI, BMPerS: f.BDrawMPerS,
+		DM2PerS: dDraw, Pi: draw.Pi(model, tK)}}
+	if req.BFeedLMH != nil && (f.SameSolute || feed.CSI == 0) {
+		f.Warnings = append(f.Warnings, warn.New(warn.Unused, "b_feed_lmh", "b_feed_lmh is not used: the feed holds no solute other than the draw's"))
+	}
+	if f.SameSolute {
+		species[0].FeedBulkMolPerM3 = feed.CSI
+	} else if feed.CSI > 0 {
+		var over *float64
+		if req.BFeedLMH != nil {
+			if err := FeedB.Check(*req.BFeedLMH); err != nil {
+				return nil, err
+			}
+			b := *req.BFeedLMH * thermo.MPerSPerLMH
+			over = &b
+		}
+		if f.BFeedMPerS, f.BFeedEstimated, err = mem.BFor("b_feed_lmh", feed.Solute, over); err != nil {
+			return nil, err
+		}
+		species = append(species, transport.Species{Name: feed.Solute.ID, FeedBulkMolPerM3: feed.CSI, BMPerS: f.BFeedMPerS,
+			DM2PerS: dFeed, Pi: feed.Pi(model, tK)})
+	}
+	f.Input.Species = species
+	return f, nil
+}
+
+// ResultWarnings flags a solved flux problem's results a user should look
+// at twice: reverse flow, and interface concentrations past solubility or
+// past the osmotic model's data.
+func (f *Flux) ResultWarnings(res *transport.Result) []warn.Warning {
+	var w []warn.Warning
+	if res.JwMPerS < 0 {
+		w = append(w, warn.New(warn.ReverseFlow, "", "water flows from draw to feed (reverse flow): the hydraulic pressure or the feed's osmotic pressure exceeds what the draw provides at the membrane"))
+	}
+	check := func(x *thermo.Solution, id string, cSI float64, where string) {
+		m, ok := x.MolalityFromMolarity(cSI)
+		if !ok || m > x.SolubilityMolPerKg() {
+			w = append(w, warn.New(warn.Solubility, id, "%s at the %s (%.3g mol/L) exceeds its solubility: precipitation or scaling is possible", id, where, cSI/1000))
+		} else if m > x.ValidMolPerKg() {
+			w = append(w, warn.New(warn.Extrapolated, id, "%s at the %s (%.3g mol/kg) is above the osmotic model's data limit; π there is extrapolated", id, where, m))
+		}
+	}
+	sp := res.Species[0]
+	check(f.Draw.X, f.Draw.Solute.ID, sp.FeedFaceMolPerM3, "feed-side face of the active layer")
+	check(f.Draw.X, f.Draw.Solute.ID, sp.DrawFaceMolPerM3, "draw-side face of the active layer")
+	if len(res.Species) == 2 {
+		check(f.Feed.X, f.Feed.Solute.ID, res.Species[1].FeedFaceMolPerM3, "feed-side face of the active layer")
+	}
+	if f.DeltaPBar > 0 && res.JwMPerS < 0 {
+		w = append(w, warn.New(warn.ReverseFlow, "delta_p_bar", "ΔP exceeds the osmotic pressure difference across the membrane: no PRO power is produced"))
+	}
+	return w
+}
