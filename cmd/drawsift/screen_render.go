@@ -141,6 +141,14 @@ func screenCSV(w io.Writer, r *api.ScreenResponse) error {
 	for _, s := range r.Sources {
 		cw.Write([]string{"source: " + s.Field, s.Reference})
 	}
+	for _, w := range r.Warnings {
+		cw.Write([]string{"warning", w})
+	}
+	for _, c := range r.Candidates {
+		for _, w := range c.Warnings {
+			cw.Write([]string{"warning: " + c.Solute, w})
+		}
+	}
 	for _, c := range r.Cautions {
 		cw.Write([]string{"caution", c})
 	}
@@ -189,12 +197,32 @@ func screenTable(w io.Writer, r *api.ScreenResponse) error {
 			fmt.Fprintf(&b, "  %s — %s: %s\n", x.Solute, x.Reason, x.Detail)
 		}
 	}
+	if n := countWarnings(r); n > 0 {
+		fmt.Fprintln(&b, "warnings:")
+		for _, w := range r.Warnings {
+			fmt.Fprintf(&b, "  %s\n", w)
+		}
+		for _, c := range r.Candidates {
+			for _, w := range c.Warnings {
+				fmt.Fprintf(&b, "  [%s] %s\n", c.Solute, w)
+			}
+		}
+	}
 	for _, c := range r.Cautions {
 		fmt.Fprintln(&b, "! "+c)
 	}
 	fmt.Fprintf(&b, "engine %s; full record (scenario, model choices, sources): --format json\n", r.EngineVersion)
 	_, err := w.Write(b.Bytes())
 	return err
+}
+
+// countWarnings counts the screen's warnings and its candidates'.
+func countWarnings(r *api.ScreenResponse) int {
+	n := len(r.Warnings)
+	for _, c := range r.Candidates {
+		n += len(c.Warnings)
+	}
+	return n
 }
 
 func basisText(b *api.BasisReport) string {
