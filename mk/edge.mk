@@ -10,7 +10,7 @@ EDGE_DIR  ?= build/edge
 EDGE_TAGS ?= stdjson
 FUZZTIME  ?= 20s
 FUZZ_PKG  := ./engine/api/httpapi/
-FUZZ_TARGETS := FuzzOsmotic FuzzFlux FuzzScreen FuzzOsmoticFields FuzzFluxFields FuzzTransport
+FUZZ_TARGETS := FuzzOsmotic FuzzFlux FuzzScreen FuzzBatch FuzzOsmoticFields FuzzFluxFields FuzzTransport
 
 .PHONY: edge edge-size test-edge fuzz
 

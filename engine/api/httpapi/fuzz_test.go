@@ -42,6 +42,21 @@ func checkAnswer(t *testing.T, status int, body []byte) {
 		t.Fatalf("%v in %s", err, body)
 	}
 	if status == http.StatusOK {
+		if items, ok := v.([]any); ok { // a batch: each item {ok, result}
+			for i, it := range items {
+				m, ok := it.(map[string]any)
+				res, has := m["result"].(map[string]any)
+				if !ok || !has {
+					t.Fatalf("batch item %d is not {ok, result}: %s", i, body)
+				}
+				if m["ok"] != true {
+					if e, ok := res["error"].(map[string]any); !ok || e["message"] == "" {
+						t.Fatalf("batch item %d failed without the contract's error object: %s", i, body)
+					}
+				}
+			}
+			return
+		}
 		if _, ok := v.(map[string]any); !ok {
 			t.Fatalf("200 answer is not an object: %s", body)
 		}
@@ -111,6 +126,17 @@ func FuzzScreen(f *testing.F) {
 		`{"feed":{"solute":"NaCl","concentration":0.1,"unit":"mol/L"},"membrane":{"preset":"tfc-standard"},"candidates":["KCl"],"basis":{"kind":"water-flux","value":10,"unit":"LMH"}}`,
 		`{"candidates":["NaCl"],"basis":{"kind":"concentration","value":1,"unit":"mol/L"}}`,
 		`{"no_such_field":1}`)
+}
+
+// FuzzBatch: a batch answers every item or refuses the whole with the
+// contract's error; no item's failure escapes as a 500.
+func FuzzBatch(f *testing.F) {
+	fuzzPost(f, "/v1/batch",
+		`[{"op":"osmotic","body":`+osmoticNaCl+`},{"op":"flux","body":`+fluxBase+`}]`,
+		`[{"op":"screen","body":{}},{"op":"osmotic","body":{"solute":"NaCl","concentration":-1,"unit":"mol/kg"}}]`,
+		`[]`,
+		`[{"op":"osmotic"}]`,
+		`{"op":"osmotic"}`)
 }
 
 // FuzzFluxFields builds well-formed flux requests from fuzzed values, to
