@@ -144,9 +144,7 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 	resp.DrawFaceOsmoticPressureBar = res.PiDrawFacePa / thermo.PascalPerBar
 	resp.FeedFaceOsmoticPressureBar = res.PiFeedFacePa / thermo.PascalPerBar
 	resp.EffectiveDrivingForceBar = (res.PiDrawFacePa-res.PiFeedFacePa)/thermo.PascalPerBar - deltaP
-	if bulk := res.PiDrawBulkPa - res.PiFeedBulkPa - deltaP*thermo.PascalPerBar; bulk != 0 {
-		resp.FluxEfficiency = res.JwMPerS / (in.AMPerSPa * bulk)
-	}
+	resp.FluxEfficiency = res.FluxEfficiency(in.AMPerSPa, in.DeltaPPa)
 	if res.PiDrawBulkPa > 0 {
 		resp.DrawDilutionModulus = res.PiDrawFacePa / res.PiDrawBulkPa
 	}

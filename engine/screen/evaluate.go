@@ -542,8 +542,8 @@ func (e *env) metricsAt(c *candidate, ori transport.Orientation, m float64, p *p
 	}
 	out.SRSFMolPerM3 = r.JsMolPerM2S / r.JwMPerS
 	out.SRSFKgPerM3 = out.SRSFMolPerM3 * x.MolarMassKgPerMol()
-	if drive := r.PiDrawBulkPa - r.PiFeedBulkPa; drive > 0 {
-		out.FluxEfficiency = r.JwMPerS / (sc.Membrane.AMPerSPa * p.fA * drive)
+	if r.PiDrawBulkPa > r.PiFeedBulkPa {
+		out.FluxEfficiency = r.FluxEfficiency(sc.Membrane.AMPerSPa*p.fA, 0)
 	}
 	if c.hasPrice {
 		lo, hi := c.priceMin, c.priceMax
