@@ -70,8 +70,9 @@ func (m *Metrics) Objective(o Objective) (float64, bool) {
 	return 0, false
 }
 
-// JPerKWh converts energy: 1 kWh = 3.6 MJ (exact).
-const JPerKWh = 3.6e6
+// JPerKWh converts energy: 1 kWh = 3.6 MJ (thermo.JPerKWh, the engine's
+// one conversion table).
+const JPerKWh = thermo.JPerKWh
 
 // Reasons a candidate is excluded.
 const (

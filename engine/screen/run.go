@@ -194,8 +194,8 @@ func metricWarnings(c *candidate, m *Metrics) []string {
 	return w
 }
 
-// KWhPerM3 converts J/m³ to kWh/m³.
-func KWhPerM3(j float64) float64 { return j / JPerKWh }
+// KWhPerM3 converts J/m³ to kWh/m³ (by thermo.JPerKWh).
+func KWhPerM3(j float64) float64 { return j / thermo.JPerKWh }
 
-// LMH converts m/s to L m⁻² h⁻¹.
+// LMH converts m/s to L m⁻² h⁻¹ (by thermo.MPerSPerLMH).
 func LMH(v float64) float64 { return v / thermo.MPerSPerLMH }
