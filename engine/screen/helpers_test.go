@@ -1,7 +1,6 @@
 package screen
 
 import (
-	"math"
 	"testing"
 
 	"drawsift/engine/library"
@@ -72,8 +71,4 @@ func seawaterFeed(t testing.TB) Feed {
 		feed.Ions = append(feed.Ions, FeedIon{ion.Symbol, ion.Charge, ion.Concentration / ion.MolarMassGPerMol / 1000 * scale})
 	}
 	return feed
-}
-
-func close(got, want, tol float64) bool {
-	return math.Abs(got-want) <= tol*math.Max(1, math.Abs(want)) || math.Abs(got-want) <= tol*math.Abs(want)
 }
