@@ -9,7 +9,7 @@ BIN      := bin
 
 PORT ?= 8080
 
-.PHONY: all build run demo demo-screen test test-native test-wasm vet lint refcheck refdata bench bench-wasm clean
+.PHONY: all build run demo demo-screen test test-native test-wasm vet check tidy staticcheck lint refcheck refdata bench bench-wasm clean
 
 all: build
 
@@ -32,13 +32,27 @@ demo: build
 	./$(BIN)/drawsift demo
 
 # Everything CI checks.
-test: vet lint test-native test-wasm refcheck fuzz
+test: vet check lint test-native test-wasm refcheck fuzz
 
 vet:
 	@test -z "$$(gofmt -l $$(git ls-files '*.go' 2>/dev/null || find . -name '*.go'))" || (echo 'gofmt needed:'; gofmt -l .; false)
 	$(GO) vet ./...
 	GOOS=js GOARCH=wasm $(GO) vet ./engine/... ./wasm/...
 	@$(GO) mod tidy -diff >/dev/null || (echo 'go mod tidy would change go.mod or go.sum:'; $(GO) mod tidy -diff; false)
+
+check: tidy staticcheck
+
+# go.mod and go.sum are as go mod tidy leaves them.
+tidy:
+	$(GO) mod tidy -diff
+
+# staticcheck, pinned as a tool in go.mod (go tool staticcheck), natively
+# and for js/wasm. go tool would build the tool itself for GOOS=js, so the
+# js/wasm run uses a native build of the same pinned version.
+staticcheck:
+	$(GO) tool staticcheck ./...
+	$(GO) build -o $(BIN)/staticcheck honnef.co/go/tools/cmd/staticcheck
+	GOOS=js GOARCH=wasm ./$(BIN)/staticcheck ./engine/... ./wasm/...
 
 # The engine stays pure: no syscall/js, and only the standard library,
 # gonum and our own packages (plus go-json behind engine/internal/jsonx).

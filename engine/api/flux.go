@@ -1,12 +1,11 @@
 package api
 
 import (
-	"drawsift/engine/scenario"
-	"drawsift/engine/warn"
-
 	"drawsift/engine/library"
+	"drawsift/engine/scenario"
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
+	"drawsift/engine/warn"
 )
 
 // MembraneSpec is a membrane in a request: a preset, custom values, or a

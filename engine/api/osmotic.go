@@ -1,12 +1,12 @@
 package api
 
 import (
-	"drawsift/engine/scenario"
-	"drawsift/engine/warn"
 	"math"
 
 	"drawsift/engine/library"
+	"drawsift/engine/scenario"
 	"drawsift/engine/thermo"
+	"drawsift/engine/warn"
 )
 
 // Concentration is how a concentration travels: a solute, a value and a unit.

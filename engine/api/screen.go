@@ -2,8 +2,6 @@ package api
 
 import (
 	"context"
-	"drawsift/engine/scenario"
-	"drawsift/engine/warn"
 	"errors"
 	"fmt"
 	"math"
@@ -12,8 +10,10 @@ import (
 
 	"drawsift/engine/errs"
 	"drawsift/engine/library"
+	"drawsift/engine/scenario"
 	"drawsift/engine/screen"
 	"drawsift/engine/thermo"
+	"drawsift/engine/warn"
 )
 
 // ScreenResponse is the ranked screen.

@@ -70,3 +70,23 @@ func BenchmarkRobustness(b *testing.B) {
 	}
 	b.ReportMetric(float64(n), "candidates")
 }
+
+// BenchmarkWaterFluxBasis: one ranked screen of the whole library at an
+// equal water flux of 5 LMH from seawater, both orientations: each
+// candidate's molality comes from the bracketed flux-basis search
+// (molalityForFlux), a transport solve per evaluation.
+func BenchmarkWaterFluxBasis(b *testing.B) {
+	sc := baseScenario(b)
+	sc.Feed = seawaterFeed(b)
+	sc.Orientations = []transport.Orientation{transport.ALFS, transport.ALDS}
+	sc.Basis = Basis{Kind: BasisWaterFlux, JwMPerS: 5 * thermo.MPerSPerLMH}
+	l := lib(b)
+	b.ReportAllocs()
+	for b.Loop() {
+		r, err := Run(context.Background(), sc, l, nil)
+		if err != nil {
+			b.Fatal(err)
+		}
+		sinkResult = r
+	}
+}

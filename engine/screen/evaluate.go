@@ -1,13 +1,14 @@
 package screen
 
 import (
-	"drawsift/engine/warn"
 	"fmt"
 	"math"
 
+	"drawsift/engine/internal/roots"
 	"drawsift/engine/library"
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
+	"drawsift/engine/warn"
 )
 
 // Metrics are one candidate's results at its basis concentration in one
@@ -73,8 +74,9 @@ func (m *Metrics) Objective(o Objective) (float64, bool) {
 	return 0, false
 }
 
-// JPerKWh converts energy: 1 kWh = 3.6 MJ (exact).
-const JPerKWh = 3.6e6
+// JPerKWh converts energy: 1 kWh = 3.6 MJ (thermo.JPerKWh, the engine's
+// one conversion table).
+const JPerKWh = thermo.JPerKWh
 
 // Reasons a candidate is excluded.
 const (
@@ -379,62 +381,47 @@ func (e *env) basisMolality(c *candidate, ori transport.Orientation, p *perturb,
 
 // molalityForFlux finds the draw molality whose water flux equals the
 // target: Jw rises monotonically with the draw concentration, so a
-// bracketed search on [0, m_top] (Illinois false position with bisection
-// safeguard) converges; m_top is the solubility, or the top of the
-// working range for a miscible solute.
+// bracketed search on [0, m_top] (Brent's method, roots.Brent) converges
+// to |Jw − target| ≤ 1e-10·target or a bracket of 1e-13·m_top; m_top is
+// the solubility, or the top of the working range for a miscible solute.
+// A search that does not converge excludes the candidate as not evaluated,
+// with the solver's error.
 func (e *env) molalityForFlux(c *candidate, ori transport.Orientation, p *perturb, scratch *transport.Result) (float64, *exclusion) {
 	target := e.sc.Basis.JwMPerS
 	top := c.x.SolubilityMolPerKg()
 	if math.IsInf(top, 1) {
 		top = c.x.CapMolPerKg()
 	}
-	f := func(m float64) (float64, error) {
+	var solveErr error
+	f := func(m float64) float64 {
 		if err := e.solve(c, ori, m, p, scratch); err != nil {
-			return 0, err
+			solveErr = err
+			return math.NaN() // ends the search; solveErr says why
 		}
-		return scratch.JwMPerS - target, nil
+		return scratch.JwMPerS - target
 	}
-	fhi, err := f(top)
-	if err != nil {
-		return 0, &exclusion{ReasonNotEvaluated, err.Error()}
+	fhi := f(top)
+	if solveErr != nil {
+		return 0, &exclusion{ReasonNotEvaluated, solveErr.Error()}
 	}
 	if fhi < 0 {
 		return 0, &exclusion{ReasonUnreachable, fmt.Sprintf("%s gives at most %.4g LMH at its solubility; %.4g LMH is needed",
 			c.sol.ID, (fhi+target)/thermo.MPerSPerLMH, target/thermo.MPerSPerLMH)}
 	}
-	lo, hi := 0.0, top
-	flo, err := f(lo)
+	flo := f(0)
+	if solveErr != nil {
+		return 0, &exclusion{ReasonNotEvaluated, solveErr.Error()}
+	}
+	r, err := roots.Brent(f, roots.Bracket{Lo: 0, Hi: top, FLo: flo, FHi: fhi},
+		&roots.Settings{Solver: "flux-basis search", FAbsTol: 1e-10 * target, XAbsTol: 1e-13 * top, Scale: target,
+			MaxIterations: fluxBasisMaxIterations})
+	if solveErr != nil {
+		return 0, &exclusion{ReasonNotEvaluated, solveErr.Error()}
+	}
 	if err != nil {
-		return 0, &exclusion{ReasonNotEvaluated, err.Error()}
+		return 0, &exclusion{ReasonNotEvaluated, fmt.Sprintf("%s: %v", c.sol.ID, err)}
 	}
-	side := 0
-	for it := 0; it < 100; it++ {
-		m := hi - fhi*(hi-lo)/(fhi-flo)
-		if !(m > lo && m < hi) || it%8 == 7 {
-			m = 0.5 * (lo + hi)
-		}
-		fm, err := f(m)
-		if err != nil {
-			return 0, &exclusion{ReasonNotEvaluated, err.Error()}
-		}
-		if math.Abs(fm) <= 1e-10*target || hi-lo <= 1e-13*top {
-			return m, nil
-		}
-		if fm > 0 {
-			hi, fhi = m, fm
-			if side == 1 {
-				flo *= 0.5
-			}
-			side = 1
-		} else {
-			lo, flo = m, fm
-			if side == -1 {
-				fhi *= 0.5
-			}
-			side = -1
-		}
-	}
-	return 0.5 * (lo + hi), nil
+	return r.X, nil
 }
 
 // solve runs the flux model for candidate c at draw molality m.

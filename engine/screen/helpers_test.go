@@ -1,7 +1,6 @@
 package screen
 
 import (
-	"math"
 	"testing"
 
 	"drawsift/engine/library"
@@ -69,8 +68,4 @@ func seawaterFeed(t testing.TB) Feed {
 	feed := Feed{ID: f.ID, Solute: sw, Concentration: 35, Unit: thermo.GPerKg, PH: f.PH, IonsPerKg: true}
 	feed.Ions = f.IonsAt(35)
 	return feed
-}
-
-func close(got, want, tol float64) bool {
-	return math.Abs(got-want) <= tol*math.Max(1, math.Abs(want)) || math.Abs(got-want) <= tol*math.Abs(want)
 }

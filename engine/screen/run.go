@@ -2,15 +2,15 @@ package screen
 
 import (
 	"context"
-	"drawsift/engine/errs"
-	"drawsift/engine/warn"
 	"errors"
 	"fmt"
 	"math"
 
+	"drawsift/engine/errs"
 	"drawsift/engine/library"
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
+	"drawsift/engine/warn"
 )
 
 // Ranked is one candidate that passed every hard limit.
@@ -197,8 +197,8 @@ func metricWarnings(c *candidate, m *Metrics) []warn.Warning {
 	return w
 }
 
-// KWhPerM3 converts J/m³ to kWh/m³.
-func KWhPerM3(j float64) float64 { return j / JPerKWh }
+// KWhPerM3 converts J/m³ to kWh/m³ (by thermo.JPerKWh).
+func KWhPerM3(j float64) float64 { return j / thermo.JPerKWh }
 
-// LMH converts m/s to L m⁻² h⁻¹.
+// LMH converts m/s to L m⁻² h⁻¹ (by thermo.MPerSPerLMH).
 func LMH(v float64) float64 { return v / thermo.MPerSPerLMH }

@@ -1,11 +1,11 @@
 package screen
 
 import (
-	"drawsift/engine/warn"
 	"math"
 
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
+	"drawsift/engine/warn"
 	"drawsift/engine/water"
 )
 

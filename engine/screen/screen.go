@@ -17,11 +17,11 @@
 package screen
 
 import (
-	"drawsift/engine/errs"
 	"fmt"
 	"math"
 	"strings"
 
+	"drawsift/engine/errs"
 	"drawsift/engine/library"
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"

@@ -2,12 +2,13 @@ package screen
 
 import (
 	"context"
-	"drawsift/engine/errs"
 	"math"
 	"math/rand/v2"
 	"sort"
 	"testing"
 
+	"drawsift/engine/errs"
+	"drawsift/engine/library"
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
 )
@@ -393,6 +394,34 @@ func TestDaviesAndGypsum(t *testing.T) {
 	want := -4 * a * (0.2/1.2 - 0.012)
 	if math.Abs(lg-want) > 1e-12 {
 		t.Errorf("log γ2 = %g, want %g", lg, want)
+	}
+
+	// The saturation index itself, through a whole screen: a feed of
+	// 10 mmol/L CaSO4 (no feed solute, so no polarization factor is
+	// applied to its ions) and a membrane with B = 0 (no draw ions reach
+	// the feed face), so the feed-face ions are the feed's. By hand:
+	//
+	//	I = ½(0.01·2² + 0.01·2²) = 0.04 mol/L, √I = 0.2
+	//	log γ2 = −A·2²·(√I/(1 + √I) − 0.3·I)       Davies (1962), Ion
+	//	       = −4·0.509·(0.16667 − 0.012)        Association (Butterworths)
+	//	       = −0.31490                           A = 0.509 as above
+	//	log IAP = 2·(log γ2 + log 0.01) = −4.62980
+	//	SI = log IAP − log Ksp = −4.62980 + 4.58 = −0.0498
+	//
+	// with log Ksp(gypsum, 25 °C) = −4.58, the WATEQ4F value (Ball &
+	// Nordstrom 1991, USGS OFR 91-183) as printed in PHREEQC's phreeqc.dat
+	// (Parkhurst & Appelo 2013) — the value the code uses. A's ±0.003
+	// moves SI by 2·4·0.003·0.1547 ≈ 0.004, the tolerance.
+	sc := baseScenario(t, "NaCl")
+	sc.Feed = Feed{ID: "custom", PH: 7, Ions: []library.IonAmount{{Symbol: "Ca+2", Charge: 2, Mol: 0.01}, {Symbol: "SO4-2", Charge: -2, Mol: 0.01}}}
+	sc.Membrane.B = library.SoluteB{}
+	r := run(t, sc).Ranked[0]
+	s := r.Metrics.Scaling
+	if r.BMPerS != 0 || !s.Has[Gypsum] || math.Abs(s.IonicStrengthMolPerL-0.04) > 1e-12 {
+		t.Fatalf("B = %g, gypsum evaluated %v, I = %g mol/L: want 0, true, 0.04", r.BMPerS, s.Has[Gypsum], s.IonicStrengthMolPerL)
+	}
+	if got := s.SI[Gypsum]; math.Abs(got-(-0.0498)) > 0.004 {
+		t.Errorf("gypsum SI = %.4f, want −0.0498 ± 0.004 (hand computation)", got)
 	}
 }
 

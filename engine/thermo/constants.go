@@ -8,17 +8,20 @@
 // boundary carry their unit.
 package thermo
 
-// Physical constants.
+// Physical constants. Unit conversions are in units.go.
 const (
-	// GasConstant R in J mol⁻¹ K⁻¹ (exact since the 2019 SI redefinition:
-	// N_A·k_B, CODATA 2018).
-	GasConstant = 8.31446261815324
+	// AvogadroConstant N_A in mol⁻¹ (exact: defining constant of the 2019
+	// SI; BIPM, The International System of Units, 9th ed., 2019, Table 1).
+	AvogadroConstant = 6.02214076e23
+	// BoltzmannConstant k_B in J K⁻¹ (exact: defining constant of the 2019
+	// SI; same table).
+	BoltzmannConstant = 1.380649e-23
+	// GasConstant R = N_A·k_B in J mol⁻¹ K⁻¹: 8.31446261815324, exact
+	// (CODATA 2018 lists it as exact; the product of two exact constants,
+	// evaluated exactly by the compiler).
+	GasConstant = AvogadroConstant * BoltzmannConstant
 	// ZeroCelsiusK is 0 °C in kelvin (exact by definition).
 	ZeroCelsiusK = 273.15
-	// PascalPerBar (exact).
-	PascalPerBar = 1e5
-	// PascalPerAtm (exact, standard atmosphere).
-	PascalPerAtm = 101325
 	// ReferenceK is 25 °C, the reference temperature of the 25 °C data.
 	ReferenceK = 298.15
 )

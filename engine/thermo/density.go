@@ -1,8 +1,10 @@
 package thermo
 
 import (
+	"errors"
 	"math"
 
+	"drawsift/engine/internal/roots"
 	"drawsift/engine/library"
 )
 
@@ -86,17 +88,26 @@ func (d *density) massConc(w float64) (k, dk float64) {
 	return w / v, (v - w*dv) / (v * v)
 }
 
+// errAboveRange is massFraction's report that k exceeds ρ·w at wMax.
+var errAboveRange = errors.New("mass concentration above the working range")
+
 // massFraction inverts massConc: the mass fraction w at which ρ·w = k
-// (kg/m³), searched in [0, wMax]. ok is false if k exceeds ρ·w at wMax.
+// (kg/m³), searched in [0, wMax]. It returns errAboveRange (and wMax) if k
+// exceeds ρ·w at wMax, and an *errs.ConvergenceError if the search fails
+// (only possible for a density model that returns a non-finite value).
 // For the Laliberté model the inversion is a quadratic in w, solved in
-// closed form; other models use safeguarded Newton iteration.
-func (d *density) massFraction(k, wMax float64) (w float64, ok bool) {
+// closed form; other models use a safeguarded Newton iteration
+// (roots.Newton: K(w) increases with w).
+func (d *density) massFraction(k, wMax float64) (w float64, err error) {
 	if k <= 0 {
-		return 0, true
+		return 0, nil
 	}
 	if d.kind == densWater {
 		w = k / d.rhoW
-		return w, w <= wMax
+		if w > wMax {
+			return w, errAboveRange
+		}
+		return w, nil
 	}
 	if d.kind == densLaliberte {
 		// k[(1−w)(c0w+c1)E + ρw w(w+a)] = w(c0w+c1)E ρw, collected as
@@ -109,36 +120,24 @@ func (d *density) massFraction(k, wMax float64) (w float64, ok bool) {
 		if disc >= 0 && qb < 0 {
 			w = 2 * qc / (-qb + math.Sqrt(disc))
 			if w >= 0 && w <= wMax {
-				return w, true
+				return w, nil
 			}
 		}
 	}
 	kMax, _ := d.massConc(wMax)
 	if k > kMax {
-		return wMax, false
+		return wMax, errAboveRange
 	}
-	// Safeguarded Newton on K(w) − k over [lo, hi] (K increases with w).
-	lo, hi := 0.0, wMax
-	w = math.Min(k/d.rhoW, wMax)
-	for i := 0; i < 60; i++ {
+	f := func(w float64) (float64, float64) {
 		kw, dk := d.massConc(w)
-		f := kw - k
-		if f > 0 {
-			hi = w
-		} else {
-			lo = w
-		}
-		if math.Abs(f) <= 1e-13*k {
-			break
-		}
-		next := w - f/dk
-		if !(next > lo && next < hi) || dk <= 0 {
-			next = 0.5 * (lo + hi)
-		}
-		if next == w {
-			break
-		}
-		w = next
+		return kw - k, dk
 	}
-	return w, true
+	// K(0) = 0.
+	br := roots.Bracket{Lo: 0, Hi: wMax, FLo: -k, FHi: kMax - k}
+	r, err := roots.Newton(f, br, math.Min(k/d.rhoW, wMax), &roots.Settings{
+		Solver: "density inverse", FAbsTol: 1e-13 * k, Scale: k})
+	if err != nil {
+		return 0, err
+	}
+	return r.X, nil
 }

@@ -1,10 +1,10 @@
 package thermo
 
 import (
-	"drawsift/engine/errs"
 	"fmt"
 	"math"
 
+	"drawsift/engine/errs"
 	"drawsift/engine/library"
 	"drawsift/engine/water"
 )
@@ -180,10 +180,15 @@ func (x *Solution) DensityKgPerM3(m float64) float64 {
 }
 
 // MolalityFromMolarity converts c (mol/m³) to molality; ok is false if c
-// lies above the working range (beyond solubility and the model's data).
+// lies above the working range (beyond solubility and the model's data),
+// and also, with m = 0, if the density inversion fails (see ToMolality,
+// which returns that error).
 func (x *Solution) MolalityFromMolarity(c float64) (m float64, ok bool) {
-	w, ok := x.dens.massFraction(c*x.mKg, x.wCap)
-	return x.molalityFromMassFraction(w), ok
+	w, err := x.dens.massFraction(c*x.mKg, x.wCap)
+	if err != nil && err != errAboveRange {
+		return 0, false
+	}
+	return x.molalityFromMassFraction(w), err == nil
 }
 
 // PiOfMolarity returns π (Pa) at molar concentration c (mol/m³). It is
@@ -199,6 +204,12 @@ func (x *Solution) PiOfMolarity(c float64) float64 {
 // OsmoticFunc returns π (Pa) and dπ/dc (Pa·m³/mol) at molar concentration
 // c (mol/m³); see PiOfMolarity. It has the signature of
 // transport.OsmoticFunc.
+//
+// Special case: if the inversion of the density model fails (possible only
+// for a model that returns a non-finite density, which library validation
+// rules out) it returns NaN, which transport.Solve reports as an
+// *errs.InputError naming the species, rather than a π at an unconverged
+// concentration.
 func (x *Solution) OsmoticFunc(c float64) (pi, dpdc float64) {
 	if c <= 0 {
 		_, dg := x.mPhi(0)
@@ -210,7 +221,10 @@ func (x *Solution) OsmoticFunc(c float64) (pi, dpdc float64) {
 	if x.kind == library.ModelNone {
 		return x.nu * c * x.rt, x.nu * x.rt
 	}
-	w, _ := x.dens.massFraction(c*x.mKg, x.wCap)
+	w, err := x.dens.massFraction(c*x.mKg, x.wCap)
+	if err != nil && err != errAboveRange { // c < capC: never above the range
+		return math.NaN(), math.NaN()
+	}
 	m := x.molalityFromMassFraction(w)
 	pi, dpdm := x.piM(m)
 	_, dk := x.dens.massConc(w)
@@ -220,7 +234,10 @@ func (x *Solution) OsmoticFunc(c float64) (pi, dpdc float64) {
 }
 
 // ToMolality converts a concentration in unit u to molality (mol/kg). It
-// fails for negative or non-finite values and for mass fractions ≥ 1.
+// fails with an *errs.InputError for negative or non-finite values, for
+// concentrations beyond the working range and for mass fractions ≥ 1, and
+// with an *errs.ConvergenceError if the inversion of π (osmol/kg) or of
+// the density model (mol/L, g/L) does not converge.
 func (x *Solution) ToMolality(v float64, u Unit) (float64, error) {
 	if !(v >= 0) || math.IsInf(v, 0) {
 		return 0, &errs.InputError{Field: "concentration", Value: v, Limit: "≥ 0 and finite", Msg: "concentration must be a finite, non-negative number"}
@@ -236,6 +253,9 @@ func (x *Solution) ToMolality(v float64, u Unit) (float64, error) {
 	case OsmolPerKg:
 		// ν·m·φ = v ⇔ π = (R T M_w/V̄_w)·v: invert π(m).
 		m, err := x.MolalityForPi(v * x.piPerG)
+		if _, ok := err.(*errs.ConvergenceError); ok {
+			return 0, err
+		}
 		if err != nil {
 			lim := x.FromMolality(x.solMolal, u)
 			return 0, &errs.InputError{Field: "concentration", Value: v, Limit: trimFloat(lim) + " " + u.String(),
@@ -247,8 +267,11 @@ func (x *Solution) ToMolality(v float64, u Unit) (float64, error) {
 		if u == GPerL {
 			k = v
 		}
-		ww, ok := x.dens.massFraction(k, x.wCap)
-		if !ok {
+		ww, err := x.dens.massFraction(k, x.wCap)
+		if err != nil && err != errAboveRange {
+			return 0, err
+		}
+		if err == errAboveRange {
 			lim := math.Min(x.solMolal, x.capMolal)
 			return 0, &errs.InputError{Field: "concentration", Value: v, Limit: trimFloat(x.FromMolality(lim, u)) + " " + u.String(),
 				Msg: fmt.Sprintf("%s is beyond its solubility at %s °C", x.Solute.ID, trimFloat(x.tC))}

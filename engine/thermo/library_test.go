@@ -1,12 +1,12 @@
 package thermo
 
 import (
-	"drawsift/engine/errs"
 	"errors"
 	"fmt"
 	"math"
 	"testing"
 
+	"drawsift/engine/errs"
 	"drawsift/engine/library"
 )
 

@@ -1,15 +1,15 @@
 package thermo
 
 import (
-	"drawsift/engine/errs"
-	"drawsift/engine/warn"
 	"fmt"
 	"math"
 	"sort"
 
 	"gonum.org/v1/gonum/interp"
 
+	"drawsift/engine/errs"
 	"drawsift/engine/library"
+	"drawsift/engine/warn"
 	"drawsift/engine/water"
 )
 
@@ -51,6 +51,8 @@ type Solution struct {
 	capPi      float64 // π at capC, Pa
 	capSlope   float64 // dπ/dc at capC, Pa·m³/mol
 	wCap       float64 // mass fraction at capMolal
+	topMolal   float64 // top of MolalityForPi's bracket: solMolal, or capMolal if miscible
+	topPi      float64 // π at topMolal, Pa
 
 	// Warnings that hold for every concentration at this temperature.
 	Warnings []warn.Warning
@@ -114,6 +116,11 @@ func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 	x.prepareViscosity()
 	x.solMolal = x.solubilityAt(tC)
 	x.prepareCap()
+	x.topMolal = x.solMolal
+	if math.IsInf(x.topMolal, 0) {
+		x.topMolal = x.capMolal
+	}
+	x.topPi, _ = x.piMono(x.topMolal)
 	return x, nil
 }
 

@@ -1,13 +1,13 @@
 package thermo
 
 import (
-	"drawsift/engine/errs"
-	"drawsift/engine/warn"
 	"fmt"
 	"math"
 	"strconv"
 
+	"drawsift/engine/errs"
 	"drawsift/engine/library"
+	"drawsift/engine/warn"
 	"drawsift/engine/water"
 )
 

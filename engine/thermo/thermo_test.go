@@ -2,7 +2,6 @@ package thermo
 
 import (
 	"bufio"
-	"drawsift/engine/errs"
 	"errors"
 	"math"
 	"os"
@@ -10,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"drawsift/engine/errs"
 	"drawsift/engine/library"
 )
 

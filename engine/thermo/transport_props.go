@@ -1,7 +1,6 @@
 package thermo
 
 import (
-	"drawsift/engine/warn"
 	"fmt"
 	"math"
 	"sort"
@@ -9,6 +8,7 @@ import (
 	"gonum.org/v1/gonum/interp"
 
 	"drawsift/engine/library"
+	"drawsift/engine/warn"
 	"drawsift/engine/water"
 )
 

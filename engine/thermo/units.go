@@ -53,10 +53,81 @@ func ParseUnit(s string) (Unit, error) {
 	return 0, fmt.Errorf("unknown unit %q (accepted: %s)", s, strings.Join(unitNames[:], ", "))
 }
 
-// Pressure and flux conversions used at the boundaries.
+// Unit conversions: the engine's one table of them (DEVELOPERS.md,
+// "SI inside, units in every name outside"). Each constant XPerY is the
+// number of X in one Y, so a value in Y times XPerY is in X; every factor
+// here is exact by the definitions of the units.
 const (
-	// MPerSPerLMH: 1 L m⁻² h⁻¹ = 1e-3 m³ / (m² · 3600 s).
-	MPerSPerLMH = 1e-3 / 3600
-	// PerPaPerPerBar converts A from LMH/bar to m s⁻¹ Pa⁻¹.
+	// PascalPerBar: 1 bar = 1e5 Pa (exact).
+	PascalPerBar = 1e5
+	// PascalPerKPa, PascalPerMPa: SI prefixes (exact).
+	PascalPerKPa = 1e3
+	PascalPerMPa = 1e6
+	// PascalPerAtm: the standard atmosphere, 101 325 Pa (exact; 10th CGPM,
+	// 1954, Resolution 4).
+	PascalPerAtm = 101325
+	// PascalPerPsi: one pound-force per square inch, 6894.757293168361… Pa
+	// (exact from the international pound 0.45359237 kg and inch 0.0254 m
+	// of 1959 and standard gravity 9.80665 m/s² (3rd CGPM, 1901); NIST
+	// SP 811, 2008, appendix B.8, prints 6.894 757 E+03).
+	PascalPerPsi = 0.45359237 * 9.80665 / (0.0254 * 0.0254)
+
+	// SecondsPerHour (exact).
+	SecondsPerHour = 3600
+	// MPerSPerLMH: 1 L m⁻² h⁻¹ = 1e-3 m³ / (m² · 3600 s) in m/s.
+	MPerSPerLMH = 1e-3 / SecondsPerHour
+	// MPerSPaPerLMHPerBar converts A from LMH/bar to m s⁻¹ Pa⁻¹.
 	MPerSPaPerLMHPerBar = MPerSPerLMH / PascalPerBar
+	// MmolPerM2HPerMolPerM2S converts a molar flux from mol m⁻² s⁻¹ to
+	// mmol m⁻² h⁻¹ (3.6e6).
+	MmolPerM2HPerMolPerM2S = 1e3 * SecondsPerHour
+	// GPerM2HPerKgPerM2S converts a mass flux from kg m⁻² s⁻¹ to g m⁻² h⁻¹
+	// (gMH; 3.6e6). For a molar flux J (mol m⁻² s⁻¹) of a solute of molar
+	// mass M (kg/mol): J·M·GPerM2HPerKgPerM2S.
+	GPerM2HPerKgPerM2S = 1e3 * SecondsPerHour
+
+	// MolPerM3PerMolPerL: 1 mol/L = 1000 mol/m³.
+	MolPerM3PerMolPerL = 1e3
+	// JPerKWh: 1 kWh = 3.6 MJ.
+	JPerKWh = 1e3 * SecondsPerHour
+	// MPaSPerPaS: 1 Pa·s = 1000 mPa·s (viscosity).
+	MPaSPerPaS = 1e3
 )
+
+// pressureUnits lists the accepted pressure units, their spelling in
+// messages and their size in pascals.
+var pressureUnits = [...]struct {
+	name  string
+	paPer float64
+}{
+	{"bar", PascalPerBar},
+	{"kPa", PascalPerKPa},
+	{"MPa", PascalPerMPa},
+	{"atm", PascalPerAtm},
+	{"psi", PascalPerPsi},
+	{"Pa", 1},
+}
+
+// ParsePressureUnit returns the size in pascals of the pressure unit name
+// (bar, kPa, MPa, atm, psi, Pa), case-insensitively and ignoring
+// surrounding space; ok is false for any other name (the empty one
+// included: a default unit is the caller's choice).
+func ParsePressureUnit(name string) (paPer float64, ok bool) {
+	k := strings.TrimSpace(name)
+	for _, u := range pressureUnits {
+		if strings.EqualFold(k, u.name) {
+			return u.paPer, true
+		}
+	}
+	return 0, false
+}
+
+// PressureUnitNames lists the accepted pressure units as spelled in
+// messages: bar, kPa, MPa, atm, psi, Pa.
+func PressureUnitNames() []string {
+	names := make([]string, len(pressureUnits))
+	for i, u := range pressureUnits {
+		names[i] = u.name
+	}
+	return names
+}

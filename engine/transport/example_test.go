@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
 )
 
@@ -12,16 +13,16 @@ import (
 // external CP on both faces. Js/Jw = B/(A·ν·R·T) = 6.05 mol/m³ either way
 // (Phillip et al. 2010).
 func ExampleSolve() {
-	const rt = 8.314462618 * 298.15 // J/mol at 25 °C
+	const rt = thermo.GasConstant * 298.15 // J/mol at 25 °C
 	vantHoff := func(c float64) (float64, float64) { return 2 * rt * c, 2 * rt }
 	for _, ori := range []transport.Orientation{transport.ALFS, transport.ALDS} {
 		in := &transport.Input{
-			AMPerSPa:    1 * transport.MPerSPaPerLMHBar,
+			AMPerSPa:    1 * thermo.MPerSPaPerLMHPerBar,
 			SM:          500e-6,
 			Orientation: ori,
 			KDrawMPerS:  5e-5, KFeedMPerS: 5e-5,
 			Species: []transport.Species{{Name: "NaCl-like", DrawBulkMolPerM3: 1000,
-				BMPerS: 0.3 * transport.MPerSPerLMH, DM2PerS: 1.47e-9, Pi: vantHoff}},
+				BMPerS: 0.3 * thermo.MPerSPerLMH, DM2PerS: 1.47e-9, Pi: vantHoff}},
 		}
 		r, err := transport.Solve(in)
 		if err != nil {
@@ -29,7 +30,7 @@ func ExampleSolve() {
 			continue
 		}
 		fmt.Printf("%v: Jw = %.4g LMH, Js = %.4g mmol/(m² h), Js/Jw = %.4g mol/m³\n", ori,
-			r.JwMPerS/transport.MPerSPerLMH, r.JsMolPerM2S*3.6e6, r.JsMolPerM2S/r.JwMPerS)
+			r.JwMPerS/thermo.MPerSPerLMH, r.JsMolPerM2S*thermo.MmolPerM2HPerMolPerM2S, r.JsMolPerM2S/r.JwMPerS)
 	}
 	_, err := transport.Solve(&transport.Input{AMPerSPa: -1, SM: 1e-4, KDrawMPerS: math.Inf(1), KFeedMPerS: math.Inf(1)})
 	fmt.Println(err)

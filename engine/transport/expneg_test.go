@@ -23,8 +23,24 @@ func TestExpNeg(t *testing.T) {
 			t.Fatalf("expNeg(%g) = %.17g, want %.17g", x, got, want)
 		}
 	}
-	for _, x := range []float64{0, -0.0, 1e-300, -1e-300, -1e-10, -0.3465, -0.3466, -1, -708.3, -709, -740, -745, -746, -1e6, math.Inf(-1)} {
+	negZero := math.Copysign(0, -1) // the literal -0.0 is +0 in Go
+	for _, x := range []float64{0, negZero, 1e-300, -1e-300, -1e-10, -0.3465, -0.3466, -1, -708.3, -709, -740, -745, -746, -1e6, math.Inf(-1)} {
 		check(x)
+	}
+	// Signs: e^{±0} = 1 exactly, and an underflow is +0, never −0 (a −0
+	// would flip the sign of a later division).
+	for _, x := range []float64{0, negZero} {
+		if got := expNeg(x); got != 1 {
+			t.Errorf("expNeg(%v) = %v, want 1", x, got)
+		}
+	}
+	for _, x := range []float64{-746, -1e6, math.Inf(-1)} {
+		if got := expNeg(x); got != 0 || math.Signbit(got) {
+			t.Errorf("expNeg(%v) = %v, want +0", x, got)
+		}
+	}
+	if !math.Signbit(negZero) {
+		t.Fatal("negZero is not negative zero")
 	}
 	for i := 0; i < 200000; i++ {
 		check(-750 * rng.Float64() * rng.Float64())

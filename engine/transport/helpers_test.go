@@ -3,16 +3,22 @@ package transport
 import (
 	"math"
 	"testing"
+
+	"drawsift/engine/thermo"
 )
 
-// Test constants. R is the SI exact value (2019 SI; from memory), T = 25 °C.
+// Test constants, T = 25 °C. R is a parameter of the test problems and
+// must equal testdata/flux_scipy.py's R_GAS, with which the reference
+// table was made: the CODATA 2018 value rounded to 10 figures (the exact
+// value, thermo.GasConstant = 8.31446261815324, differs by 2e-11
+// relative).
 const (
 	rGas  = 8.314462618
 	tK    = 298.15
 	rt    = rGas * tK
-	lmh   = MPerSPerLMH
-	lmhb  = MPerSPaPerLMHBar
-	bar   = PaPerBar
+	lmh   = thermo.MPerSPerLMH
+	lmhb  = thermo.MPerSPaPerLMHPerBar
+	bar   = thermo.PascalPerBar
 	um    = 1e-6
 	dNaCl = 1.47e-9 // m²/s; a typical salt diffusivity, test input only
 )

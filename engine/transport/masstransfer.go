@@ -1,9 +1,10 @@
 package transport
 
 import (
-	"drawsift/engine/warn"
 	"fmt"
 	"math"
+
+	"drawsift/engine/warn"
 )
 
 // Channel is a rectangular crossflow channel on the faces of the membrane.

@@ -1,12 +1,13 @@
 package transport
 
 import (
-	"drawsift/engine/errs"
-	"drawsift/engine/warn"
 	"errors"
 	"math"
 	"strings"
 	"testing"
+
+	"drawsift/engine/errs"
+	"drawsift/engine/warn"
 )
 
 // Water-like fluid at 25 °C: ρ = 997 kg/m³, μ = 0.89 mPa·s (from memory),

@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"drawsift/engine/errs"
+	"drawsift/engine/thermo"
 )
 
 // Root finder for the water flux. The residual
@@ -156,7 +157,7 @@ func (s *solver) facePi(i int, f face) (pi, dpi float64) {
 
 func (s *solver) piError() error {
 	_, _, _, _, fpi := speciesFields(s.badPi - 1)
-	return inErr(fpi, s.badC/molPerM3PerMolPerL, "a model returning a finite π ≥ 0 at this concentration (mol/L)")
+	return inErr(fpi, s.badC/thermo.MolPerM3PerMolPerL, "a model returning a finite π ≥ 0 at this concentration (mol/L)")
 }
 
 func (s *solver) solve(out *Result) error {

@@ -55,24 +55,18 @@
 // Everything is SI inside the package and every name carries its unit:
 // A in m s⁻¹ Pa⁻¹ (1 LMH/bar = 1/(3.6e6·1e5) m s⁻¹ Pa⁻¹), B in m/s
 // (1 LMH = 1/3.6e6 m/s), S in m, D in m²/s, k in m/s, concentrations in
-// mol/m³ (= mmol/L), pressures in Pa.
+// mol/m³ (= mmol/L), pressures in Pa. The conversion factors are
+// engine/thermo's (units.go).
 package transport
 
 import (
-	"drawsift/engine/errs"
 	"fmt"
 	"math"
 	"strconv"
 	"strings"
-)
 
-// Unit conversions used in error messages and tests. 1 LMH = 1 L m⁻² h⁻¹
-// = 1e-3 m³ / (m² · 3600 s) (exact by definition of the units).
-const (
-	MPerSPerLMH        = 1 / 3.6e6         // m/s in one LMH
-	MPerSPaPerLMHBar   = 1 / (3.6e6 * 1e5) // m s⁻¹ Pa⁻¹ in one LMH/bar
-	PaPerBar           = 1e5               // exact
-	molPerM3PerMolPerL = 1e3               // exact
+	"drawsift/engine/errs"
+	"drawsift/engine/thermo"
 )
 
 // Orientation is the side the membrane's active layer faces.
@@ -263,8 +257,8 @@ func validate(in *Input) error {
 		return &errs.InputError{Field: "request", Text: "nil", Limit: "non-nil", Err: ErrInvalidInput}
 	}
 	if !(in.AMPerSPa > 0 && in.AMPerSPa <= maxAMPerSPa) {
-		return inErr("membrane.a_lmh_per_bar", in.AMPerSPa/MPerSPaPerLMHBar,
-			fmt.Sprintf("> 0 and ≤ %g LMH/bar", maxAMPerSPa/MPerSPaPerLMHBar))
+		return inErr("membrane.a_lmh_per_bar", in.AMPerSPa/thermo.MPerSPaPerLMHPerBar,
+			fmt.Sprintf("> 0 and ≤ %g LMH/bar", maxAMPerSPa/thermo.MPerSPaPerLMHPerBar))
 	}
 	if !(in.SM > 0 && in.SM <= maxSM) {
 		return inErr("membrane.s_um", in.SM*1e6, fmt.Sprintf("> 0 and ≤ %g µm", maxSM*1e6))
@@ -274,7 +268,7 @@ func validate(in *Input) error {
 			Limit: `"AL-FS" or "AL-DS"`, Err: ErrInvalidInput}
 	}
 	if !(math.Abs(in.DeltaPPa) <= maxAbsDeltaPa) {
-		return inErr("delta_p_bar", in.DeltaPPa/PaPerBar, fmt.Sprintf("finite with |ΔP| ≤ %g bar", maxAbsDeltaPa/PaPerBar))
+		return inErr("delta_p_bar", in.DeltaPPa/thermo.PascalPerBar, fmt.Sprintf("finite with |ΔP| ≤ %g bar", maxAbsDeltaPa/thermo.PascalPerBar))
 	}
 	kLimit := func() string { return fmt.Sprintf("≥ %g m/s (+Inf for no external CP)", minKMPerS) }
 	if !(in.KDrawMPerS >= minKMPerS) {
@@ -290,17 +284,17 @@ func validate(in *Input) error {
 		sp := &in.Species[i]
 		fb, fd, fdraw, ffeed, fpi := speciesFields(i)
 		if !(sp.BMPerS >= 0 && sp.BMPerS <= maxBMPerS) {
-			return inErr(fb, sp.BMPerS/MPerSPerLMH, fmt.Sprintf("≥ 0 and ≤ %g LMH", maxBMPerS/MPerSPerLMH))
+			return inErr(fb, sp.BMPerS/thermo.MPerSPerLMH, fmt.Sprintf("≥ 0 and ≤ %g LMH", maxBMPerS/thermo.MPerSPerLMH))
 		}
 		if !(sp.DM2PerS >= minDM2PerS && sp.DM2PerS <= maxDM2PerS) {
 			return inErr(fd, sp.DM2PerS, fmt.Sprintf("≥ %g and ≤ %g m²/s", minDM2PerS, maxDM2PerS))
 		}
-		cLimit := func() string { return fmt.Sprintf("≥ 0 and ≤ %g mol/L", maxBulkMolM3/molPerM3PerMolPerL) }
+		cLimit := func() string { return fmt.Sprintf("≥ 0 and ≤ %g mol/L", maxBulkMolM3/thermo.MolPerM3PerMolPerL) }
 		if !(sp.DrawBulkMolPerM3 >= 0 && sp.DrawBulkMolPerM3 <= maxBulkMolM3) {
-			return inErr(fdraw, sp.DrawBulkMolPerM3/molPerM3PerMolPerL, cLimit())
+			return inErr(fdraw, sp.DrawBulkMolPerM3/thermo.MolPerM3PerMolPerL, cLimit())
 		}
 		if !(sp.FeedBulkMolPerM3 >= 0 && sp.FeedBulkMolPerM3 <= maxBulkMolM3) {
-			return inErr(ffeed, sp.FeedBulkMolPerM3/molPerM3PerMolPerL, cLimit())
+			return inErr(ffeed, sp.FeedBulkMolPerM3/thermo.MolPerM3PerMolPerL, cLimit())
 		}
 		if sp.Pi == nil {
 			return &errs.InputError{Field: fpi, Text: "nil", Limit: "an osmotic-pressure function", Err: ErrInvalidInput}

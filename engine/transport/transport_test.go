@@ -1,10 +1,11 @@
 package transport
 
 import (
-	"drawsift/engine/errs"
 	"errors"
 	"math"
 	"testing"
+
+	"drawsift/engine/errs"
 )
 
 // Specific reverse solute flux: for a van 't Hoff draw and ΔP = 0 the model
