@@ -4,7 +4,6 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"strings"
 
 	"drawsift/engine/internal/jsonx"
 	"drawsift/engine/scenario"
@@ -96,8 +95,8 @@ func Defaults() *DefaultsResponse {
 	for _, o := range t.ParetoObjectives {
 		r.ParetoObjectives = append(r.ParetoObjectives, o.Key())
 	}
-	for _, name := range scenario.PressureUnitNames {
-		r.PressureUnitsPa[name] = scenario.PressureUnits[strings.ToLower(name)]
+	for _, name := range thermo.PressureUnitNames() {
+		r.PressureUnitsPa[name], _ = thermo.ParsePressureUnit(name)
 	}
 	return r
 }

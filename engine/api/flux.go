@@ -118,7 +118,7 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 	in, draw, feed, mem, deltaP := &f.Input, f.Draw, f.Feed, f.Membrane, f.DeltaPBar
 	resp := &FluxResponse{Orientation: in.Orientation.String(), OsmoticModel: f.Model.String(), TemperatureC: f.TemperatureK - thermo.ZeroCelsiusK,
 		DeltaPBar: deltaP, EngineVersion: EngineVersion}
-	resp.Membrane = MembraneReport{ALMHPerBar: mem.AMPerSPa / thermo.MPerSPaPerLMHPerBar, BLMH: f.BDrawMPerS / thermo.MPerSPerLMH, SUM: mem.SM * 1e6}
+	resp.Membrane = MembraneReport{ALMHPerBar: mem.AMPerSPa / thermo.MPerSPaPerLMHPerBar, BLMH: f.BDrawMPerS / thermo.MPerSPerLMH, SUM: mem.SM / thermo.MPerUM}
 	if mem.Record != nil {
 		resp.Membrane.Preset = mem.Record.ID
 	}
@@ -132,8 +132,8 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 	js := res.JsMolPerM2S // mol m⁻² s⁻¹, draw → feed
 	mDraw := draw.X.MolarMassKgPerMol()
 	resp.WaterFluxLMH = jwLMH
-	resp.ReverseSoluteFluxMmolPerM2H = js * 3600 * 1e3
-	resp.ReverseSoluteFluxGMH = js * 3600 * mDraw * 1e3
+	resp.ReverseSoluteFluxMmolPerM2H = js * thermo.MmolPerM2HPerMolPerM2S
+	resp.ReverseSoluteFluxGMH = js * mDraw * thermo.GPerM2HPerKgPerM2S
 	if res.JwMPerS != 0 {
 		resp.SpecificReverseSoluteFluxMolPerL = js / res.JwMPerS / 1000
 		resp.SpecificReverseSoluteFluxGPerL = js * mDraw / res.JwMPerS
@@ -189,7 +189,7 @@ func profile(id, role string, r transport.SpeciesResult, sp transport.Species, b
 		DrawBulkMolPerL: sp.DrawBulkMolPerM3 / 1000, DrawSupportMolPerL: r.SupportInterfaceMolPerM3 / 1000,
 		DrawFaceMolPerL: r.DrawFaceMolPerM3 / 1000, FeedFaceMolPerL: r.FeedFaceMolPerM3 / 1000,
 		FeedBulkMolPerL: sp.FeedBulkMolPerM3 / 1000,
-		FluxMmolPerM2H:  r.FluxMolPerM2S * 3600 * 1e3, FluxGMH: r.FluxMolPerM2S * 3600 * molarMass * 1e3,
+		FluxMmolPerM2H:  r.FluxMolPerM2S * thermo.MmolPerM2HPerMolPerM2S, FluxGMH: r.FluxMolPerM2S * molarMass * thermo.GPerM2HPerKgPerM2S,
 		BLMH: bLMH, BEstimated: est, DiffusivityM2PerS: sp.DM2PerS,
 	}
 }

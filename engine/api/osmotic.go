@@ -107,7 +107,7 @@ func osmoticResponse(s *library.Solute, x *thermo.Solution, st thermo.State, tK 
 		MassFractionPercent:    100 * st.MassFraction,
 		OsmolalityOsmolPerKg:   st.OsmolalityOsmolPerKg,
 		DensityKgPerM3:         st.DensityKgPerM3,
-		ViscosityMPaS:          st.ViscosityPaS * 1e3,
+		ViscosityMPaS:          st.ViscosityPaS * thermo.MPaSPerPaS,
 		DiffusivityM2PerS:      st.DiffusivityM2PerS,
 		VantHoffFactor:         x.Nu(),
 		Warnings:               warn.Strings(st.Warnings),

@@ -234,7 +234,7 @@ func sweepSeries(series []screen.SweepSeries, sw *SweepSpec) []SweepSeries {
 				if m.HasCost {
 					q.ReplenishmentCostUSDPerM3 = ptr(m.CostMidUSDPerM3())
 				}
-				q.ViscosityMPaS = ptr(m.ViscosityPaS * 1e3)
+				q.ViscosityMPaS = ptr(m.ViscosityPaS * thermo.MPaSPerPaS)
 				q.MinRegenerationEnergyKWhPerM3 = ptr(screen.KWhPerM3(m.RegenJPerM3))
 				if m.Scaling.Any {
 					q.MaxSaturationIndex = ptr(m.Scaling.Max)
@@ -253,7 +253,7 @@ func fluxMetrics(m *screen.Metrics) FluxMetrics {
 	f := FluxMetrics{
 		Orientation:                       m.Orientation.String(),
 		WaterFluxLMH:                      screen.LMH(m.JwMPerS),
-		ReverseSoluteFluxMmolPerM2H:       m.JsMolPerM2S * 3600 * 1e3,
+		ReverseSoluteFluxMmolPerM2H:       m.JsMolPerM2S * thermo.MmolPerM2HPerMolPerM2S,
 		SpecificReverseSoluteFluxGPerL:    m.SRSFKgPerM3,
 		SpecificReverseSoluteFluxMmolPerL: m.SRSFMolPerM3,
 		FluxEfficiency:                    m.FluxEfficiency,
@@ -261,7 +261,7 @@ func fluxMetrics(m *screen.Metrics) FluxMetrics {
 		Scaling:                           []ScalingIndex{},
 	}
 	if m.MolarityMolPerM3 > 0 {
-		f.ReverseSoluteFluxGMH = m.JsMolPerM2S * 3600 * (m.MassConcKgPerM3 / m.MolarityMolPerM3) * 1e3
+		f.ReverseSoluteFluxGMH = m.JsMolPerM2S * (m.MassConcKgPerM3 / m.MolarityMolPerM3) * thermo.GPerM2HPerKgPerM2S
 	}
 	if m.HasCost {
 		f.ReplenishmentCostUSDPerM3 = ptr(m.CostMidUSDPerM3())
@@ -318,7 +318,7 @@ func buildScreenResponse(req *ScreenRequest, sc *screen.Scenario, info *scenario
 			OsmoticPressureBar:            m.PiPa / thermo.PascalPerBar,
 			VantHoffBar:                   m.VantHoffPa / thermo.PascalPerBar,
 			FluxMetrics:                   fluxMetrics(m),
-			ViscosityMPaS:                 m.ViscosityPaS * 1e3,
+			ViscosityMPaS:                 m.ViscosityPaS * thermo.MPaSPerPaS,
 			MinRegenerationEnergyKWhPerM3: screen.KWhPerM3(m.RegenJPerM3),
 			BLMH:                          r.BMPerS / thermo.MPerSPerLMH,
 			BEstimated:                    r.BEstimated,

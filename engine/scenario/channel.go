@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
 )
 
@@ -45,7 +46,7 @@ func ResolveChannel(c *ChannelSpec) (transport.Channel, error) {
 	if err := optional(&FeedCrossflow, FeedCrossflow.Field, spec.FeedCrossflowVelocityMPS); err != nil {
 		return transport.Channel{}, err
 	}
-	ch := transport.Channel{HeightM: spec.HeightMM * 1e-3, WidthM: spec.WidthMM * 1e-3, LengthM: spec.LengthMM * 1e-3,
+	ch := transport.Channel{HeightM: spec.HeightMM * thermo.MPerMM, WidthM: spec.WidthMM * thermo.MPerMM, LengthM: spec.LengthMM * thermo.MPerMM,
 		VelocityMPerS: spec.CrossflowVelocityMPerS, Spacer: spec.Spacer}
 	if u := spec.FeedCrossflowVelocityMPS; u != nil {
 		ch.FeedVelocityMPerS = *u

@@ -99,7 +99,7 @@ func ResolveMembrane(spec *MembraneSpec) (*Membrane, error) {
 		return nil, errs.InvalidText(MembraneS.Field, "", "> 0", "s_um is required for a custom membrane")
 	}
 	m.AMPerSPa = aLMH * thermo.MPerSPaPerLMHPerBar
-	m.SM = sUM * 1e-6
+	m.SM = sUM * thermo.MPerUM
 	m.B.NaCl = bNaCl * thermo.MPerSPerLMH
 	return m, nil
 }

@@ -536,9 +536,9 @@ func resolveBasis(b *BasisSpec, feedHasPi bool) (screen.Basis, error) {
 		if unit == "" {
 			unit = "bar"
 		}
-		f, ok := PressureUnits[strings.ToLower(unit)]
+		f, ok := thermo.ParsePressureUnit(unit)
 		if !ok {
-			return screen.Basis{}, invalid("basis.unit", PressureUnitNames, "unknown pressure unit %q", b.Unit)
+			return screen.Basis{}, invalid("basis.unit", thermo.PressureUnitNames(), "unknown pressure unit %q", b.Unit)
 		}
 		return screen.Basis{Kind: screen.BasisOsmoticPressure, PiPa: v * f}, nil
 	case "concentration":
@@ -669,8 +669,8 @@ func ResolveSweep(sw *SweepSpec) (screen.SweepSpec, error) {
 		spec.To += thermo.ZeroCelsiusK
 	case "s":
 		spec.Variable = screen.SweepS
-		spec.From *= 1e-6
-		spec.To *= 1e-6
+		spec.From *= thermo.MPerUM
+		spec.To *= thermo.MPerUM
 	case "crossflow":
 		spec.Variable = screen.SweepCrossflow
 	default:
@@ -691,9 +691,3 @@ func prefixed(prefix string, err error) error {
 	}
 	return err
 }
-
-// PressureUnits maps each accepted pressure unit (lower case) to pascals.
-var PressureUnits = map[string]float64{"bar": 1e5, "kpa": 1e3, "mpa": 1e6, "atm": 101325, "psi": 6894.757293168, "pa": 1}
-
-// PressureUnitNames spell the keys of PressureUnits as people write them.
-var PressureUnitNames = []string{"bar", "kPa", "MPa", "atm", "psi", "Pa"}

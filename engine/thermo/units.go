@@ -92,6 +92,9 @@ const (
 	JPerKWh = 1e3 * SecondsPerHour
 	// MPaSPerPaS: 1 Pa·s = 1000 mPa·s (viscosity).
 	MPaSPerPaS = 1e3
+	// MPerMM, MPerUM: lengths in mm and µm (channel sizes, S) to metres.
+	MPerMM = 1e-3
+	MPerUM = 1e-6
 )
 
 // pressureUnits lists the accepted pressure units, their spelling in
