@@ -1,9 +1,11 @@
 package screen
 
 import (
+	"errors"
 	"fmt"
 	"math"
 
+	"drawsift/engine/errs"
 	"drawsift/engine/internal/roots"
 	"drawsift/engine/library"
 	"drawsift/engine/thermo"
@@ -58,7 +60,7 @@ func (m *Metrics) Objective(o Objective) (float64, bool) {
 	case ObjRegeneration:
 		return m.RegenJPerM3 / JPerKWh, true
 	case ObjViscosity:
-		return m.ViscosityPaS * 1e3, true
+		return m.ViscosityPaS * thermo.MPaSPerPaS, true
 	case ObjSolubilityMargin:
 		return m.SolubilityMargin, true
 	case ObjScaling:
@@ -360,6 +362,9 @@ func (e *env) basisMolality(c *candidate, ori transport.Orientation, p *perturb,
 		m, err := x.MolalityForPi(target)
 		if err == nil {
 			return m, nil
+		}
+		if errors.Is(err, errs.ErrNotConverged) {
+			return 0, &exclusion{ReasonNotEvaluated, fmt.Sprintf("%s: %v", c.sol.ID, err)}
 		}
 		// thermo refuses only a target above π at the top of the range:
 		// the solubility, or for a miscible solute the model's data.
