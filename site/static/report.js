@@ -28,7 +28,10 @@
     for (const li of document.querySelectorAll("#cautions li")) cu.appendChild(h("li", { text: li.textContent }));
     const inp = clear($("rp-inputs"));
     const row = (k, v) => inp.appendChild(h("tr", {}, h("th", { scope: "row", text: k }), h("td", { text: v })));
-    const sc = state.scenario;
+    // A part the scenario leaves out is the engine's default.
+    const D = P.defaults();
+    const sc = Object.assign({ feed: { preset: D.feed_preset }, membrane: { preset: D.membrane_preset }, temperature_c: P.dflt("temperature_c") }, state.scenario);
+    sc.channel = Object.assign({}, D.channel, state.scenario.channel);
     const feed = sc.feed.preset ? (state.feeds.find(f => f.id === sc.feed.preset) || {}).name || sc.feed.preset : sc.feed.solute + " at " + sc.feed.concentration + " " + sc.feed.unit;
     row("Feed", feed + (sc.feed.concentration !== undefined && sc.feed.preset ? " (" + sc.feed.concentration + ")" : "") +
       (!sc.feed.preset ? "; pH " + (sc.feed.ph !== undefined ? sc.feed.ph : P.dflt("feed.ph") + " (default)") : "") + "; π " + fmt(pConv(res.feed_osmotic_pressure_bar)) + " " + pUnit());
