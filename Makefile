@@ -32,7 +32,7 @@ demo: build
 	./$(BIN)/drawsift demo
 
 # Everything CI checks.
-test: vet check lint test-native test-wasm refcheck fuzz
+test: vet check lint test-native test-site test-wasm refcheck fuzz
 
 vet:
 	@test -z "$$(gofmt -l $$(git ls-files '*.go' 2>/dev/null || find . -name '*.go'))" || (echo 'gofmt needed:'; gofmt -l .; false)
@@ -60,8 +60,10 @@ lint:
 	@bad=$$($(GO) list -deps -f '{{if .Module}}{{.Module.Path}}{{end}}' ./engine/... | sort -u | grep -v -x -E 'drawsift|gonum\.org/v1/gonum|github\.com/goccy/go-json' || true); \
 	  test -z "$$bad" || (echo "engine imports modules outside the allow-list: $$bad"; false)
 
+# Every package but the page's browser tests, which run in test-site
+# (mk/page.mk) with their own timeout.
 test-native:
-	$(GO) test -count=1 ./...
+	$(GO) test -count=1 $$($(GO) list ./... | grep -v -x 'drawsift/site')
 
 # The engine's tests again as js/wasm under Node, so the page computes the
 # same numbers.

@@ -6,6 +6,7 @@
 #   make page-bench  wasm size, bundle size, navigation → first ranked result
 #                    in headless Chromium (a benchmark, not a test)
 #   make page-serve  the page and the API on 127.0.0.1:$(PORT)
+#   make test-site   the page's browser tests (headless Chromium), part of make test
 
 PORT       ?= 8080
 PAGE_WASM  := build/drawsift.wasm
@@ -14,7 +15,16 @@ PAGE_HTML  := build/drawsift.html
 PAGE_SRC   := $(shell find engine data wasm/page -name '*.go' -o -name '*.json' 2>/dev/null)
 SITE_SRC   := $(shell find site/static -type f 2>/dev/null)
 
-.PHONY: wasm bundle page-bench page-serve
+.PHONY: wasm bundle page-bench page-serve test-site
+
+# The browser tests wait for what the page signals, never for time; the
+# timeout is a safety net far above their few minutes on an idle machine,
+# so that they also pass on a machine loaded many times over (go test's
+# default of 10 minutes is not).
+SITE_TIMEOUT ?= 30m
+
+test-site:
+	$(GO) test -count=1 -timeout $(SITE_TIMEOUT) ./site/
 
 wasm: $(PAGE_WASM) $(PAGE_EXEC)
 

@@ -8,6 +8,14 @@
 // chromium on PATH the tests skip. Screenshots go to testdata/artifacts/
 // at the module root (git-ignored).
 //
+// The tests wait for what the page signals — the worker's version
+// handshake (body data-engine), the run markers (data-edit, data-run,
+// data-run-edit, data-plots, data-robust, data-robust-progress,
+// data-sweep; see site/static/app.js), stored scenarios, the browser's own
+// download and service-worker events — never for a fixed time. The one
+// bound left on each wait, patience, is a safety net of minutes that only
+// a hang reaches, so the tests hold on a machine loaded many times over.
+//
 // The speed and size figures are a benchmark, never a timed test:
 //
 //	go test -run '^$' -bench PageFirstResult -benchtime 5x ./cmd/drawsift/
@@ -25,6 +33,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"sync"
 	"syscall"
@@ -47,6 +56,17 @@ import (
 	"drawsift/engine/screen"
 	"drawsift/site"
 )
+
+// patience bounds every wait on the page: a safety net against a hang,
+// minutes beyond what a loaded machine needs, never the means of waiting.
+// DRAWSIFT_TEST_PATIENCE (a Go duration) changes it, e.g. shorter to see a
+// hang's report sooner while debugging a test.
+var patience = func() time.Duration {
+	if d, err := time.ParseDuration(os.Getenv("DRAWSIFT_TEST_PATIENCE")); err == nil && d > 0 {
+		return d
+	}
+	return 5 * time.Minute
+}()
 
 // ---- build products ---------------------------------------------------------
 
@@ -158,7 +178,7 @@ func startServe(t testing.TB, p pageProducts) (url string, stop func()) {
 			go func() { cmd.Wait(); close(done) }()
 			select {
 			case <-done:
-			case <-time.After(5 * time.Second):
+			case <-time.After(patience):
 				cmd.Process.Kill()
 				<-done
 			}
@@ -167,7 +187,7 @@ func startServe(t testing.TB, p pageProducts) (url string, stop func()) {
 	t.Cleanup(stop)
 	select {
 	case url = <-found:
-	case <-time.After(20 * time.Second):
+	case <-time.After(patience):
 		stop()
 		t.Fatalf("drawsift serve did not print its address; stderr:\n%s", stderr.String())
 	}
@@ -198,7 +218,16 @@ func browser(t testing.TB) *browserSession {
 	}
 	actx, c1 := chromedp.NewExecAllocator(context.Background(), opts...)
 	ctx, c2 := chromedp.NewContext(actx)
-	ctx, c3 := context.WithTimeout(ctx, 120*time.Second)
+	// The whole browser lives until the test's own deadline (go test
+	// -timeout) less a minute, so that a hang fails this test with its
+	// screenshot and console rather than the package with a panic.
+	limit := 20 * time.Minute
+	if d, ok := t.(interface{ Deadline() (time.Time, bool) }); ok {
+		if dl, ok := d.Deadline(); ok {
+			limit = time.Until(dl) - time.Minute
+		}
+	}
+	ctx, c3 := context.WithTimeout(ctx, limit)
 	b := &browserSession{ctx: ctx}
 	t.Cleanup(func() {
 		c3()
@@ -239,22 +268,31 @@ func (b *browserSession) do(t testing.TB, steps ...chromedp.Action[chromedp.Void
 	}
 }
 
-// eval evaluates a JS expression and decodes its value into T.
+// eval evaluates a JS expression (awaiting a promise) and decodes its
+// value into T.
 func eval[T any](t testing.TB, b *browserSession, js string) T {
 	t.Helper()
-	v, err := chromedp.Run(b.ctx, chromedp.Evaluate[T](js, chromedp.EvalAwaitPromise))
+	ctx, cancel := context.WithTimeout(b.ctx, patience)
+	defer cancel()
+	v, err := chromedp.Run(ctx, chromedp.Evaluate[T](js, chromedp.EvalAwaitPromise))
 	if err != nil {
 		t.Fatalf("evaluating %s: %v", js, err)
 	}
 	return v
 }
 
-// waitFor polls a JS condition until it is true.
-func (b *browserSession) waitFor(t testing.TB, cond string, timeout time.Duration) {
+// waitFor waits until a JS condition about what the page has signalled
+// holds; the page re-checks it every frame.
+func (b *browserSession) waitFor(t testing.TB, cond string) {
 	t.Helper()
-	if _, err := chromedp.Run(b.ctx, chromedp.Poll[bool](cond, chromedp.WithPollingTimeout(timeout))); err != nil {
+	ctx, cancel := context.WithTimeout(b.ctx, patience)
+	defer cancel()
+	if _, err := chromedp.Run(ctx, chromedp.Poll[bool](cond, chromedp.WithPollingTimeout(patience))); err != nil {
 		b.screenshot(t, "timeout")
-		t.Fatalf("waiting for %s: %v", cond, err)
+		// What the page says it is doing, for the report.
+		said, _ := chromedp.Run(b.ctx, chromedp.Evaluate[string](`JSON.stringify(Object.assign({banner: document.getElementById("banner").textContent,
+			error: document.getElementById("run-error").textContent}, document.body.dataset))`))
+		t.Fatalf("waiting for %s: %v\nthe page: %s", cond, err, said)
 	}
 }
 
@@ -284,11 +322,38 @@ type pageRow struct {
 
 const jsRows = `Array.from(document.querySelectorAll("#ranking tbody tr")).map(tr => ({solute: tr.dataset.solute, rank: Number(tr.dataset.rank), score: Number(tr.dataset.score)}))`
 
-// waitRun waits for a screen after the given run marker and returns the new marker.
+// jsSettled holds once the page has finished a run of its latest
+// scenario edit: the run marker (done-, error- or invalid-<run>) names the
+// edit it ran, and that is the last edit (app.js).
+const jsSettled = `(d => !!d.run && d.runEdit === d.edit)(document.body.dataset)`
+
+// settle waits until the page has run its latest edit and returns the run
+// marker, whatever the outcome. An edit made through the DOM (an input
+// event) counts at once; one made by a key press counts once the page
+// has stored it, which callers wait for first.
+func (b *browserSession) settle(t testing.TB) string {
+	t.Helper()
+	b.waitFor(t, jsSettled)
+	return eval[string](t, b, `document.body.dataset.run`)
+}
+
+// waitRun waits for a ranking of the latest edit, after the given run
+// marker, and returns its marker; a run that ended otherwise fails the test.
 func (b *browserSession) waitRun(t testing.TB, after string) string {
 	t.Helper()
-	b.waitFor(t, fmt.Sprintf(`(document.body.dataset.run || "").startsWith("done-") && document.body.dataset.run !== %q`, after), 60*time.Second)
-	return eval[string](t, b, `document.body.dataset.run`)
+	b.waitFor(t, fmt.Sprintf(`%s && document.body.dataset.run !== %q`, jsSettled, after))
+	run := eval[string](t, b, `document.body.dataset.run`)
+	if !strings.HasPrefix(run, "done-") {
+		b.screenshot(t, "run")
+		t.Fatalf("the run ended %s: %s", run, eval[string](t, b, `document.getElementById("run-error").textContent`))
+	}
+	return run
+}
+
+// waitPlots waits until the plots of the latest ranking are drawn.
+func (b *browserSession) waitPlots(t testing.TB) {
+	t.Helper()
+	b.waitFor(t, `(d => d.plots === d.run && d.runEdit === d.edit)(document.body.dataset)`)
 }
 
 // pageScenario is the scenario the page has stored (what it sent, before
@@ -422,11 +487,25 @@ func TestPageDemoMatchesEngine(t *testing.T) {
 		}
 	}
 	b.screenshot(t, "demo")
-	b.waitFor(t, `(document.body.dataset.plots || "").startsWith("done-")`, 60*time.Second)
+	b.waitPlots(t)
 	b.do(t, chromedp.Click(chromedp.ID("tab-plots")))
 	n := eval[int](t, b, `document.querySelectorAll("#plots figure svg").length`)
 	if n != 4 {
 		t.Errorf("%d plots, want 4 (π, SRSF, trade-off, Jw)", n)
+	}
+	// The π plot's curves come from one engine batch of osmotic requests
+	// (24 concentrations per solute, after the origin): for each plotted
+	// solute a real curve (points past its solubility or data left out) and
+	// a van 't Hoff curve with every point.
+	plotted := eval[int](t, b, `Math.min(Number(document.getElementById("plot-count").value) || Infinity, document.querySelectorAll("#ranking tbody tr").length)`)
+	curves := eval[[]int](t, b, `Array.from(document.querySelectorAll('#plots [data-plot="osmotic-pressure"] g[clip-path] path')).map(p => p.getAttribute("d").split("L").length)`)
+	if len(curves) != 2*plotted {
+		t.Errorf("the π plot has %d curves for %d solutes", len(curves), plotted)
+	}
+	for i, c := range curves {
+		if i%2 == 1 && c != 25 || c < 2 {
+			t.Errorf("π curve %d has %d points", i, c)
+		}
 	}
 	b.screenshot(t, "plots")
 }
@@ -438,13 +517,11 @@ func TestPageFieldChange(t *testing.T) {
 	before := eval[[]pageRow](t, b, jsRows)
 	b.do(t, chromedp.Click(chromedp.ID("temp")), chromedp.Evaluate[chromedp.Void](`document.getElementById("temp").select()`),
 		chromedp.SendKeys(chromedp.ID("temp"), "45"))
+	b.waitFor(t, `document.getElementById("temp").value === "45"`)
+	// A run may have started between the two keys: once the page has
+	// stored the last one, wait for the run of that edit.
+	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).temperature_c === 45`)
 	b.waitRun(t, run)
-	b.waitFor(t, `document.getElementById("temp").value === "45"`, 5*time.Second)
-	// The debounced run may have started before the last key: wait for
-	// the stored scenario to settle.
-	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).temperature_c === 45`, 5*time.Second)
-	time.Sleep(400 * time.Millisecond)
-	b.waitFor(t, `(document.body.dataset.run || "").startsWith("done-")`, 30*time.Second)
 	after := eval[[]pageRow](t, b, jsRows)
 	sc := pageScenario(t, b)
 	if sc["temperature_c"] != 45.0 {
@@ -500,7 +577,7 @@ func TestPageMalformedImport(t *testing.T) {
 		os.WriteFile(f, []byte(tc.body), 0o644)
 		b.do(t, chromedp.Evaluate[chromedp.Void](`document.getElementById("banner").hidden = true`),
 			chromedp.SetUploadFiles(chromedp.ID("file-import"), []string{f}))
-		b.waitFor(t, `!document.getElementById("banner").hidden`, 20*time.Second)
+		b.waitFor(t, `!document.getElementById("banner").hidden`)
 		msg := eval[string](t, b, `document.getElementById("banner").textContent`)
 		if !strings.Contains(msg, "Nothing was changed") || !strings.Contains(msg, tc.want) {
 			t.Errorf("%s: message %q, want it to say nothing changed and name %q", tc.name, msg, tc.want)
@@ -518,48 +595,100 @@ func TestPageMalformedImport(t *testing.T) {
 	b.screenshot(t, "import-error")
 }
 
+// jsClicks records, for each button the page handles a click on, the
+// robustness state (body data-robust) at that moment. Installed once per
+// page; a capturing listener on window runs before the page's own.
+const jsClicks = `window.__clicks = window.__clicks || (addEventListener("click", e => {
+	const b = e.target.closest && e.target.closest("button");
+	if (b) window.__clicks[b.id] = document.body.dataset.robust;
+}, true), {})`
+
+// robustRun starts a robustness run with the real mouse and waits until
+// the page reports it running with progress, or finished.
+func robustRun(t *testing.T, b *browserSession) {
+	t.Helper()
+	b.do(t, chromedp.Evaluate[chromedp.Void](`delete document.body.dataset.robust`), chromedp.Click(chromedp.ID("btn-robust")))
+	b.waitFor(t, `(d => d.robust === "running" && Number(d.robustProgress) > 0 || d.robust === "done" || d.robust === "error")(document.body.dataset)`)
+}
+
+// clickDuring clicks a button with the real mouse and returns the
+// robustness state at the moment the page handled the click; "" when it
+// handled none (a disabled button) and the run has ended.
+func clickDuring(t *testing.T, b *browserSession, id string) string {
+	t.Helper()
+	b.do(t, chromedp.Evaluate[chromedp.Void](jsClicks+`; delete window.__clicks[`+fmt.Sprintf("%q", id)+`]`), chromedp.Click(chromedp.ID(id)))
+	b.waitFor(t, fmt.Sprintf(`%q in window.__clicks || !["running", undefined].includes(document.body.dataset.robust)`, id))
+	return eval[string](t, b, fmt.Sprintf(`window.__clicks[%q] || ""`, id))
+}
+
+// robustAttempts bounds the runs tried until a click lands while one is
+// running (each of 20000 samples takes seconds; one attempt is the rule).
+const robustAttempts = 3
+
 // TestPageRobustness runs a long robustness job: progress arrives, the page
 // answers while it runs, the figures appear; a second run is cancelled.
 func TestPageRobustness(t *testing.T) {
-	b, _ := openServed(t)
+	b, run := openServed(t)
 	b.do(t, chromedp.SetValue(chromedp.ID("unc-samples"), "20000"),
 		chromedp.Evaluate[chromedp.Void](`document.getElementById("unc-samples").dispatchEvent(new Event("change", {bubbles: true}))`))
-	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).uncertainty.samples === 20000`, 5*time.Second)
-	time.Sleep(400 * time.Millisecond)
-	b.waitFor(t, `(document.body.dataset.run || "").startsWith("done-")`, 30*time.Second)
-	b.do(t, chromedp.Click(chromedp.ID("btn-robust")))
-	b.waitFor(t, `document.getElementById("robust-progress").value > 0 || document.body.dataset.robust === "done"`, 60*time.Second)
-	if eval[string](t, b, `document.body.dataset.robust`) == "running" {
-		// The page stays responsive: a tab switch answers at once while
-		// the engine works in its worker.
+	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).uncertainty.samples === 20000`)
+	b.waitRun(t, run)
+	// The page stays responsive: a tab switch by mouse is handled while
+	// the engine works in its worker (the page records the run's state
+	// when it handles the click).
+	for attempt := 1; ; attempt++ {
+		robustRun(t, b)
 		start := time.Now()
-		b.do(t, chromedp.Click(chromedp.ID("tab-sources")))
-		if eval[string](t, b, `document.getElementById("tab-sources").getAttribute("aria-selected")`) != "true" {
-			t.Error("the tab did not switch during the robustness run")
+		during := clickDuring(t, b, "tab-sources")
+		if during == "running" {
+			if eval[string](t, b, `document.getElementById("tab-sources").getAttribute("aria-selected")`) != "true" {
+				t.Error("the tab did not switch during the robustness run")
+			}
+			t.Logf("tab switch during the run took %v", time.Since(start))
+			b.screenshot(t, "running")
+			b.do(t, chromedp.Click(chromedp.ID("tab-ranking")))
 		}
-		t.Logf("tab switch during the run took %v", time.Since(start))
-		b.screenshot(t, "running")
-		b.do(t, chromedp.Click(chromedp.ID("tab-ranking")))
-		if f := eval[float64](t, b, `document.getElementById("robust-progress").value`); !(f > 0 && f < 1) {
-			t.Logf("progress %v (the run may be nearly done)", f)
+		b.waitFor(t, `["done", "error"].includes(document.body.dataset.robust)`)
+		if st := eval[string](t, b, `document.body.dataset.robust`); st != "done" {
+			t.Fatalf("the robustness run ended %s: %s", st, eval[string](t, b, `document.getElementById("run-error").textContent`))
 		}
-	} else {
-		t.Error("the robustness run ended before any progress was seen; 20000 samples should take longer")
+		if eval[int](t, b, `Number(document.body.dataset.robustProgress)`) == 0 {
+			t.Error("the robustness run ended before any progress was seen; 20000 samples should take longer")
+		}
+		if during == "running" {
+			break
+		}
+		if attempt == robustAttempts {
+			t.Errorf("in %d runs of 20000 samples the page handled no click while one ran", attempt)
+			break
+		}
 	}
-	b.waitFor(t, `document.body.dataset.robust === "done"`, 90*time.Second)
 	n := eval[int](t, b, `document.querySelectorAll("#robust-table tbody tr[data-solute]").length`)
 	if n != len(eval[[]pageRow](t, b, jsRows)) {
 		t.Errorf("robustness rows %d, ranked candidates %d", n, len(eval[[]pageRow](t, b, jsRows)))
 	}
 	b.screenshot(t, "robust")
 
-	// Cancel a second run.
-	b.do(t, chromedp.Click(chromedp.ID("btn-robust")))
-	b.waitFor(t, `document.getElementById("robust-progress").value > 0`, 30*time.Second)
-	b.do(t, chromedp.Click(chromedp.ID("btn-robust-cancel")))
-	b.waitFor(t, `document.body.dataset.robust === "cancelled"`, 10*time.Second)
+	// Cancel a second run: a cancel the page handles while the run is on
+	// ends it as cancelled.
+	for attempt := 1; ; attempt++ {
+		robustRun(t, b)
+		during := clickDuring(t, b, "btn-robust-cancel")
+		b.waitFor(t, `["done", "cancelled", "error"].includes(document.body.dataset.robust)`)
+		st := eval[string](t, b, `document.body.dataset.robust`)
+		if during == "running" {
+			if st != "cancelled" {
+				t.Errorf("a cancel during the run ended it %s", st)
+			}
+			break
+		}
+		if attempt == robustAttempts {
+			t.Errorf("in %d runs of 20000 samples the page handled no cancel while one ran", attempt)
+			break
+		}
+	}
 	// The engine still answers after the cancel.
-	run := eval[string](t, b, `document.body.dataset.run`)
+	run = eval[string](t, b, `document.body.dataset.run`)
 	b.do(t, chromedp.Click(chromedp.ID("btn-screen")))
 	b.waitRun(t, run)
 }
@@ -567,7 +696,7 @@ func TestPageRobustness(t *testing.T) {
 // TestPagePrintReport prints to PDF and finds the report's sections.
 func TestPagePrintReport(t *testing.T) {
 	b, _ := openServed(t)
-	b.waitFor(t, `(document.body.dataset.plots || "").startsWith("done-")`, 60*time.Second)
+	b.waitPlots(t)
 	// In print media the report shows and the controls do not.
 	if _, err := chromedp.Run(b.ctx, chromedp.Action[chromedp.Void](func(ctx context.Context, tg *chromedp.Target) (chromedp.Void, error) {
 		_, err := chromedp.Call(ctx, emulation.SetEmulatedMedia, emulation.SetEmulatedMediaParams{Media: "print"})
@@ -740,7 +869,7 @@ func TestBundleFromFile(t *testing.T) {
 	if v := eval[string](t, b, `document.getElementById("engine-status").textContent`); !strings.Contains(v, api.EngineVersion) {
 		t.Errorf("engine status %q lacks the version %s", v, api.EngineVersion)
 	}
-	b.waitFor(t, `(document.body.dataset.plots || "").startsWith("done-")`, 60*time.Second)
+	b.waitPlots(t)
 	b.screenshot(t, "bundle")
 	mu.Lock()
 	defer mu.Unlock()
@@ -759,8 +888,12 @@ func TestPageOffline(t *testing.T) {
 	url, stop := startServe(t, p)
 	b.do(t, chromedp.Navigate(url))
 	b.waitRun(t, "")
-	b.waitFor(t, `navigator.serviceWorker.controller !== null || (navigator.serviceWorker.ready.then(() => window.__swReady = true), window.__swReady === true)`, 30*time.Second)
-	b.waitFor(t, `caches.keys().then(k => k.length > 0) && (window.__c = window.__c || caches.keys().then(ks => Promise.all(ks.map(k => caches.open(k).then(c => c.keys())))).then(a => window.__n = a.flat().length), window.__n >= 12)`, 30*time.Second)
+	// The service worker becomes active (ready) only once its install has
+	// cached every file of its list (sw.js: waitUntil(cache.addAll)).
+	n := eval[int](t, b, `navigator.serviceWorker.ready.then(() => caches.keys()).then(ks => Promise.all(ks.map(k => caches.open(k).then(c => c.keys())))).then(a => a.flat().length)`)
+	if n < 12 {
+		t.Fatalf("the active service worker has cached %d files", n)
+	}
 	stop()
 	if _, err := http.Get(url); err == nil {
 		t.Fatal("the server still answers")
@@ -791,7 +924,7 @@ func TestPageNetworkOwnOrigin(t *testing.T) {
 	})
 	b.do(t, chromedp.Navigate(url))
 	b.waitRun(t, "")
-	b.waitFor(t, `(document.body.dataset.plots || "").startsWith("done-")`, 60*time.Second)
+	b.waitPlots(t)
 	mu.Lock()
 	defer mu.Unlock()
 	if len(urls) == 0 {
@@ -825,7 +958,7 @@ func TestPageAccessible(t *testing.T) {
 	if _, err := chromedp.Call(b.ctx, emulation.SetDeviceMetricsOverride, emulation.SetDeviceMetricsOverrideParams{Width: 768, Height: 1024, DeviceScaleFactor: 1, Mobile: true}); err != nil {
 		t.Fatal(err)
 	}
-	b.waitFor(t, `document.documentElement.scrollWidth <= innerWidth + 1`, 5*time.Second)
+	b.waitFor(t, `document.documentElement.scrollWidth <= innerWidth + 1`)
 	b.screenshot(t, "tablet")
 }
 
@@ -878,7 +1011,9 @@ func TestPageFieldError(t *testing.T) {
 	b, _ := openServed(t)
 	b.do(t, chromedp.SetValue(chromedp.ID("temp"), "150"),
 		chromedp.Evaluate[chromedp.Void](`document.getElementById("temp").dispatchEvent(new Event("input", {bubbles: true}))`))
-	b.waitFor(t, `(document.body.dataset.run || "").startsWith("error-")`, 20*time.Second)
+	if run := b.settle(t); !strings.HasPrefix(run, "error-") {
+		t.Fatalf("the run of 150 °C ended %s, want the engine's error", run)
+	}
 	msg := eval[string](t, b, `document.querySelector('.field-error[data-for="operation"]').textContent`)
 	if !strings.Contains(msg, "temperature_c") || !strings.Contains(msg, "0–100") {
 		t.Errorf("field error %q should name temperature_c and its limit", msg)
@@ -901,7 +1036,7 @@ func TestPageShareLink(t *testing.T) {
 	b.waitRun(t, run)
 	want := eval[[]pageRow](t, b, jsRows)
 	b.do(t, chromedp.Click(chromedp.ID("btn-share")))
-	b.waitFor(t, `location.hash.startsWith("#s=z")`, 10*time.Second)
+	b.waitFor(t, `location.hash.startsWith("#s=z")`)
 	link := eval[string](t, b, `location.href`)
 	sc := pageScenario(t, b)
 
@@ -938,6 +1073,7 @@ func TestPageCustomSolute(t *testing.T) {
 	fill("cs-pmax", "1.5")
 	fill("cs-table", "0.5, 24\n0.4, 20")
 	b.do(t, chromedp.Click(chromedp.CSS(`#custom-form button[type=submit]`)))
+	b.waitFor(t, `document.getElementById("cs-error").textContent !== ""`)
 	if msg := eval[string](t, b, `document.getElementById("cs-error").textContent`); !strings.Contains(msg, "must increase") {
 		t.Errorf("broken table: message %q", msg)
 	}
@@ -946,9 +1082,9 @@ func TestPageCustomSolute(t *testing.T) {
 	}
 	fill("cs-table", "# c (mol/kg), π (bar)\n0.5, 24.1\n1.0, 49.5\n1.5, 76.0\n2.0, 104")
 	b.do(t, chromedp.Click(chromedp.CSS(`#custom-form button[type=submit]`)))
-	b.waitFor(t, `!!document.querySelector('#lib-list li[data-solute="Draw-X"] input:checked')`, 10*time.Second)
+	b.waitFor(t, `!!document.querySelector('#lib-list li[data-solute="Draw-X"] input:checked')`)
 	b.waitRun(t, run)
-	b.waitFor(t, `!!document.querySelector('#ranking tbody tr[data-solute="Draw-X"]')`, 30*time.Second)
+	b.waitFor(t, `!!document.querySelector('#ranking tbody tr[data-solute="Draw-X"]')`)
 	sc := pageScenario(t, b)
 	sameRanking(t, eval[[]pageRow](t, b, jsRows), native(t, sc))
 	b.screenshot(t, "custom")
@@ -959,7 +1095,7 @@ func TestPageCustomSolute(t *testing.T) {
 		t.Error("the custom solute is gone after a reload")
 	}
 	b.do(t, chromedp.Evaluate[chromedp.Void](`document.getElementById("plot-count").value = "all"; document.getElementById("plot-count").dispatchEvent(new Event("change"))`))
-	b.waitFor(t, `Array.from(document.querySelectorAll('#plots [data-plot="osmotic-pressure"] text')).some(e => e.textContent.includes("Draw-X (custom; dots: measured"))`, 60*time.Second)
+	b.waitFor(t, `Array.from(document.querySelectorAll('#plots [data-plot="osmotic-pressure"] text')).some(e => e.textContent.includes("Draw-X (custom; dots: measured"))`)
 }
 
 // TestPageExports downloads the CSV, the JSON and a chart's SVG and PNG.
@@ -968,23 +1104,62 @@ func TestPageExports(t *testing.T) {
 	b := browser(t)
 	url, _ := startServe(t, p)
 	dir := t.TempDir()
+	// The browser reports each download's name as it begins and its end
+	// (Browser.downloadWillBegin, Browser.downloadProgress "completed").
+	var mu sync.Mutex
+	names := map[string]string{} // download id → file name
+	done := map[string]bool{}    // file name → completed
+	ended := make(chan struct{}, 1)
+	if err := chromedp.ListenBrowser(b.ctx, func(ev any) {
+		switch e := ev.(type) {
+		case *cdpbrowser.EventDownloadWillBegin:
+			mu.Lock()
+			names[e.GUID] = e.SuggestedFilename
+			mu.Unlock()
+		case *cdpbrowser.EventDownloadProgress:
+			if e.State == cdpbrowser.DownloadProgressStateCompleted {
+				mu.Lock()
+				done[names[e.GUID]] = true
+				mu.Unlock()
+				select {
+				case ended <- struct{}{}:
+				default:
+				}
+			}
+		}
+	}); err != nil {
+		t.Fatal(err)
+	}
+	events := true
 	if _, err := chromedp.CallBrowser(b.ctx, cdpbrowser.SetDownloadBehavior, cdpbrowser.SetDownloadBehaviorParams{
-		Behavior: cdpbrowser.SetDownloadBehaviorBehaviorAllow, DownloadPath: dir}); err != nil {
+		Behavior: cdpbrowser.SetDownloadBehaviorBehaviorAllow, DownloadPath: dir, EventsEnabled: &events}); err != nil {
 		t.Fatal(err)
 	}
 	b.do(t, chromedp.Navigate(url))
 	b.waitRun(t, "")
-	b.waitFor(t, `(document.body.dataset.plots || "").startsWith("done-")`, 60*time.Second)
+	b.waitPlots(t)
 	wait := func(name string) []byte {
 		t.Helper()
-		for i := 0; i < 100; i++ {
-			if b, err := os.ReadFile(filepath.Join(dir, name)); err == nil && len(b) > 0 {
+		limit := time.After(patience)
+		for {
+			mu.Lock()
+			ok := done[name]
+			mu.Unlock()
+			if ok {
+				b, err := os.ReadFile(filepath.Join(dir, name))
+				if err != nil {
+					t.Fatalf("%s was downloaded but cannot be read: %v", name, err)
+				}
 				return b
 			}
-			time.Sleep(100 * time.Millisecond)
+			select {
+			case <-ended:
+			case <-limit:
+				t.Fatalf("%s was not downloaded", name)
+			case <-b.ctx.Done():
+				t.Fatalf("%s was not downloaded: %v", name, b.ctx.Err())
+			}
 		}
-		t.Fatalf("%s was not downloaded", name)
-		return nil
 	}
 	rows := eval[[]pageRow](t, b, jsRows)
 	b.do(t, chromedp.Click(chromedp.ID("btn-csv")))
@@ -1030,9 +1205,13 @@ func TestPageSweep(t *testing.T) {
 	b, _ := openServed(t)
 	b.do(t, chromedp.Click(chromedp.ID("tab-plots")))
 	// The plots of the ranking come first; the sweep runs after them.
-	b.waitFor(t, `(document.body.dataset.plots || "").startsWith("done-")`, 60*time.Second)
+	b.waitPlots(t)
 	b.do(t, chromedp.Click(chromedp.ID("btn-sweep")))
-	b.waitFor(t, `!!document.querySelector('#sweep-plot figure[data-plot="sweep"]')`, 90*time.Second)
+	b.waitFor(t, `document.body.dataset.sweep === "done" || document.body.dataset.sweep === "failed"`)
+	if st := eval[string](t, b, `document.body.dataset.sweep + ": " + document.getElementById("sweep-status").textContent`); st != "done: Done." {
+		t.Fatalf("the sweep ended %q", st)
+	}
+	b.waitFor(t, `!!document.querySelector('#sweep-plot figure[data-plot="sweep"]')`)
 	if n := eval[int](t, b, `document.querySelectorAll('#sweep-plot svg path').length`); n < 3 {
 		t.Errorf("the sweep plot has %d series", n)
 	}
@@ -1059,7 +1238,7 @@ func TestPageVersionMismatch(t *testing.T) {
 	srv := httptest.NewServer(mux)
 	defer srv.Close()
 	b.do(t, chromedp.Navigate(srv.URL+"/"))
-	b.waitFor(t, `document.body.dataset.engine === "failed"`, 30*time.Second)
+	b.waitFor(t, `document.body.dataset.engine === "failed"`)
 	msg := eval[string](t, b, `document.getElementById("banner").textContent`)
 	if !strings.Contains(msg, api.EngineVersion) || !strings.Contains(msg, "0.0.0-stale") || !strings.Contains(msg, "does not match") {
 		t.Errorf("banner %q", msg)
@@ -1111,10 +1290,9 @@ func TestPageExcludeHazard(t *testing.T) {
 		t.Fatal("the demo starts with toxic solutes excluded")
 	}
 	b.do(t, chromedp.Click(chromedp.ID("tab-candidates")), chromedp.Click(chromedp.ID("inc-LiCl")), chromedp.Click(chromedp.ID("inc-KBr")))
-	b.waitFor(t, `["LiCl", "KBr"].every(id => JSON.parse(localStorage.getItem("drawsift.scenario.v1")).candidates.includes(id))`, 5*time.Second)
-	time.Sleep(400 * time.Millisecond) // let the debounced run start
+	b.waitFor(t, `["LiCl", "KBr"].every(id => JSON.parse(localStorage.getItem("drawsift.scenario.v1")).candidates.includes(id))`)
 	run = b.waitRun(t, run)
-	b.waitFor(t, `!!document.querySelector('#ranking tbody tr[data-solute="LiCl"]') && !!document.querySelector('#ranking tbody tr[data-solute="KBr"]')`, 30*time.Second)
+	b.waitFor(t, `!!document.querySelector('#ranking tbody tr[data-solute="LiCl"]') && !!document.querySelector('#ranking tbody tr[data-solute="KBr"]')`)
 	sc := pageScenario(t, b)
 	if _, ok := sc["exclude_hazards"]; ok {
 		t.Errorf("no hazard is ticked, yet the scenario has exclude_hazards = %v", sc["exclude_hazards"])
@@ -1123,10 +1301,9 @@ func TestPageExcludeHazard(t *testing.T) {
 
 	// Tick "toxic" with the space bar.
 	b.do(t, chromedp.Click(chromedp.ID("tab-ranking")), chromedp.Focus(chromedp.ID("hz-toxic")), chromedp.SendKeys(chromedp.ID("hz-toxic"), " "))
-	b.waitFor(t, `JSON.stringify(JSON.parse(localStorage.getItem("drawsift.scenario.v1")).exclude_hazards) === '["toxic"]'`, 5*time.Second)
-	time.Sleep(400 * time.Millisecond)
+	b.waitFor(t, `JSON.stringify(JSON.parse(localStorage.getItem("drawsift.scenario.v1")).exclude_hazards) === '["toxic"]'`)
 	b.waitRun(t, run)
-	b.waitFor(t, `!document.querySelector('#ranking tbody tr[data-solute="LiCl"]') && (document.body.dataset.run || "").startsWith("done-")`, 30*time.Second)
+	b.waitFor(t, `!document.querySelector('#ranking tbody tr[data-solute="LiCl"]')`)
 	sc = pageScenario(t, b)
 	want := native(t, sc)
 	rows := eval[[]pageRow](t, b, jsRows)
@@ -1164,7 +1341,10 @@ func TestPageExcludeHazard(t *testing.T) {
 
 	// Leave one Pareto objective ticked: a message beside the field, no run.
 	b.do(t, chromedp.Click(chromedp.ID("po-water_flux")), chromedp.Click(chromedp.ID("po-replenishment_cost")))
-	b.waitFor(t, `(document.body.dataset.run || "").startsWith("invalid-")`, 10*time.Second)
+	b.waitFor(t, `!document.getElementById("po-water_flux").checked && !document.getElementById("po-replenishment_cost").checked`)
+	if run := b.settle(t); !strings.HasPrefix(run, "invalid-") {
+		t.Fatalf("with one Pareto objective the run ended %s, want the page's refusal", run)
+	}
 	if msg := eval[string](t, b, `document.querySelector('.field-error[data-field="pareto_objectives"]').textContent`); !strings.Contains(msg, "pareto_objectives") || !strings.Contains(msg, "at least two") {
 		t.Errorf("Pareto message %q", msg)
 	}
@@ -1186,7 +1366,9 @@ func TestPageGivenK(t *testing.T) {
 	b.do(t, chromedp.Click(chromedp.CSS(`#channel-box summary`)), chromedp.Click(chromedp.ID("k-mode-given")))
 	// Past the engine's limit: refused in the page, beside the field.
 	set("k-draw", "5")
-	b.waitFor(t, `(document.body.dataset.run || "").startsWith("invalid-")`, 10*time.Second)
+	if run := b.settle(t); !strings.HasPrefix(run, "invalid-") {
+		t.Fatalf("with k = 5 m/s the run ended %s, want the page's refusal", run)
+	}
 	if msg := eval[string](t, b, `document.querySelector('.field-error[data-field="k"]').textContent`); !strings.Contains(msg, "k_draw_m_per_s") || !strings.Contains(msg, "1e-8") {
 		t.Errorf("k message %q should name k_draw_m_per_s and its limit", msg)
 	}
@@ -1196,10 +1378,8 @@ func TestPageGivenK(t *testing.T) {
 	// Mass-transfer coefficients a few times below the default channel's.
 	set("k-draw", "4e-6")
 	set("k-feed", "8e-6")
-	b.waitFor(t, `(s => s.k_draw_m_per_s === 4e-6 && s.k_feed_m_per_s === 8e-6)(JSON.parse(localStorage.getItem("drawsift.scenario.v1")))`, 5*time.Second)
-	time.Sleep(400 * time.Millisecond)
+	b.waitFor(t, `(s => s.k_draw_m_per_s === 4e-6 && s.k_feed_m_per_s === 8e-6)(JSON.parse(localStorage.getItem("drawsift.scenario.v1")))`)
 	b.waitRun(t, run)
-	b.waitFor(t, `(document.body.dataset.run || "").startsWith("done-")`, 30*time.Second)
 	after := eval[[]pageRow](t, b, jsRows)
 	sc := pageScenario(t, b)
 	sameRanking(t, after, native(t, sc))
@@ -1236,10 +1416,8 @@ func TestPageDrawBAndFeedPH(t *testing.T) {
 		b.do(t, chromedp.Evaluate[chromedp.Void](fmt.Sprintf(`(e => { e.value = %q; e.dispatchEvent(new Event("input", {bubbles: true})); })(document.getElementById(%q))`, v, id)))
 	}
 	set("mem-bdraw", "0.05")
-	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).membrane.b_lmh === 0.05`, 5*time.Second)
-	time.Sleep(400 * time.Millisecond)
+	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).membrane.b_lmh === 0.05`)
 	b.waitRun(t, run)
-	b.waitFor(t, `(document.body.dataset.run || "").startsWith("done-")`, 30*time.Second)
 	sc := pageScenario(t, b)
 	mem, _ := sc["membrane"].(map[string]any)
 	if mem["preset"] != "tfc-standard" || mem["b_nacl_lmh"] != 0.2988 || mem["b_lmh"] != 0.05 {
@@ -1255,7 +1433,7 @@ func TestPageDrawBAndFeedPH(t *testing.T) {
 	}
 	// Past its limit: refused beside the field, named as the contract names it.
 	set("mem-bdraw", "150")
-	b.waitFor(t, `document.querySelector('.field-error[data-field="membrane.b_draw"]').textContent !== ""`, 10*time.Second)
+	b.settle(t)
 	if msg := eval[string](t, b, `document.querySelector('.field-error[data-field="membrane.b_draw"]').textContent`); !strings.Contains(msg, "membrane.b_lmh") || !strings.Contains(msg, "100") {
 		t.Errorf("draw B message %q", msg)
 	}
@@ -1263,22 +1441,345 @@ func TestPageDrawBAndFeedPH(t *testing.T) {
 	// A custom feed: pH 15 is refused beside the field; pH 8.1 is sent.
 	set("mem-bdraw", "")
 	b.do(t, chromedp.Evaluate[chromedp.Void](`(s => { s.value = "custom"; s.dispatchEvent(new Event("change", {bubbles: true})); })(document.getElementById("feed-preset"))`))
-	b.waitFor(t, `!document.getElementById("feed-ions-box").hidden`, 5*time.Second)
+	b.waitFor(t, `!document.getElementById("feed-ions-box").hidden`)
 	set("feed-conc", "20")
 	set("feed-ph", "15")
-	b.waitFor(t, `document.querySelector('.field-error[data-field="feed.ph"]').textContent !== ""`, 10*time.Second)
+	b.settle(t)
 	if msg := eval[string](t, b, `document.querySelector('.field-error[data-field="feed.ph"]').textContent`); !strings.Contains(msg, "feed.ph") || !strings.Contains(msg, "0–14") {
 		t.Errorf("pH message %q", msg)
 	}
 	run = eval[string](t, b, `document.body.dataset.run`)
 	set("feed-ph", "8.1")
-	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).feed.ph === 8.1`, 5*time.Second)
-	time.Sleep(400 * time.Millisecond)
+	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).feed.ph === 8.1`)
 	b.waitRun(t, run)
-	b.waitFor(t, `(document.body.dataset.run || "").startsWith("done-")`, 30*time.Second)
 	sc = pageScenario(t, b)
 	if _, ok := sc["membrane"].(map[string]any)["b_nacl_lmh"]; ok {
 		t.Errorf("a blank draw B still sends b_nacl_lmh: %v", sc["membrane"])
 	}
 	sameRanking(t, eval[[]pageRow](t, b, jsRows), native(t, sc))
+}
+
+// engineDefaults is the engine's defaults operation, read natively.
+type engineDefaults struct {
+	Limits map[string]struct {
+		Field        string   `json:"field"`
+		Unit         string   `json:"unit"`
+		Min          *float64 `json:"min"`
+		Max          *float64 `json:"max"`
+		MinExclusive bool     `json:"min_exclusive"`
+		MaxExclusive bool     `json:"max_exclusive"`
+		Integer      bool     `json:"integer"`
+		Default      *float64 `json:"default"`
+		Text         string   `json:"text"`
+	} `json:"limits"`
+	Weights    map[string]float64 `json:"weights"`
+	Objectives []struct {
+		Key      string `json:"key"`
+		Maximise bool   `json:"maximise"`
+	} `json:"objectives"`
+	ParetoObjectives []string `json:"pareto_objectives"`
+	Channel          struct {
+		HeightMM  float64 `json:"height_mm"`
+		WidthMM   float64 `json:"width_mm"`
+		LengthMM  float64 `json:"length_mm"`
+		Crossflow float64 `json:"crossflow_velocity_m_per_s"`
+		Spacer    bool    `json:"spacer"`
+	} `json:"channel"`
+	MembranePreset string   `json:"membrane_preset"`
+	FeedPreset     string   `json:"feed_preset"`
+	Orientation    string   `json:"orientation"`
+	OsmoticModel   string   `json:"osmotic_model"`
+	HazardFlags    []string `json:"hazard_flags"`
+}
+
+func readDefaults(t testing.TB) engineDefaults {
+	t.Helper()
+	out, e := api.Dispatch(context.Background(), api.OpDefaults, nil)
+	if e != nil {
+		t.Fatalf("defaults: %s", out)
+	}
+	var d engineDefaults
+	if err := json.Unmarshal(out, &d); err != nil {
+		t.Fatal(err)
+	}
+	return d
+}
+
+// limitedInputs are the form's inputs with a range in the engine's
+// listing: input id, listing key, and the scale of the form's unit (the
+// recovery is a fraction shown in %, a custom diffusivity is entered in
+// 10⁻⁹ m²/s).
+var limitedInputs = []struct {
+	id, key string
+	scale   float64
+}{
+	{"temp", "temperature_c", 1}, {"mem-a", "membrane.a_lmh_per_bar", 1}, {"mem-b", "membrane.b_nacl_lmh", 1},
+	{"mem-s", "membrane.s_um", 1}, {"mem-bdraw", "membrane.b_lmh", 1}, {"k-draw", "k_draw_m_per_s", 1},
+	{"k-feed", "k_feed_m_per_s", 1}, {"ch-h", "channel.height_mm", 1}, {"ch-w", "channel.width_mm", 1},
+	{"ch-l", "channel.length_mm", 1}, {"ch-u", "channel.crossflow_velocity_m_per_s", 1}, {"feed-ph", "feed.ph", 1},
+	{"regen-recovery", "regeneration_recovery", 100}, {"unc-samples", "uncertainty.samples", 1}, {"seed", "seed", 1},
+	{"unc-a", "uncertainty.a_rel_sd", 1}, {"unc-b", "uncertainty.b_rel_sd", 1}, {"unc-s", "uncertainty.s_rel_sd", 1},
+	{"unc-pi", "uncertainty.osmotic_rel_sd", 1}, {"unc-d", "uncertainty.diffusivity_rel_sd", 1}, {"sweep-n", "sweep.points", 1},
+	{"cs-mm", "custom_solutes[].molar_mass_g_per_mol", 1}, {"cs-nu", "custom_solutes[].van_t_hoff_factor", 1},
+	{"cs-d", "custom_solutes[].diffusivity_m2_per_s", 1e9}, {"cs-table-t", "temperature_c", 1},
+	{"basis-value", "basis.osmotic_pressure_bar", 1}, // the demo's basis is in bar
+}
+
+// close12 compares a number the page printed (12 significant digits)
+// with the engine's.
+func close12(got, want float64) bool {
+	return math.Abs(got-want) <= 1e-11*math.Max(math.Abs(want), 1e-300)
+}
+
+// TestPageDefaultsFromEngine ties the page to the engine's defaults
+// operation, read natively: after a fresh load every limited input's
+// min/max attributes are the engine's range, the hazard boxes are the
+// engine's flags, the weight sliders and Pareto boxes its objectives; a
+// scenario that names nothing shows every engine default in the form and
+// ranks as the engine ranks {} — also once the page sends those defaults
+// itself; and a value just past a limit is refused beside its field with
+// the engine's limit text.
+func TestPageDefaultsFromEngine(t *testing.T) {
+	d := readDefaults(t)
+	b, run := openServed(t)
+
+	// min and max of every limited input.
+	for _, in := range limitedInputs {
+		l, ok := d.Limits[in.key]
+		if !ok {
+			t.Errorf("the engine lists no limit %s", in.key)
+			continue
+		}
+		attrs := eval[[]any](t, b, fmt.Sprintf(`(e => [e.getAttribute("min"), e.getAttribute("max")])(document.getElementById(%q))`, in.id))
+		for i, want := range []*float64{l.Min, l.Max} {
+			name := []string{"min", "max"}[i]
+			switch {
+			case want == nil && attrs[i] != nil:
+				t.Errorf("%s: %s=%v, the engine has no bound", in.id, name, attrs[i])
+			case want != nil && attrs[i] == nil:
+				t.Errorf("%s: no %s, the engine's is %g", in.id, name, *want*in.scale)
+			case want != nil:
+				got, err := strconv.ParseFloat(attrs[i].(string), 64)
+				if err != nil || !close12(got, *want*in.scale) {
+					t.Errorf("%s: %s=%v, the engine's is %g", in.id, name, attrs[i], *want*in.scale)
+				}
+			}
+		}
+		if l.Integer && eval[string](t, b, fmt.Sprintf(`document.getElementById(%q).getAttribute("step")`, in.id)) != "1" {
+			t.Errorf("%s: %s takes whole numbers, the input's step is not 1", in.id, in.key)
+		}
+	}
+	// Hazard boxes: the engine's flags, in its order; weights and Pareto
+	// boxes: its objectives, each slider titled with its direction.
+	if got := eval[[]string](t, b, `Array.from(document.querySelectorAll("#hazard-boxes input")).map(i => i.dataset.flag)`); fmt.Sprint(got) != fmt.Sprint(d.HazardFlags) {
+		t.Errorf("hazard boxes %v, engine flags %v", got, d.HazardFlags)
+	}
+	var keys, senses []string
+	for _, o := range d.Objectives {
+		keys = append(keys, o.Key)
+		senses = append(senses, map[bool]string{true: "higher is better", false: "lower is better"}[o.Maximise])
+	}
+	if got := eval[[]string](t, b, `Array.from(document.querySelectorAll("#weights input")).map(i => i.dataset.key)`); fmt.Sprint(got) != fmt.Sprint(keys) {
+		t.Errorf("weight sliders %v, engine objectives %v", got, keys)
+	}
+	if got := eval[[]string](t, b, `Array.from(document.querySelectorAll("#weights label")).map(l => l.title)`); fmt.Sprint(got) != fmt.Sprint(senses) {
+		t.Errorf("weight directions %v, engine %v", got, senses)
+	}
+	if got := eval[[]string](t, b, `Array.from(document.querySelectorAll("#pareto-boxes input")).map(i => i.dataset.key)`); fmt.Sprint(got) != fmt.Sprint(keys) {
+		t.Errorf("Pareto boxes %v, engine objectives %v", got, keys)
+	}
+	// The hints quote the engine's limits and defaults.
+	for _, h := range eval[[]map[string]string](t, b, `Array.from(document.querySelectorAll("[data-limit-of], [data-default-of]")).map(e => Object.assign({text: e.textContent}, e.dataset))`) {
+		key := h["limitOf"] + h["defaultOf"]
+		l := d.Limits[key]
+		switch {
+		case h["limitOf"] != "" && h["scale"] == "" && h["text"] != l.Text:
+			t.Errorf("hint for %s says %q, the engine %q", key, h["text"], l.Text)
+		case h["defaultOf"] != "":
+			scale := 1.0
+			if h["scale"] != "" {
+				scale, _ = strconv.ParseFloat(h["scale"], 64)
+			}
+			if got, err := strconv.ParseFloat(h["text"], 64); err != nil || l.Default == nil || !close12(got, *l.Default*scale) {
+				t.Errorf("hint for the default of %s says %q", key, h["text"])
+			}
+		}
+	}
+	if got, want := eval[string](t, b, `document.getElementById("regen-recovery-hint").textContent`), recoveryPct(d); !strings.Contains(got, want) {
+		t.Errorf("the recovery hint %q lacks %q", got, want)
+	}
+
+	// A scenario that names nothing: the form shows the engine's defaults.
+	empty := filepath.Join(t.TempDir(), "empty.json")
+	os.WriteFile(empty, []byte("{}"), 0o644)
+	b.do(t, chromedp.SetUploadFiles(chromedp.ID("file-import"), []string{empty}))
+	run = b.waitRun(t, run)
+	type formView struct {
+		Feed, Membrane, Orientation, Model, BasisKind, BasisUnit       string
+		Temp, ChH, ChW, ChL, ChU, Recovery, Samples, Seed, UncD, Basis float64
+		Spacer                                                         bool
+		Weights                                                        map[string]float64
+		Pareto, Hazards                                                []string
+		PHHolder, PiHolder                                             string
+	}
+	f := eval[formView](t, b, `(() => { const v = id => document.getElementById(id).value, n = id => Number(v(id));
+		const ticked = sel => Array.from(document.querySelectorAll(sel)).filter(i => i.checked).map(i => i.dataset.key || i.dataset.flag);
+		return { Feed: v("feed-preset"), Membrane: v("mem-preset"), Orientation: document.querySelector('input[name="orientation"]:checked').value,
+			Model: v("osm-model"), BasisKind: v("basis-kind"), BasisUnit: v("basis-unit"), Basis: n("basis-value"),
+			Temp: n("temp"), ChH: n("ch-h"), ChW: n("ch-w"), ChL: n("ch-l"), ChU: n("ch-u"), Spacer: document.getElementById("ch-spacer").checked,
+			Recovery: n("regen-recovery"), Samples: n("unc-samples"), Seed: n("seed"), UncD: n("unc-d"),
+			Weights: Object.fromEntries(Array.from(document.querySelectorAll("#weights input")).map(i => [i.dataset.key, Number(i.value)])),
+			Pareto: ticked("#pareto-boxes input"), Hazards: ticked("#hazard-boxes input"),
+			PHHolder: document.getElementById("feed-ph").placeholder, PiHolder: document.getElementById("unc-pi").placeholder };
+	})()`)
+	def := func(key string) float64 {
+		l := d.Limits[key]
+		if l.Default == nil {
+			t.Fatalf("the engine has no default for %s", key)
+		}
+		return *l.Default
+	}
+	for _, c := range []struct {
+		what      string
+		got, want any
+	}{
+		{"feed", f.Feed, "preset:" + d.FeedPreset}, {"membrane", f.Membrane, d.MembranePreset},
+		{"orientation", f.Orientation, d.Orientation}, {"osmotic model", f.Model, d.OsmoticModel},
+		{"temperature", f.Temp, def("temperature_c")},
+		{"channel", [5]any{f.ChH, f.ChW, f.ChL, f.ChU, f.Spacer}, [5]any{d.Channel.HeightMM, d.Channel.WidthMM, d.Channel.LengthMM, d.Channel.Crossflow, d.Channel.Spacer}},
+		{"recovery (%)", f.Recovery, 100 * def("regeneration_recovery")},
+		{"samples", f.Samples, def("uncertainty.samples")}, {"seed", f.Seed, def("seed")},
+		{"diffusivity spread", f.UncD, def("uncertainty.diffusivity_rel_sd")},
+		// The deionised-water feed has no π: the engine's basis is an equal π (engine/api resolveBasis).
+		{"basis", [3]any{f.BasisKind, f.BasisUnit, f.Basis}, [3]any{"osmotic-pressure", d.Limits["basis.osmotic_pressure_bar"].Unit, def("basis.osmotic_pressure_bar")}},
+		{"weights", fmt.Sprint(f.Weights), fmt.Sprint(d.Weights)},
+		{"Pareto objectives", fmt.Sprint(f.Pareto), fmt.Sprint(d.ParetoObjectives)},
+		{"hazards excluded", len(f.Hazards), 0},
+		{"pH placeholder", f.PHHolder, strconv.FormatFloat(def("feed.ph"), 'g', -1, 64)},
+	} {
+		if fmt.Sprint(c.got) != fmt.Sprint(c.want) {
+			t.Errorf("for {} the form shows %s %v, the engine's default is %v", c.what, c.got, c.want)
+		}
+	}
+	if want := strconv.FormatFloat(def("uncertainty.osmotic_rel_sd"), 'g', -1, 64); !strings.HasPrefix(f.PiHolder, want) {
+		t.Errorf("the π spread's placeholder %q does not start with the engine's default %s", f.PiHolder, want)
+	}
+	// The page ran {} as imported; once an edit makes it send every value
+	// the form shows, the ranking is still the engine's ranking of {}.
+	want := native(t, map[string]any{})
+	sameRanking(t, eval[[]pageRow](t, b, jsRows), want)
+	b.do(t, chromedp.Evaluate[chromedp.Void](`document.getElementById("temp").dispatchEvent(new Event("input", {bubbles: true}))`))
+	run = b.waitRun(t, run)
+	sc := pageScenario(t, b)
+	if sc["regeneration_recovery"] != def("regeneration_recovery") || sc["pareto_objectives"] == nil || sc["temperature_c"] != def("temperature_c") {
+		t.Errorf("the page's own request for the defaults is %v", sc)
+	}
+	sameRanking(t, eval[[]pageRow](t, b, jsRows), want)
+	sameRanking(t, eval[[]pageRow](t, b, jsRows), native(t, sc))
+
+	// A custom membrane takes the engine's spreads of A, B and S.
+	custom := filepath.Join(t.TempDir(), "custom.json")
+	os.WriteFile(custom, []byte(`{"membrane": {"a_lmh_per_bar": 1.2, "b_lmh": 0.4, "s_um": 450}}`), 0o644)
+	b.do(t, chromedp.SetUploadFiles(chromedp.ID("file-import"), []string{custom}))
+	run = b.waitRun(t, run)
+	if got, want := eval[[]float64](t, b, `["unc-a", "unc-b", "unc-s"].map(id => Number(document.getElementById(id).value))`),
+		[]float64{def("uncertainty.a_rel_sd"), def("uncertainty.b_rel_sd"), def("uncertainty.s_rel_sd")}; fmt.Sprint(got) != fmt.Sprint(want) {
+		t.Errorf("a custom membrane's spreads %v, the engine's defaults %v", got, want)
+	}
+
+	// Just past a limit: refused beside the field (the input marked
+	// invalid, the message in its fieldset quoting the engine's limit),
+	// by the page or by the engine; back within it, the ranking returns.
+	set := func(id, v string) {
+		b.do(t, chromedp.Evaluate[chromedp.Void](fmt.Sprintf(`(e => { e.value = %q; e.dispatchEvent(new Event("input", {bubbles: true})); })(document.getElementById(%q))`, v, id)))
+	}
+	b.do(t, chromedp.Evaluate[chromedp.Void](`(r => { r.checked = true; r.dispatchEvent(new Event("change", {bubbles: true})); })(document.getElementById("k-mode-given"))`))
+	set("k-feed", "8e-6")
+	run = b.waitRun(t, run)
+	for _, c := range []struct {
+		id, key string
+		upper   bool // past the upper bound, else the lower
+		scale   float64
+		also    string // a second text the message must hold
+	}{
+		{id: "temp", key: "temperature_c", upper: true},
+		{id: "ch-h", key: "channel.height_mm"},
+		{id: "ch-u", key: "channel.crossflow_velocity_m_per_s", upper: true},
+		{id: "k-draw", key: "k_draw_m_per_s"},
+		{id: "k-draw", key: "k_draw_m_per_s", upper: true},
+		{id: "mem-bdraw", key: "membrane.b_lmh", upper: true},
+		{id: "regen-recovery", key: "regeneration_recovery", scale: 100, also: recoveryPct(d)},
+		{id: "regen-recovery", key: "regeneration_recovery", upper: true, scale: 100, also: recoveryPct(d)},
+		{id: "unc-samples", key: "uncertainty.samples"},
+		{id: "unc-samples", key: "uncertainty.samples", upper: true},
+		{id: "unc-a", key: "uncertainty.a_rel_sd", upper: true},
+		{id: "unc-d", key: "uncertainty.diffusivity_rel_sd"},
+		{id: "seed", key: "seed"},
+	} {
+		l := d.Limits[c.key]
+		scale := c.scale
+		if scale == 0 {
+			scale = 1
+		}
+		bound, open := l.Min, l.MinExclusive
+		if c.upper {
+			bound, open = l.Max, l.MaxExclusive
+		}
+		if bound == nil {
+			t.Errorf("%s has no bound to pass", c.key)
+			continue
+		}
+		v := *bound * scale
+		step := math.Abs(v) * 1e-6
+		if step == 0 {
+			step = 1e-6
+		}
+		switch {
+		case open: // the bound itself is out
+		case l.Integer:
+			step = 1
+			fallthrough
+		default:
+			if c.upper {
+				v += step
+			} else {
+				v -= step
+			}
+		}
+		before := eval[string](t, b, fmt.Sprintf(`document.getElementById(%q).value`, c.id))
+		set(c.id, strconv.FormatFloat(v, 'g', -1, 64))
+		got := b.settle(t)
+		if !strings.HasPrefix(got, "invalid-") && !strings.HasPrefix(got, "error-") {
+			t.Errorf("%s = %g (%s %s) was not refused: run %s", c.id, v, c.key, l.Text, got)
+		}
+		beside := eval[string](t, b, fmt.Sprintf(`(e => Array.from(e.closest("fieldset").querySelectorAll(".field-error")).map(x => x.textContent).join(" | "))(document.getElementById(%q))`, c.id))
+		if !strings.Contains(beside, l.Text) || !strings.Contains(beside, c.also) {
+			t.Errorf("%s = %g: beside the field %q, want the engine's limit %q %s", c.id, v, beside, l.Text, c.also)
+		}
+		if eval[string](t, b, fmt.Sprintf(`document.getElementById(%q).getAttribute("aria-invalid")`, c.id)) != "true" {
+			t.Errorf("%s = %g: the input is not marked invalid", c.id, v)
+		}
+		set(c.id, before)
+		run = b.waitRun(t, run)
+	}
+	b.screenshot(t, "defaults")
+}
+
+// recoveryPct is the recovery's limit as the form shows it: the engine's
+// bounds of the fraction, in %, written as the engine writes a range
+// (engine/scenario Range.Text).
+func recoveryPct(d engineDefaults) string {
+	l := d.Limits["regeneration_recovery"]
+	pct := func(v *float64) string { return strconv.FormatFloat(100**v, 'g', 12, 64) }
+	lo, hi := ">= ", "<= "
+	if l.MinExclusive {
+		lo = "> "
+	}
+	if l.MaxExclusive {
+		hi = "< "
+	}
+	if !l.MinExclusive && !l.MaxExclusive {
+		return pct(l.Min) + "–" + pct(l.Max) + " %"
+	}
+	return strings.NewReplacer(">=", "≥", "<=", "≤").Replace(lo+pct(l.Min)+" and "+hi+pct(l.Max)) + " %"
 }

@@ -73,3 +73,44 @@ func TestDemoScenarioRuns(t *testing.T) {
 		t.Errorf("the demo ranks %d candidates", n)
 	}
 }
+
+// TestServiceWorkerCachesEveryFile: the service worker's list (sw.js
+// FILES) holds every file the page loads — index.html's scripts, style,
+// icon and manifest, the worker with its wasm_exec.js, the demo and the
+// engine — so that the page works offline after one visit; and each
+// listed site file exists.
+func TestServiceWorkerCachesEveryFile(t *testing.T) {
+	read := func(name string) string {
+		b, err := fs.ReadFile(site.FS, name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return string(b)
+	}
+	m := regexp.MustCompile(`(?s)const FILES = \[(.*?)\];`).FindStringSubmatch(read("sw.js"))
+	if m == nil {
+		t.Fatal("sw.js has no FILES list")
+	}
+	cached := map[string]bool{}
+	for _, q := range regexp.MustCompile(`"([^"]+)"`).FindAllStringSubmatch(m[1], -1) {
+		cached[q[1]] = true
+	}
+	want := []string{"./", "worker.js", "wasm_exec.js", "demo.json", "drawsift.wasm?v="}
+	for _, r := range regexp.MustCompile(`(?:src|href)="([A-Za-z0-9_.-]+)"`).FindAllStringSubmatch(read("index.html"), -1) {
+		want = append(want, r[1])
+	}
+	for _, w := range want {
+		if !cached[w] {
+			t.Errorf("sw.js does not cache %s", w)
+		}
+	}
+	for f := range cached {
+		switch f {
+		case "./", "wasm_exec.js", "drawsift.wasm?v=": // the page itself and the build products
+			continue
+		}
+		if _, err := fs.Stat(site.FS, f); err != nil {
+			t.Errorf("sw.js caches %s, which the site does not have", f)
+		}
+	}
+}

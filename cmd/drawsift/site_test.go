@@ -6,6 +6,7 @@ import (
 	"crypto/sha256"
 	"encoding/base64"
 	"io"
+	"io/fs"
 	"net/http"
 	"net/http/httptest"
 	"os"
@@ -53,6 +54,13 @@ func TestSiteHandlerServesPage(t *testing.T) {
 	for _, tc := range []struct{ path, ctype string }{
 		{"/", "text/html; charset=utf-8"},
 		{"/app.js", "text/javascript; charset=utf-8"},
+		{"/core.js", "text/javascript; charset=utf-8"},
+		{"/form.js", "text/javascript; charset=utf-8"},
+		{"/results.js", "text/javascript; charset=utf-8"},
+		{"/plots.js", "text/javascript; charset=utf-8"},
+		{"/library.js", "text/javascript; charset=utf-8"},
+		{"/report.js", "text/javascript; charset=utf-8"},
+		{"/files.js", "text/javascript; charset=utf-8"},
 		{"/worker.js", "text/javascript; charset=utf-8"},
 		{"/sw.js", "text/javascript; charset=utf-8"},
 		{"/app.css", "text/css; charset=utf-8"},
@@ -184,8 +192,27 @@ func TestBundleIsSelfContained(t *testing.T) {
 			t.Errorf("script %d's hash %s is not in the CSP", exec, h)
 		}
 	}
-	if exec != 4 {
-		t.Errorf("%d executable scripts, want 4 (charts, store, engine, app)", exec)
+	// One inline script for each script index.html names, in its order.
+	index, err := fs.ReadFile(site.FS, "index.html")
+	if err != nil {
+		t.Fatal(err)
+	}
+	names := reScriptSrc.FindAllStringSubmatch(string(index), -1)
+	if len(names) < 4 || exec != len(names) {
+		t.Errorf("%d executable scripts, want one for each of the %d scripts of index.html", exec, len(names))
+	}
+	at := 0
+	for _, n := range names {
+		js, err := fs.ReadFile(site.FS, n[1])
+		if err != nil {
+			t.Fatal(err)
+		}
+		i := strings.Index(html[at:], "<script>"+string(js)+"</script>")
+		if i < 0 {
+			t.Errorf("%s is not inlined after the scripts before it", n[1])
+			continue
+		}
+		at += i
 	}
 	style := regexp.MustCompile(`(?s)<style>(.*?)</style>`).FindStringSubmatch(html)
 	if style == nil {

@@ -7,8 +7,11 @@
 
 const VERSION = new URL(self.location.href).searchParams.get("v") || "dev";
 const CACHE = "drawsift-" + VERSION;
-const FILES = ["./", "app.css", "charts.js", "store.js", "engine.js", "app.js", "worker.js", "wasm_exec.js",
-  "drawsift.wasm?v=" + encodeURIComponent(VERSION), "icon.svg", "manifest.webmanifest", "demo.json"];
+// Every file the page loads (site_test.go checks this list against
+// index.html and engine.js).
+const FILES = ["./", "app.css", "charts.js", "store.js", "engine.js", "core.js", "form.js", "results.js", "plots.js", "library.js",
+  "report.js", "files.js", "app.js", "worker.js", "wasm_exec.js", "drawsift.wasm?v=" + encodeURIComponent(VERSION), "icon.svg",
+  "manifest.webmanifest", "demo.json"];
 
 self.addEventListener("install", ev => {
   ev.waitUntil(caches.open(CACHE).then(c => c.addAll(FILES)).then(() => self.skipWaiting()));

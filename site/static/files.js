@@ -1,0 +1,179 @@
+// Drawsift page, files and links: the scenario's shape (checked field by
+// field on every import, link and stored entry), scenario and custom-
+// solute files, CSV and JSON exports of the results, share links, the
+// demo, and the scenario the page opens with.
+"use strict";
+
+(function () {
+  const P = window.DrawsiftPage;
+  const { state, S } = P;
+
+  // ---- the demo -----------------------------------------------------------
+  // demo.json, our own scenario: a coastal teaching lab compares twelve
+  // common draw solutes against seawater on a moderately permeable
+  // thin-film composite membrane, at equal bulk osmotic pressure (60 bar, a
+  // little over twice seawater's). The single-file bundle carries it
+  // inline; the served page fetches it.
+  async function loadDemo() {
+    const inline = document.getElementById("ds-demo");
+    if (inline) return JSON.parse(inline.textContent);
+    const r = await fetch("demo.json");
+    if (!r.ok) throw new Error("the demo scenario could not be loaded (" + r.status + ")");
+    return r.json();
+  }
+
+  // ---- the scenario's shape (for imports, links and storage) ---------------
+  const num_ = "number", str_ = "string", bool_ = "boolean";
+  const SHAPE_CUSTOM = {
+    object: {
+      id: str_, name: str_, molar_mass_g_per_mol: num_, van_t_hoff_factor: num_, solubility_mol_per_kg: num_, miscible: bool_,
+      diffusivity_m2_per_s: num_, price_usd_per_kg_min: num_, price_usd_per_kg_max: num_, hazard_flags: ["array", str_], source: str_,
+      ions: ["array", { object: { symbol: str_, charge: "integer", count: "integer" }, required: ["symbol", "charge", "count"] }],
+      // Page-side extras, kept with the solute and stripped before the engine sees it.
+      hazards: ["array", str_], regeneration: ["array", str_],
+      osmotic_table: { object: { unit: str_, temperature_c: num_, points: ["array", { object: { concentration: num_, osmotic_pressure_bar: num_ }, required: ["concentration", "osmotic_pressure_bar"] }] }, required: ["unit", "points"] },
+    },
+    required: ["id", "molar_mass_g_per_mol", "diffusivity_m2_per_s"], hint: true,
+  };
+  // oneOf accepts one of the names the engine lists under key of its defaults.
+  const oneOf = key => v => P.defaults()[key].includes(v) ? "" : "must be " + P.defaults()[key].map(x => "\"" + x + "\"").join(" or ");
+  const SHAPE_SCENARIO = {
+    object: {
+      feed: { object: { preset: str_, solute: str_, concentration: num_, unit: str_, ph: num_,
+        ions: ["array", { object: { symbol: str_, charge: "integer", molar_mass_g_per_mol: num_, mg_per_l: num_ }, required: ["symbol", "charge", "molar_mass_g_per_mol", "mg_per_l"] }] }, hint: true },
+      membrane: { object: { preset: str_, a_lmh_per_bar: num_, b_lmh: num_, b_nacl_lmh: num_, s_um: num_ }, hint: true },
+      orientation: oneOf("orientations"),
+      orientations: ["array", oneOf("orientations")],
+      temperature_c: num_, k_draw_m_per_s: num_, k_feed_m_per_s: num_,
+      channel: { object: { height_mm: num_, width_mm: num_, length_mm: num_, crossflow_velocity_m_per_s: num_, spacer: bool_, feed_crossflow_velocity_m_per_s: num_ }, hint: true },
+      external_cp: bool_,
+      candidates: ["array", str_],
+      custom_solutes: ["array", SHAPE_CUSTOM],
+      basis: { object: { kind: v => ["osmotic-pressure", "concentration", "water-flux"].includes(v) ? "" : "must be osmotic-pressure, concentration or water-flux", value: num_, unit: str_, multiple_of_feed: num_ }, required: ["kind"], hint: true },
+      osmotic_model: oneOf("osmotic_models"),
+      weights: v => {
+        if (v === null || typeof v !== "object" || Array.isArray(v)) return "must be an object of weights";
+        for (const k in v) {
+          if (!P.objectiveKeys().includes(k)) return "has an unknown objective \"" + k + "\"";
+          if (typeof v[k] !== "number" || !(v[k] >= 0) || !isFinite(v[k])) return "." + k + " must be a non-negative number";
+        }
+        return "";
+      },
+      pareto_objectives: ["array", str_], exclude_hazards: ["array", str_], allow_extrapolation: bool_, regeneration_recovery: num_,
+      uncertainty: { object: { samples: "integer", a_rel_sd: num_, b_rel_sd: num_, s_rel_sd: num_, osmotic_rel_sd: num_, diffusivity_rel_sd: num_, prices: bool_ }, hint: true },
+      seed: "integer",
+      sweep: "any",
+    },
+    hint: true,
+  };
+
+  // ---- files, links, storage -------------------------------------------------------
+  function exportScenario() {
+    S.download("drawsift-scenario.json", JSON.stringify(state.scenario, null, 2) + "\n");
+  }
+  function exportCustom() {
+    S.download("drawsift-custom-solutes.json", JSON.stringify({ drawsift_custom_solutes: state.custom }, null, 2) + "\n");
+  }
+  function exportCSV() {
+    const res = state.result;
+    if (!res) return;
+    const cols = P.columns();
+    const q = s => /[",\n]/.test(s) ? '"' + s.replace(/"/g, '""') + '"' : s;
+    const lines = [cols.map(c => q(c.label + (c.unit ? " (" + c.unit + ")" : ""))).join(",")];
+    for (const c of res.candidates) lines.push(cols.map(col => { const v = col.get(c); return col.text ? q(String(v)) : isFinite(v) ? String(v) : ""; }).join(","));
+    lines.push("");
+    lines.push("excluded solute,reason,detail");
+    for (const x of res.excluded) lines.push([x.solute, x.reason, x.detail || ""].map(q).join(","));
+    S.download("drawsift-ranking.csv", lines.join("\n") + "\n", "text/csv");
+  }
+  function exportJSON() {
+    const res = state.robust || state.result;
+    if (res) S.download("drawsift-result.json", JSON.stringify(res, null, 2) + "\n");
+  }
+
+  // validateScenario checks an imported or linked scenario; throws a
+  // message naming the field.
+  function validateScenario(o) {
+    S.check(o, SHAPE_SCENARIO, "");
+    return o;
+  }
+
+  // applyScenario replaces the scenario (and adds its custom solutes to
+  // the user's library) once the engine accepts it.
+  async function applyScenario(sc, origin) {
+    const r = await state.engine.call("screen", P.engineScenario(sc, false));
+    if (!r.ok) {
+      const e = r.data.error || {};
+      // A scenario whose candidates all fail a hard limit is still a scenario.
+      if (!(e.field === "basis.value" && /no candidate/.test(e.message))) {
+        throw new Error(origin + " was not loaded: " + (e.field ? e.field + ": " : "") + e.message);
+      }
+    }
+    for (const c of sc.custom_solutes || []) {
+      if (!state.custom.some(x => x.id.toLowerCase() === c.id.toLowerCase())) state.custom.push(c);
+    }
+    S.save(S.KEY_CUSTOM, state.custom);
+    P.setScenario(sc);
+    P.fillPresets();
+    P.writeForm(sc);
+    P.renderLibrary();
+    state.sort = null;
+    await P.runScreen();
+  }
+
+  async function importFile(file) {
+    P.banner("");
+    try {
+      const o = await S.readJSONFile(file);
+      if (o && typeof o === "object" && !Array.isArray(o) && "drawsift_custom_solutes" in o) {
+        S.check(o, { object: { drawsift_custom_solutes: ["array", SHAPE_CUSTOM] }, required: ["drawsift_custom_solutes"] }, "");
+        const list = o.drawsift_custom_solutes;
+        for (const c of list) if (state.library.some(s => s.id.toLowerCase() === c.id.toLowerCase())) throw new S.ShapeError("drawsift_custom_solutes", "“" + c.id + "” is already a library solute");
+        let added = 0;
+        for (const c of list) if (!state.custom.some(x => x.id.toLowerCase() === c.id.toLowerCase())) { state.custom.push(c); added++; }
+        S.save(S.KEY_CUSTOM, state.custom);
+        P.fillPresets(); P.writeForm(state.scenario); P.renderLibrary();
+        P.banner("");
+        P.$("engine-status").textContent = "Added " + added + " custom solute(s) from “" + file.name + "”.";
+        return;
+      }
+      validateScenario(o);
+      await applyScenario(o, "“" + file.name + "”");
+      P.status("Loaded “" + file.name + "”.");
+    } catch (e) {
+      P.banner("Nothing was changed. " + (e instanceof S.ShapeError ? "“" + file.name + "” is not a Drawsift scenario: " : "") + e.message);
+    }
+  }
+
+  async function copyShare() {
+    const frag = await S.encodeShare(state.scenario);
+    const url = location.href.replace(/#.*$/, "") + "#s=" + frag;
+    history.replaceState(null, "", "#s=" + frag);
+    try {
+      await navigator.clipboard.writeText(url);
+      P.status("Share link copied (" + url.length + " characters).");
+    } catch (e) {
+      P.status("Share link is in the address bar.");
+    }
+  }
+
+  // ---- the scenario the page opens with: a share link's, else the stored
+  // one, else the demo ------------------------------------------------------------------
+  async function initialScenario() {
+    const m = /^#s=(.+)$/.exec(location.hash);
+    if (m) {
+      try {
+        return { sc: validateScenario(await S.decodeShare(m[1])), from: "link" };
+      } catch (e) {
+        P.banner("The share link could not be read (" + e.message + "); your last scenario is shown instead.");
+      }
+    }
+    const saved = S.load(S.KEY_SCENARIO);
+    if (saved) {
+      try { return { sc: validateScenario(saved), from: "storage" }; } catch (e) { /* an old or damaged entry: fall back to the demo */ }
+    }
+    return { sc: validateScenario(await loadDemo()), from: "demo" };
+  }
+
+  Object.assign(P, { SHAPE_CUSTOM, loadDemo, exportScenario, exportCustom, exportCSV, exportJSON, applyScenario, importFile, copyShare, initialScenario });
+})();

@@ -1,0 +1,172 @@
+// Drawsift page, the library panel: the solute list with search and
+// family filter, which solutes the screen includes, each solute's data and
+// sources, and the user's own custom solutes.
+"use strict";
+
+(function () {
+  const P = window.DrawsiftPage;
+  const { $, state, S, h, clear, num, prune } = P;
+
+  function renderLibrary() {
+    const q = $("lib-search").value.trim().toLowerCase(), fam = $("lib-family").value;
+    const list = clear($("lib-list"));
+    const all = state.library.concat(state.custom.map(c => Object.assign({ family: "custom", name: c.name || c.id + " (user-defined)", custom: true }, c)));
+    const shown = all.filter(s => (!fam || s.family === fam) &&
+      (!q || s.id.toLowerCase().includes(q) || (s.name || "").toLowerCase().includes(q) || (s.aliases || []).some(a => a.toLowerCase().includes(q))));
+    const cands = new Set((state.scenario.candidates || []).map(x => x.toLowerCase()));
+    for (const s of shown) {
+      const id = "inc-" + s.id.replace(/[^A-Za-z0-9]/g, "_");
+      const li = h("li", { class: state.current === s.id ? "current" : null, "data-solute": s.id });
+      const cb = h("input", { type: "checkbox", id: id, "aria-label": "Include " + s.id + " in the screen" });
+      cb.checked = cands.has(s.id.toLowerCase());
+      cb.addEventListener("change", () => toggleCandidate(s.id, cb.checked));
+      li.appendChild(cb);
+      li.appendChild(h("button", { type: "button", "aria-label": "Show data for " + s.id, on: { click: () => { state.current = s.id; renderLibrary(); showSolute(s); } } },
+        s.id, " ", h("span", { class: "fam", text: s.family })));
+      list.appendChild(li);
+    }
+    $("lib-count").textContent = shown.length + " of " + all.length + " solutes shown; " + cands.size + " included in the screen.";
+  }
+  function toggleCandidate(id, on) {
+    const sc = state.scenario;
+    const list = (sc.candidates || []).filter(x => x.toLowerCase() !== id.toLowerCase());
+    if (on) list.push(id);
+    sc.candidates = list;
+    P.setScenario(P.readForm());
+    $("lib-count").textContent = $("lib-count").textContent.replace(/\d+ included/, list.length + " included");
+    P.scheduleRun();
+  }
+  function bulkInclude(on) {
+    const ids = Array.from($("lib-list").querySelectorAll("li")).map(li => li.dataset.solute);
+    const sc = state.scenario;
+    const set = new Map((sc.candidates || []).map(x => [x.toLowerCase(), x]));
+    for (const id of ids) { if (on) set.set(id.toLowerCase(), id); else set.delete(id.toLowerCase()); }
+    sc.candidates = Array.from(set.values());
+    P.setScenario(P.readForm());
+    renderLibrary();
+    P.scheduleRun();
+  }
+  function showSolute(s) {
+    const d = clear($("lib-detail"));
+    d.appendChild(h("h3", { text: s.id + " — " + (s.name || "user-defined solute") }));
+    const dl = h("dl", {});
+    const add = (k, v) => { if (v !== undefined && v !== null && v !== "") { dl.appendChild(h("dt", { text: k })); dl.appendChild(h("dd", { text: String(v) })); } };
+    add("Family", s.family);
+    add("Molar mass", s.molar_mass_g_per_mol + " g/mol");
+    if (s.osmotic_model) add("Osmotic model", s.osmotic_model.kind + (s.osmotic_model.max_molality_mol_per_kg ? ", data to " + s.osmotic_model.max_molality_mol_per_kg + " mol/kg" : "") + (s.osmotic_model.reason ? " — " + s.osmotic_model.reason : ""));
+    if (s.custom) add("Osmotic model", s.osmotic_table
+      ? "measured π table of " + s.osmotic_table.points.length + " points, interpolated monotonically in the ranking"
+      : "van 't Hoff in the ranking (user-defined solute without a measured table)");
+    if (s.ions && s.ions.length) add("Ions", s.ions.map(i => i.count + " × " + i.symbol).join(", "));
+    if (s.solubility) add("Solubility", s.solubility.miscible ? "miscible" : (s.solubility.points || []).map(p => p.molality_mol_per_kg + " mol/kg at " + p.temperature_c + " °C").join("; "));
+    if (s.solubility_mol_per_kg !== undefined) add("Solubility", s.solubility_mol_per_kg + " mol/kg at 25 °C");
+    if (s.diffusivity) add("Diffusivity at infinite dilution", (s.diffusivity.d0_m2_per_s * 1e9).toFixed(3) + " × 10⁻⁹ m²/s");
+    if (s.diffusivity_m2_per_s) add("Diffusivity", (s.diffusivity_m2_per_s * 1e9).toFixed(3) + " × 10⁻⁹ m²/s");
+    if (s.price) add("Price", s.price.usd_per_kg_min + "–" + s.price.usd_per_kg_max + " USD/kg (" + (s.price.grade || "") + ", " + (s.price.year || "") + ")");
+    if (s.price_usd_per_kg_min !== undefined) add("Price", s.price_usd_per_kg_min + "–" + s.price_usd_per_kg_max + " USD/kg");
+    add("Regeneration routes", (s.regeneration || []).join(", "));
+    add("Notes", s.notes);
+    d.appendChild(dl);
+    if ((s.hazards && s.hazards.length) || (s.hazard_flags && s.hazard_flags.length)) {
+      d.appendChild(h("h4", { text: "Hazards" }));
+      const p = h("p", {});
+      for (const f of s.hazard_flags || []) p.appendChild(h("span", { class: "tag", text: f }));
+      d.appendChild(p);
+      const ul = h("ul", {});
+      for (const x of s.hazards || []) ul.appendChild(h("li", { text: x }));
+      d.appendChild(ul);
+    }
+    d.appendChild(h("h4", { text: "Sources" }));
+    const src = h("ul", {});
+    const m = s.sources || (s.source ? { record: s.source } : {});
+    for (const k of Object.keys(m).sort()) src.appendChild(h("li", {}, h("strong", { text: k + ": " }), m[k]));
+    d.appendChild(src);
+    if (s.custom) d.appendChild(h("button", { type: "button", class: "small", text: "Remove " + s.id + " from my library", on: { click: () => removeCustom(s.id) } }));
+  }
+
+  // ---- custom solutes -------------------------------------------------------------------
+  // parseTable reads pasted "concentration, π" lines; the number of points
+  // is the engine's range for a measured table.
+  function parseTable(text) {
+    const pts = [];
+    const lines = text.split(/\r?\n/);
+    for (let i = 0; i < lines.length; i++) {
+      const line = lines[i].replace(/#.*/, "").trim();
+      if (!line) continue;
+      const parts = line.split(/[\s,;\t]+/).filter(Boolean);
+      if (parts.length !== 2) throw new Error("line " + (i + 1) + ": expected two numbers (concentration, π), got “" + line.slice(0, 40) + "”");
+      const c = Number(parts[0]), p = Number(parts[1]);
+      if (!isFinite(c) || !isFinite(p) || c <= 0 || p <= 0) throw new Error("line " + (i + 1) + ": numbers must be finite and > 0");
+      if (pts.length && c <= pts[pts.length - 1].concentration) throw new Error("line " + (i + 1) + ": concentrations must increase");
+      if (pts.length && p <= pts[pts.length - 1].osmotic_pressure_bar) throw new Error("line " + (i + 1) + ": osmotic pressure must increase with concentration");
+      pts.push({ concentration: c, osmotic_pressure_bar: p });
+    }
+    const key = "custom_solutes[].pi_table.points";
+    if (pts.length && !P.inLimit(key, pts.length)) throw new Error("the table has " + pts.length + (pts.length === 1 ? " point" : " points") + "; a table takes " + P.limitText(key));
+    return pts;
+  }
+  // within throws "what: … (limit)" unless the number v lies in the
+  // engine's range for key (in the form's units, scale × the engine's).
+  function within(what, v, key, scale, unit) {
+    if (v === undefined || !P.inLimit(key, v, scale)) throw new Error(what + ": " + (v === undefined ? "a number is required" : v + " is outside") + " " + P.limitText(key, scale, unit));
+  }
+  function addCustom(ev) {
+    ev.preventDefault();
+    const err = $("cs-error");
+    err.textContent = "";
+    try {
+      const id = $("cs-id").value.trim();
+      if (!/^[A-Za-z0-9()+\-_.·]{1,40}$/.test(id)) throw new Error("Identifier: use letters, digits and ( ) + - _ . only (at most 40)");
+      if (P.solute(id)) throw new Error("Identifier: “" + id + "” is already in the library or your custom solutes");
+      const mm = num("cs-mm");
+      within("Molar mass", mm, "custom_solutes[].molar_mass_g_per_mol");
+      const nu = num("cs-nu");
+      within("Particles per formula unit", nu, "custom_solutes[].van_t_hoff_factor");
+      const d = num("cs-d");
+      within("Diffusivity", d, "custom_solutes[].diffusivity_m2_per_s", 1e9, "× 10⁻⁹ m²/s");
+      const cs = { id: id, name: $("cs-name").value.trim() || undefined, molar_mass_g_per_mol: mm, van_t_hoff_factor: nu, diffusivity_m2_per_s: d * 1e-9 };
+      const sol = num("cs-sol");
+      if (sol === undefined) cs.miscible = true;
+      else if (sol > 0) cs.solubility_mol_per_kg = sol;
+      else throw new Error("Solubility: a positive number, or blank for a miscible solute");
+      const pmin = num("cs-pmin"), pmax = num("cs-pmax");
+      if ((pmin === undefined) !== (pmax === undefined)) throw new Error("Price: give both ends of the range, or neither");
+      if (pmin !== undefined) {
+        if (!(pmin >= 0 && pmax >= pmin)) throw new Error("Price: 0 ≤ from ≤ to");
+        cs.price_usd_per_kg_min = pmin; cs.price_usd_per_kg_max = pmax;
+      }
+      const t = $("cs-table").value.trim();
+      if (t) {
+        const pts = parseTable(t);
+        const tt = num("cs-table-t");
+        if (tt !== undefined) within("Table temperature", tt, "temperature_c");
+        cs.osmotic_table = { unit: $("cs-table-unit").value, temperature_c: tt !== undefined ? tt : P.dflt("temperature_c"), points: pts };
+      }
+      const hz = $("cs-hazards").value.split(/\n/).map(s => s.trim()).filter(Boolean);
+      if (hz.length) cs.hazards = hz;
+      const rg = $("cs-regen").value.split(",").map(s => s.trim()).filter(Boolean);
+      if (rg.length) cs.regeneration = rg;
+      cs.source = $("cs-source").value.trim() || "user-defined (no source given)";
+      state.custom.push(prune(cs));
+      S.save(S.KEY_CUSTOM, state.custom);
+      $("custom-form").reset();
+      P.fillPresets();
+      P.writeForm(state.scenario);
+      toggleCandidate(id, true);
+      state.current = id;
+      renderLibrary();
+      showSolute(Object.assign({ family: "custom", custom: true }, cs));
+    } catch (e) {
+      err.textContent = e.message;
+    }
+  }
+  function removeCustom(id) {
+    state.custom = state.custom.filter(c => c.id !== id);
+    S.save(S.KEY_CUSTOM, state.custom);
+    toggleCandidate(id, false);
+    clear($("lib-detail")).appendChild(h("p", { class: "hint", text: id + " was removed from your library." }));
+    renderLibrary();
+  }
+
+  Object.assign(P, { renderLibrary, toggleCandidate, bulkInclude, addCustom });
+})();

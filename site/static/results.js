@@ -1,0 +1,212 @@
+// Drawsift page, the results: the ranked table (sortable, with each
+// metric's share of the score), the solutes left out, the warnings, and
+// the robustness run with its table.
+"use strict";
+
+(function () {
+  const P = window.DrawsiftPage;
+  const { $, state, h, clear, fmt, pUnit, pConv, fConv, fLabel, sfLabel, sfValue } = P;
+
+  function columns() {
+    const other = state.result && state.result.candidates.length && state.result.candidates[0].other_orientations;
+    const cols = [
+      { key: "rank", label: "Rank", unit: "", get: c => c.rank, fmt: v => String(v) },
+      { key: "solute", label: "Solute", unit: "", get: c => c.solute, text: true },
+      { key: "score", label: "Score", unit: "0–1", get: c => c.score, fmt: v => v.toFixed(3) },
+      { key: "concentration_mol_per_l", label: "Draw conc.", unit: "mol/L", get: c => c.concentration_mol_per_l },
+      { key: "concentration_g_per_l", label: "Draw conc.", unit: "g/L", get: c => c.concentration_g_per_l },
+      { key: "osmotic_pressure_bar", label: "π real", unit: pUnit(), get: c => pConv(c.osmotic_pressure_bar) },
+      { key: "van_t_hoff_bar", label: "π ideal", title: "van 't Hoff osmotic pressure, π = ν c R T", unit: pUnit(), get: c => pConv(c.van_t_hoff_bar) },
+      { key: "water_flux_lmh", label: "Jw " + state.result.orientation, unit: fLabel(), get: c => fConv(c.water_flux_lmh) },
+    ];
+    if (other) for (let i = 0; i < other.length; i++) {
+      cols.push({ key: "other_" + i, label: "Jw " + other[i].orientation, unit: fLabel(),
+        get: c => c.other_orientations && c.other_orientations[i] && !c.other_orientations[i].reason ? fConv(c.other_orientations[i].water_flux_lmh) : NaN });
+    }
+    cols.push(
+      { key: "reverse_solute_flux", label: "Js", unit: sfLabel(), get: sfValue },
+      { key: "specific_reverse_solute_flux_g_per_l", label: "Js/Jw", unit: "g/L", get: c => c.specific_reverse_solute_flux_g_per_l },
+      { key: "replenishment_cost_usd_per_m3", label: "Replenishment", unit: "USD/m³", get: c => c.replenishment_cost_usd_per_m3 },
+      { key: "min_regeneration_energy_kwh_per_m3", label: "Regen. energy (min.)", unit: "kWh/m³", get: c => c.min_regeneration_energy_kwh_per_m3 },
+      { key: "viscosity_mpa_s", label: "Viscosity", unit: "mPa·s", get: c => c.viscosity_mpa_s },
+      { key: "solubility_margin_fraction", label: "Solubility margin", unit: "%", get: c => 100 * c.solubility_margin_fraction, fmt: v => v.toFixed(0) },
+      { key: "max_saturation_index", label: "Max. sat. index", unit: "log SI", get: c => c.max_saturation_index },
+      { key: "flux_efficiency", label: "Flux efficiency", unit: "%", get: c => 100 * c.flux_efficiency, fmt: v => v.toFixed(1) },
+    );
+    return cols;
+  }
+
+  function renderResult(res, ms) {
+    const b = res.basis;
+    let basis = b.kind === "osmotic-pressure" ? "equal osmotic pressure " + fmt(pConv(b.target_osmotic_pressure_bar)) + " " + pUnit()
+      : b.kind === "concentration" ? "equal concentration " + fmt(b.concentration) + " " + b.unit
+        : "equal water flux " + fmt(fConv(b.target_water_flux_lmh)) + " " + fLabel();
+    const ori = res.orientation === "AL-FS" ? "FO mode (AL-FS)" : "PRO mode (AL-DS)";
+    $("run-summary").textContent = "Ranked " + res.candidates.length + " of " + (res.candidates.length + res.excluded.length) +
+      " candidates at " + basis + "; " + ori + "; feed π " + fmt(pConv(res.feed_osmotic_pressure_bar)) + " " + pUnit() +
+      (ms ? "; computed in " + Math.round(ms) + " ms." : ".");
+    renderTable();
+    const ex = clear($("excluded"));
+    if (!res.excluded.length) ex.appendChild(h("li", { text: "None: every candidate passed the hard limits." }));
+    for (const x of res.excluded) ex.appendChild(h("li", { "data-solute": x.solute }, h("strong", { text: x.solute }), " — ", h("span", { class: "reason", text: x.reason }), x.detail ? ": " + x.detail : ""));
+    // General warnings first; each candidate's own notes folded under it.
+    const wl = clear($("warnings"));
+    for (const w of res.warnings) wl.appendChild(h("li", { text: w }));
+    for (const c of res.candidates) {
+      const ws = (c.warnings || []).map(w => w.startsWith(c.solute + ": ") ? w.slice(c.solute.length + 2) : w);
+      if (!ws.length) continue;
+      const ul = h("ul", {});
+      for (const w of ws) ul.appendChild(h("li", { text: w }));
+      wl.appendChild(h("li", {}, h("details", {}, h("summary", { text: c.solute + " — " + ws.length + (ws.length === 1 ? " note" : " notes") }), ul)));
+    }
+    if (!wl.children.length) wl.appendChild(h("li", { text: "None." }));
+    renderRobust();
+    P.renderSources();
+    P.renderReport();
+  }
+
+  function renderTable() {
+    const res = state.result;
+    if (!res) return;
+    const cols = columns();
+    const thead = clear($("ranking").tHead);
+    const tr = h("tr", {});
+    for (const c of cols) {
+      const sorted = state.sort && state.sort.key === c.key;
+      const th = h("th", { scope: "col", "aria-sort": sorted ? (state.sort.dir > 0 ? "ascending" : "descending") : null });
+      th.appendChild(h("button", { type: "button", "data-key": c.key, title: c.title || null, on: { click: () => sortBy(c.key) } },
+        c.label, c.unit ? h("span", { class: "unit", text: "(" + c.unit + ")" }) : null));
+      tr.appendChild(th);
+    }
+    thead.appendChild(tr);
+    let rows = res.candidates.slice();
+    if (state.sort) {
+      const col = cols.find(c => c.key === state.sort.key);
+      if (col) rows.sort((a, b) => {
+        const x = col.get(a), y = col.get(b);
+        if (col.text) return state.sort.dir * String(x).localeCompare(String(y));
+        const fx = isFinite(x) ? x : Infinity, fy = isFinite(y) ? y : Infinity;
+        return state.sort.dir * (fx - fy);
+      });
+    }
+    const tb = clear($("ranking").tBodies[0]);
+    for (const c of rows) {
+      const row = h("tr", { "data-solute": c.solute, "data-rank": String(c.rank), "data-score": String(c.score), class: c.pareto_optimal ? "pareto" : null });
+      for (const col of cols) {
+        const v = col.get(c);
+        if (col.key === "solute") {
+          row.appendChild(h("th", { scope: "row", title: c.name + (c.pareto_optimal ? " — on the Pareto front" : "") }, c.solute));
+        } else if (col.key === "score") {
+          const td = h("td", { class: "score" }, v.toFixed(3));
+          const bar = h("div", { class: "bar", role: "img", "aria-label": contribText(c) });
+          for (const k of P.objectiveKeys()) {
+            const part = (c.score_contributions || {})[k];
+            if (!part) continue;
+            const s = h("span", { title: P.objLabel(k) + ": " + part.toFixed(3) });
+            s.style.width = (100 * part) + "%";
+            s.style.background = P.objColour(k);
+            bar.appendChild(s);
+          }
+          td.appendChild(bar);
+          row.appendChild(td);
+        } else {
+          row.appendChild(h("td", { text: col.fmt ? (isFinite(v) ? col.fmt(v) : "—") : fmt(v) }));
+        }
+      }
+      tb.appendChild(row);
+    }
+    const lg = clear($("contrib-legend"));
+    for (const k of P.objectiveKeys()) {
+      if (!(res.weights[k] > 0)) continue;
+      const i = h("i", {});
+      i.style.background = P.objColour(k);
+      lg.appendChild(h("span", {}, i, P.objLabel(k) + " (weight " + res.weights[k].toFixed(2) + ")"));
+    }
+  }
+  function contribText(c) {
+    return "Score " + c.score.toFixed(3) + ": " + Object.keys(c.score_contributions || {}).map(k => P.objLabel(k) + " " + c.score_contributions[k].toFixed(3)).join(", ");
+  }
+  function sortBy(key) {
+    if (state.sort && state.sort.key === key) state.sort.dir = -state.sort.dir;
+    else state.sort = { key: key, dir: key === "solute" || key === "rank" ? 1 : -1 };
+    renderTable();
+    const btn = $("ranking").querySelector('thead button[data-key="' + CSS.escape(key) + '"]');
+    if (btn) btn.focus();
+  }
+
+  // ---- robustness -------------------------------------------------------------
+  // body data-robust is running | done | cancelled | error; data-robust-
+  // progress counts the progress reports of the current run.
+  let robustAbort = null;
+  async function runRobust() {
+    if (!state.ready || robustAbort) return;
+    P.clearErrors();
+    const pre = P.checkForm(state.scenario);
+    if (pre.length) { P.showErrors(pre); return; }
+    const sc = P.engineScenario(state.scenario, true);
+    if (!sc.uncertainty) sc.uncertainty = {};
+    if (!sc.uncertainty.samples) sc.uncertainty.samples = P.dflt("uncertainty.samples");
+    robustAbort = new AbortController();
+    $("btn-robust").disabled = true; $("btn-robust-cancel").disabled = false;
+    $("robust-progress").value = 0;
+    $("robust-status").textContent = "Running " + sc.uncertainty.samples + " samples…";
+    let reports = 0;
+    document.body.dataset.robustProgress = "0";
+    document.body.dataset.robust = "running";
+    const t0 = performance.now();
+    const r = await state.engine.call("screen", sc, {
+      signal: robustAbort.signal,
+      onProgress: f => {
+        $("robust-progress").value = f; $("robust-status").textContent = Math.round(100 * f) + " % of " + sc.uncertainty.samples + " samples";
+        document.body.dataset.robustProgress = String(++reports);
+      },
+    });
+    const aborted = robustAbort.signal.aborted;
+    robustAbort = null;
+    $("btn-robust").disabled = false; $("btn-robust-cancel").disabled = true;
+    if (aborted || r.cancelled) {
+      $("robust-status").textContent = "Cancelled.";
+      $("robust-progress").value = 0;
+      document.body.dataset.robust = "cancelled";
+      return;
+    }
+    if (!r.ok) {
+      P.showError(r.data.error);
+      $("robust-status").textContent = "Failed.";
+      document.body.dataset.robust = "error";
+      return;
+    }
+    $("robust-progress").value = 1;
+    $("robust-status").textContent = "Done: " + r.data.robustness.samples + " samples in " + ((performance.now() - t0) / 1000).toFixed(1) + " s (seed " + r.data.robustness.seed + ").";
+    state.robust = r.data;
+    renderRobust();
+    P.renderSources();
+    P.renderReport();
+    document.body.dataset.robust = "done";
+  }
+  function cancelRobust() { if (robustAbort) robustAbort.abort(); }
+
+  function renderRobust() {
+    const t = $("robust-table");
+    const head = clear(t.tHead), body = clear(t.tBodies[0] || t.appendChild(h("tbody")));
+    const r = state.robust;
+    $("robust-note").textContent = "";
+    if (!r) {
+      body.appendChild(h("tr", {}, h("td", { colspan: "7", text: "Not run yet for this scenario. “Run robustness” samples the uncertainties set in the scenario form." })));
+      return;
+    }
+    head.appendChild(h("tr", {}, ...["Solute", "Nominal rank", "P(first)", "P(top 3)", "Rank, 5th percentile", "Median rank", "Rank, 95th percentile", "Samples failing a limit"].map(s => h("th", { scope: "col", text: s }))));
+    for (const c of r.candidates) {
+      const q = c.robustness || {};
+      body.appendChild(h("tr", { "data-solute": c.solute },
+        h("th", { scope: "row", text: c.solute }), h("td", { text: String(c.rank) }),
+        h("td", { text: (100 * q.probability_first).toFixed(1) + " %" }), h("td", { text: (100 * q.probability_top3).toFixed(1) + " %" }),
+        h("td", { text: String(q.rank_p05) }), h("td", { text: String(q.rank_median) }), h("td", { text: String(q.rank_p95) }),
+        h("td", { text: (100 * q.failed_fraction).toFixed(1) + " %" })));
+    }
+    t.caption.textContent = "Ranks over " + r.robustness.samples + " Monte Carlo samples (seed " + r.robustness.seed + ").";
+    $("robust-note").textContent = "Sampling: " + r.robustness.distributions + ".";
+  }
+
+  Object.assign(P, { columns, renderResult, renderTable, runRobust, cancelRobust, renderRobust });
+})();
