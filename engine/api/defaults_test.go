@@ -2,11 +2,10 @@ package api
 
 import (
 	"context"
+	"drawsift/engine/limits"
 	"encoding/json"
 	"strings"
 	"testing"
-
-	"drawsift/engine/scenario"
 )
 
 // The defaults operation lists every range of the table with its default,
@@ -20,8 +19,8 @@ func TestDefaultsOperation(t *testing.T) {
 	if err := json.Unmarshal(out, &d); err != nil {
 		t.Fatal(err)
 	}
-	if len(d.Limits) != len(scenario.Ranges()) {
-		t.Errorf("%d limits, want %d", len(d.Limits), len(scenario.Ranges()))
+	if len(d.Limits) != len(limits.Ranges()) {
+		t.Errorf("%d limits, want %d", len(d.Limits), len(limits.Ranges()))
 	}
 	tc := d.Limits["temperature_c"]
 	if tc.Default == nil || *tc.Default != 25 || tc.Text != "0–100 °C" {

@@ -1,6 +1,7 @@
 package scenario
 
 import (
+	"drawsift/engine/limits"
 	"fmt"
 	"math"
 
@@ -23,8 +24,8 @@ type ChannelSpec struct {
 // DefaultChannel is the channel a request without one gets (the
 // defaults of the Channel… ranges).
 func DefaultChannel() ChannelSpec {
-	return ChannelSpec{HeightMM: ChannelHeight.Default, WidthMM: ChannelWidth.Default,
-		LengthMM: ChannelLength.Default, CrossflowVelocityMPerS: Crossflow.Default}
+	return ChannelSpec{HeightMM: limits.ChannelHeight.Default, WidthMM: limits.ChannelWidth.Default,
+		LengthMM: limits.ChannelLength.Default, CrossflowVelocityMPerS: limits.Crossflow.Default}
 }
 
 // ResolveChannel checks a channel in the request's units (so an error
@@ -36,14 +37,14 @@ func ResolveChannel(c *ChannelSpec) (transport.Channel, error) {
 		spec = *c
 	}
 	for _, f := range []struct {
-		r *Range
+		r *limits.Range
 		v float64
-	}{{&ChannelHeight, spec.HeightMM}, {&ChannelWidth, spec.WidthMM}, {&ChannelLength, spec.LengthMM}, {&Crossflow, spec.CrossflowVelocityMPerS}} {
+	}{{&limits.ChannelHeight, spec.HeightMM}, {&limits.ChannelWidth, spec.WidthMM}, {&limits.ChannelLength, spec.LengthMM}, {&limits.Crossflow, spec.CrossflowVelocityMPerS}} {
 		if err := f.r.Check(f.v); err != nil {
 			return transport.Channel{}, err
 		}
 	}
-	if err := optional(&FeedCrossflow, FeedCrossflow.Field, spec.FeedCrossflowVelocityMPS); err != nil {
+	if err := optional(&limits.FeedCrossflow, limits.FeedCrossflow.Field, spec.FeedCrossflowVelocityMPS); err != nil {
 		return transport.Channel{}, err
 	}
 	ch := transport.Channel{HeightM: spec.HeightMM * thermo.MPerMM, WidthM: spec.WidthMM * thermo.MPerMM, LengthM: spec.LengthMM * thermo.MPerMM,
@@ -74,7 +75,7 @@ type SideK struct {
 }
 
 // GivenK checks a given k on r's field; nil means none given (0).
-func GivenK(r *Range, v *float64) (float64, error) {
+func GivenK(r *limits.Range, v *float64) (float64, error) {
 	if v == nil {
 		return 0, nil
 	}
@@ -84,7 +85,7 @@ func GivenK(r *Range, v *float64) (float64, error) {
 // ResolveK returns one side's k: +Inf without external CP, the given
 // value (checked against r), or the channel's Sherwood correlation with
 // the solution's density, viscosity and diffusivity.
-func ResolveK(r *Range, given *float64, ch transport.Channel, externalCP, feedSide bool, fluid transport.Fluid) (SideK, error) {
+func ResolveK(r *limits.Range, given *float64, ch transport.Channel, externalCP, feedSide bool, fluid transport.Fluid) (SideK, error) {
 	if !externalCP {
 		return SideK{KMPerS: math.Inf(1), Origin: KNone}, nil
 	}

@@ -12,6 +12,7 @@
 package scenario
 
 import (
+	"drawsift/engine/limits"
 	"strings"
 
 	"drawsift/engine/errs"
@@ -75,7 +76,7 @@ func ParseOrientation(field, name string) (transport.Orientation, error) {
 // operation: what the page shows before the user changes anything, and
 // the limits it checks beside each field.
 type Table struct {
-	Ranges           []*Range
+	Ranges           []*limits.Range
 	Weights          screen.Weights
 	ParetoObjectives []screen.Objective
 	MembranePreset   string
@@ -90,7 +91,7 @@ type Table struct {
 // Defaults returns the table.
 func Defaults() Table {
 	return Table{
-		Ranges:           Ranges(),
+		Ranges:           limits.Ranges(),
 		Weights:          screen.DefaultWeights,
 		ParetoObjectives: append([]screen.Objective(nil), screen.DefaultPareto...),
 		MembranePreset:   DefaultMembranePreset,

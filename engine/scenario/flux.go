@@ -2,6 +2,7 @@ package scenario
 
 import (
 	"drawsift/engine/library"
+	"drawsift/engine/limits"
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
 	"drawsift/engine/warn"
@@ -141,7 +142,7 @@ func ResolveFlux(req *FluxSpec) (*Flux, error) {
 	if err != nil {
 		return nil, err
 	}
-	deltaP, err := DeltaP.Or(req.DeltaPBar)
+	deltaP, err := limits.DeltaP.Or(req.DeltaPBar)
 	if err != nil {
 		return nil, err
 	}
@@ -156,7 +157,7 @@ func ResolveFlux(req *FluxSpec) (*Flux, error) {
 	// D at the bulk concentration, or the override.
 	dDraw := draw.X.DiffusivityM2PerS(draw.M)
 	if req.DiffusivityM2PerS != nil {
-		if err := Diffusivity.Check(*req.DiffusivityM2PerS); err != nil {
+		if err := limits.Diffusivity.Check(*req.DiffusivityM2PerS); err != nil {
 			return nil, err
 		}
 		dDraw = *req.DiffusivityM2PerS
@@ -182,10 +183,10 @@ func ResolveFlux(req *FluxSpec) (*Flux, error) {
 	if f.SameSolute && req.DiffusivityM2PerS != nil {
 		dFeed = dDraw
 	}
-	if f.KDraw, err = ResolveK(&KDraw, req.KDrawMPerS, ch, extCP, false, draw.Fluid(dDraw)); err != nil {
+	if f.KDraw, err = ResolveK(&limits.KDraw, req.KDrawMPerS, ch, extCP, false, draw.Fluid(dDraw)); err != nil {
 		return nil, err
 	}
-	if f.KFeed, err = ResolveK(&KFeed, req.KFeedMPerS, ch, extCP, true, feed.Fluid(dFeed)); err != nil {
+	if f.KFeed, err = ResolveK(&limits.KFeed, req.KFeedMPerS, ch, extCP, true, feed.Fluid(dFeed)); err != nil {
 		return nil, err
 	}
 	for _, k := range []struct {
@@ -211,7 +212,7 @@ func ResolveFlux(req *FluxSpec) (*Flux, error) {
 	} else if feed.CSI > 0 {
 		var over *float64
 		if req.BFeedLMH != nil {
-			if err := FeedB.Check(*req.BFeedLMH); err != nil {
+			if err := limits.FeedB.Check(*req.BFeedLMH); err != nil {
 				return nil, err
 			}
 			b := *req.BFeedLMH * thermo.MPerSPerLMH

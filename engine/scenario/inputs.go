@@ -1,6 +1,7 @@
 package scenario
 
 import (
+	"drawsift/engine/limits"
 	"math"
 	"strings"
 
@@ -29,11 +30,11 @@ func LookupSolute(field, name string) (*library.Solute, error) {
 // TemperatureK returns a request's temperature in kelvin (TemperatureC's
 // default when omitted).
 func TemperatureK(field string, tC *float64) (float64, error) {
-	t := TemperatureC.Default
+	t := limits.TemperatureC.Default
 	if tC != nil {
 		t = *tC
 	}
-	if err := TemperatureC.CheckAt(field, t); err != nil {
+	if err := limits.TemperatureC.CheckAt(field, t); err != nil {
 		return 0, err
 	}
 	return t + thermo.ZeroCelsiusK, nil
@@ -59,7 +60,7 @@ func ParseConcentration(prefix string, v *float64, unit string) (float64, thermo
 }
 
 // optional checks an optional number against r under field (nil stays nil).
-func optional(r *Range, field string, v *float64) error {
+func optional(r *limits.Range, field string, v *float64) error {
 	if v == nil {
 		return nil
 	}

@@ -3,6 +3,7 @@ package scenario
 import (
 	"drawsift/engine/errs"
 	"drawsift/engine/library"
+	"drawsift/engine/limits"
 	"drawsift/engine/thermo"
 )
 
@@ -47,7 +48,7 @@ func ResolveMembrane(spec *MembraneSpec) (*Membrane, error) {
 	if spec == nil {
 		return nil, errs.InvalidText("membrane", "", nil, "a membrane is required: {\"preset\": ID} or {\"a_lmh_per_bar\", \"b_lmh\", \"s_um\"}")
 	}
-	m := &Membrane{ARelSD: ARelSD.Default, BRelSD: BRelSD.Default, SRelSD: SRelSD.Default}
+	m := &Membrane{ARelSD: limits.ARelSD.Default, BRelSD: limits.BRelSD.Default, SRelSD: limits.SRelSD.Default}
 	var aLMH, sUM, bNaCl float64
 	if spec.Preset != "" {
 		rec, ok := library.LookupMembrane(spec.Preset)
@@ -69,10 +70,10 @@ func ResolveMembrane(spec *MembraneSpec) (*Membrane, error) {
 		}
 	}
 	for _, f := range []struct {
-		r   *Range
+		r   *limits.Range
 		v   *float64
 		dst *float64
-	}{{&MembraneA, spec.ALMHPerBar, &aLMH}, {&MembraneS, spec.SUM, &sUM}, {&MembraneBNaCl, spec.BNaClLMH, &bNaCl}} {
+	}{{&limits.MembraneA, spec.ALMHPerBar, &aLMH}, {&limits.MembraneS, spec.SUM, &sUM}, {&limits.MembraneBNaCl, spec.BNaClLMH, &bNaCl}} {
 		if f.v == nil {
 			continue
 		}
@@ -86,17 +87,17 @@ func ResolveMembrane(spec *MembraneSpec) (*Membrane, error) {
 		m.B.Measured = nil // measured values belong to the preset's NaCl B
 	}
 	if spec.BLMH != nil {
-		if err := MembraneB.Check(*spec.BLMH); err != nil {
+		if err := limits.MembraneB.Check(*spec.BLMH); err != nil {
 			return nil, err
 		}
 		b := *spec.BLMH * thermo.MPerSPerLMH
 		m.BGivenMPerS = &b
 	}
 	if aLMH == 0 {
-		return nil, errs.InvalidText(MembraneA.Field, "", "> 0", "a_lmh_per_bar is required for a custom membrane")
+		return nil, errs.InvalidText(limits.MembraneA.Field, "", "> 0", "a_lmh_per_bar is required for a custom membrane")
 	}
 	if sUM == 0 {
-		return nil, errs.InvalidText(MembraneS.Field, "", "> 0", "s_um is required for a custom membrane")
+		return nil, errs.InvalidText(limits.MembraneS.Field, "", "> 0", "s_um is required for a custom membrane")
 	}
 	m.AMPerSPa = aLMH * thermo.MPerSPaPerLMHPerBar
 	m.SM = sUM * thermo.MPerUM

@@ -1,6 +1,7 @@
 package scenario
 
 import (
+	"drawsift/engine/limits"
 	"fmt"
 	"math"
 	"sort"
@@ -168,11 +169,11 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 	}
 	info := &Info{Custom: map[string]bool{}}
 	var err error
-	sc := &screen.Scenario{Seed: uint64(Seed.Default), AllowExtrapolation: req.AllowExtrapolation}
+	sc := &screen.Scenario{Seed: uint64(limits.Seed.Default), AllowExtrapolation: req.AllowExtrapolation}
 	if req.Seed != nil {
 		sc.Seed = *req.Seed
 	}
-	if sc.RegenerationRecovery, err = RegenerationRecovery.Or(req.RegenerationRecovery); err != nil {
+	if sc.RegenerationRecovery, err = limits.RegenerationRecovery.Or(req.RegenerationRecovery); err != nil {
 		return nil, nil, err
 	}
 	tK, err := TemperatureK("temperature_c", req.TemperatureC)
@@ -243,10 +244,10 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 		return nil, nil, err
 	}
 	info.KRule = "k from the channel's Sherwood correlation (engine/transport), with each solution's density, viscosity and diffusivity"
-	if sc.KDrawMPerS, err = GivenK(&KDraw, req.KDrawMPerS); err != nil {
+	if sc.KDrawMPerS, err = GivenK(&limits.KDraw, req.KDrawMPerS); err != nil {
 		return nil, nil, err
 	}
-	if sc.KFeedMPerS, err = GivenK(&KFeed, req.KFeedMPerS); err != nil {
+	if sc.KFeedMPerS, err = GivenK(&limits.KFeed, req.KFeedMPerS); err != nil {
 		return nil, nil, err
 	}
 	if !extCP {
@@ -346,21 +347,21 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 	sc.ExcludeHazards = req.ExcludeHazards
 	// Uncertainty.
 	if u := req.Uncertainty; u != nil {
-		su := &screen.Uncertainty{Samples: int(Samples.Default), ARelSD: m.ARelSD, BRelSD: m.BRelSD, SRelSD: m.SRelSD,
-			DefaultOsmotic: true, DiffusivityRelSD: DiffusivityRelSD.Default, EstimatedBRelSD: EstimatedBRelSD.Default, Prices: true}
+		su := &screen.Uncertainty{Samples: int(limits.Samples.Default), ARelSD: m.ARelSD, BRelSD: m.BRelSD, SRelSD: m.SRelSD,
+			DefaultOsmotic: true, DiffusivityRelSD: limits.DiffusivityRelSD.Default, EstimatedBRelSD: limits.EstimatedBRelSD.Default, Prices: true}
 		if u.Samples != nil {
-			if err := Samples.Check(float64(*u.Samples)); err != nil {
+			if err := limits.Samples.Check(float64(*u.Samples)); err != nil {
 				return nil, nil, err
 			}
 			su.Samples = *u.Samples
 		}
 		for _, f := range []struct {
-			r   *Range
+			r   *limits.Range
 			v   *float64
 			dst *float64
-		}{{&ARelSD, u.ARelSD, &su.ARelSD}, {&BRelSD, u.BRelSD, &su.BRelSD}, {&SRelSD, u.SRelSD, &su.SRelSD},
-			{&OsmoticRelSD, u.OsmoticRelSD, &su.OsmoticRelSD}, {&DiffusivityRelSD, u.DiffusivityRelSD, &su.DiffusivityRelSD},
-			{&EstimatedBRelSD, u.EstimatedBRelSD, &su.EstimatedBRelSD}} {
+		}{{&limits.ARelSD, u.ARelSD, &su.ARelSD}, {&limits.BRelSD, u.BRelSD, &su.BRelSD}, {&limits.SRelSD, u.SRelSD, &su.SRelSD},
+			{&limits.OsmoticRelSD, u.OsmoticRelSD, &su.OsmoticRelSD}, {&limits.DiffusivityRelSD, u.DiffusivityRelSD, &su.DiffusivityRelSD},
+			{&limits.EstimatedBRelSD, u.EstimatedBRelSD, &su.EstimatedBRelSD}} {
 			if f.v == nil {
 				continue
 			}
@@ -386,7 +387,7 @@ func resolveFeed(fs *FeedSpec, tK float64) (screen.Feed, *library.Feed, error) {
 		fs = &FeedSpec{Preset: DefaultFeedPreset}
 	}
 	var rec *library.Feed
-	f := screen.Feed{ID: "custom", PH: FeedPH.Default}
+	f := screen.Feed{ID: "custom", PH: limits.FeedPH.Default}
 	if fs.Preset != "" {
 		r, ok := library.LookupFeed(fs.Preset)
 		if !ok {
@@ -456,9 +457,9 @@ func resolveFeed(fs *FeedSpec, tK float64) (screen.Feed, *library.Feed, error) {
 		f.Solute, f.Concentration, f.Unit = s, v, u
 		f.OsmoticMethod = fmt.Sprintf("library solute %s at %g %s", s.ID, v, u)
 		for i, ion := range fs.Ions {
-			if ion.Symbol == "" || ion.Charge == 0 || !FeedIonMolarMass.Contains(ion.MolarMassGPerMol) || !FeedIonMgPerL.Contains(ion.MgPerL) {
+			if ion.Symbol == "" || ion.Charge == 0 || !limits.FeedIonMolarMass.Contains(ion.MolarMassGPerMol) || !limits.FeedIonMgPerL.Contains(ion.MgPerL) {
 				return f, nil, invalid(fmt.Sprintf("feed.ions[%d]", i), nil, "an ion needs a symbol, a non-zero charge, molar_mass_g_per_mol %s and mg_per_l %s",
-					FeedIonMolarMass.Text(), FeedIonMgPerL.Text())
+					limits.FeedIonMolarMass.Text(), limits.FeedIonMgPerL.Text())
 			}
 			f.Ions = append(f.Ions, library.IonAmount{Symbol: ion.Symbol, Charge: ion.Charge, Mol: ion.MgPerL / ion.MolarMassGPerMol / 1000})
 		}
@@ -487,7 +488,7 @@ func resolveFeed(fs *FeedSpec, tK float64) (screen.Feed, *library.Feed, error) {
 		}
 	}
 	if fs.PH != nil {
-		if err := FeedPH.Check(*fs.PH); err != nil {
+		if err := limits.FeedPH.Check(*fs.PH); err != nil {
 			return f, nil, err
 		}
 		f.PH = *fs.PH
@@ -498,9 +499,9 @@ func resolveFeed(fs *FeedSpec, tK float64) (screen.Feed, *library.Feed, error) {
 func resolveBasis(b *BasisSpec, feedHasPi bool) (screen.Basis, error) {
 	if b == nil {
 		if feedHasPi {
-			return screen.Basis{Kind: screen.BasisOsmoticPressure, MultipleOfFeed: BasisMultiple.Default}, nil
+			return screen.Basis{Kind: screen.BasisOsmoticPressure, MultipleOfFeed: limits.BasisMultiple.Default}, nil
 		}
-		return screen.Basis{Kind: screen.BasisOsmoticPressure, PiPa: BasisPressure.Default * thermo.PascalPerBar}, nil
+		return screen.Basis{Kind: screen.BasisOsmoticPressure, PiPa: limits.BasisPressure.Default * thermo.PascalPerBar}, nil
 	}
 	kinds := []string{"osmotic-pressure", "concentration", "water-flux"}
 	val := func() (float64, error) {

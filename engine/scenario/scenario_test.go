@@ -1,6 +1,7 @@
 package scenario
 
 import (
+	"drawsift/engine/limits"
 	"errors"
 	"math"
 	"strings"
@@ -17,7 +18,7 @@ import (
 // defaults the page shows are values the engine accepts.
 func TestRangesConsistent(t *testing.T) {
 	seen := map[string]bool{}
-	for _, r := range Ranges() {
+	for _, r := range limits.Ranges() {
 		if seen[r.ID()] {
 			t.Errorf("%s listed twice", r.ID())
 		}
@@ -36,22 +37,22 @@ func TestRangesConsistent(t *testing.T) {
 
 func TestRangeCheck(t *testing.T) {
 	for _, tc := range []struct {
-		r    *Range
+		r    *limits.Range
 		v    float64
 		ok   bool
 		text string
 	}{
-		{&TemperatureC, 100, true, "0–100 °C"},
-		{&TemperatureC, 100.001, false, "0–100 °C"},
-		{&KDraw, 1e-8, true, "1e-8–1 m/s"},
-		{&KDraw, 5, false, "1e-8–1 m/s"},
-		{&RegenerationRecovery, 0, false, "> 0 and ≤ 0.95"},
-		{&RegenerationRecovery, 0.95, true, "> 0 and ≤ 0.95"},
-		{&Samples, 10.5, false, "1–100000 (whole number)"},
-		{&Samples, 1, true, "1–100000 (whole number)"},
-		{&BasisFlux, 3600, false, "> 0 and < 3600 LMH"},
-		{&MembraneA, math.NaN(), false, "0.001–100 LMH/bar"},
-		{&BasisValue, math.Inf(1), true, "> 0"},
+		{&limits.TemperatureC, 100, true, "0–100 °C"},
+		{&limits.TemperatureC, 100.001, false, "0–100 °C"},
+		{&limits.KDraw, 1e-8, true, "1e-8–1 m/s"},
+		{&limits.KDraw, 5, false, "1e-8–1 m/s"},
+		{&limits.RegenerationRecovery, 0, false, "> 0 and ≤ 0.95"},
+		{&limits.RegenerationRecovery, 0.95, true, "> 0 and ≤ 0.95"},
+		{&limits.Samples, 10.5, false, "1–100000 (whole number)"},
+		{&limits.Samples, 1, true, "1–100000 (whole number)"},
+		{&limits.BasisFlux, 3600, false, "> 0 and < 3600 LMH"},
+		{&limits.MembraneA, math.NaN(), false, "0.001–100 LMH/bar"},
+		{&limits.BasisValue, math.Inf(1), true, "> 0"},
 	} {
 		err := tc.r.Check(tc.v)
 		if (err == nil) != tc.ok {
@@ -161,19 +162,19 @@ func TestResolveKWarnings(t *testing.T) {
 		t.Fatal(err)
 	}
 	// Water at 25 °C: ρ 997 kg/m³, μ 0.89 mPa·s (IAPWS; common values), NaCl's D.
-	k, err := ResolveK(&KDraw, nil, ch, true, false, transport.Fluid{DensityKgPerM3: 997, ViscosityPaS: 0.89e-3, DiffusivityM2PerS: 1.5e-9})
+	k, err := ResolveK(&limits.KDraw, nil, ch, true, false, transport.Fluid{DensityKgPerM3: 997, ViscosityPaS: 0.89e-3, DiffusivityM2PerS: 1.5e-9})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if k.Origin != KCorrelation || !warn.Has(k.MassTransfer.Warnings, warn.FlowRegime) || !warn.Has(k.MassTransfer.Warnings, warn.Unverified) {
 		t.Errorf("Re %g: origin %s warnings %v, want the flow-regime and unverified warnings", k.MassTransfer.Re, k.Origin, k.MassTransfer.Warnings)
 	}
-	none, _ := ResolveK(&KDraw, nil, ch, false, false, transport.Fluid{})
+	none, _ := ResolveK(&limits.KDraw, nil, ch, false, false, transport.Fluid{})
 	if !math.IsInf(none.KMPerS, 1) || none.Origin != KNone {
 		t.Errorf("no external CP: %+v", none)
 	}
 	bad := 5.0
-	if _, err := ResolveK(&KDraw, &bad, ch, true, false, transport.Fluid{}); err == nil || !strings.Contains(err.Error(), "k_draw_m_per_s") {
+	if _, err := ResolveK(&limits.KDraw, &bad, ch, true, false, transport.Fluid{}); err == nil || !strings.Contains(err.Error(), "k_draw_m_per_s") {
 		t.Errorf("k = 5 m/s: %v", err)
 	}
 	tall := spec

@@ -1,4 +1,11 @@
-package scenario
+// Package limits is the engine's one table of defaults and limits: every
+// numeric input of every operation is a Range here, in the unit its
+// contract field names, with its default and the reason for its bounds.
+// The engine's validation calls Range.Check (engine/scenario for requests,
+// engine/screen for its own invariants), so an error's limit text is the
+// table's; the defaults operation lists the table, so the page shows and
+// checks the same numbers.
+package limits
 
 import (
 	"math"
