@@ -5,6 +5,7 @@ package api
 
 import (
 	"context"
+	"drawsift/engine/limits"
 	"errors"
 	"fmt"
 	"math"
@@ -156,7 +157,16 @@ func encodeError(e *Error) []byte {
 func decode(body []byte, v any) *Error {
 	if err := jsonx.DecodeStrict(body, v); err != nil {
 		field, msg := jsonx.FieldOf(err)
-		return &Error{Field: field, Message: msg, Kind: KindInvalid}
+		e := &Error{Field: field, Message: msg, Kind: KindInvalid}
+		// A number of the wrong type or sign for its Go field (a seed of
+		// −1 or 1.5) still states the field's range.
+		if r := limits.Lookup(field); r != nil {
+			e.Limit = r.Text()
+			if strings.HasPrefix(msg, "wrong type") {
+				e.Message = fmt.Sprintf("wrong type: %s must be a number, %s", field, r.Text())
+			}
+		}
+		return e
 	}
 	return nil
 }

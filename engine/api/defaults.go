@@ -2,6 +2,7 @@ package api
 
 import (
 	"context"
+	"drawsift/engine/limits"
 	"fmt"
 	"math"
 
@@ -39,23 +40,29 @@ type ObjectiveReport struct {
 type DefaultsResponse struct {
 	// Limits by key (the contract field, or a key of its own where
 	// several ranges share a field, e.g. basis.osmotic_pressure_bar).
-	Limits              map[string]LimitReport `json:"limits"`
-	Weights             map[string]float64     `json:"weights"`
-	Objectives          []ObjectiveReport      `json:"objectives"`
-	ParetoObjectives    []string               `json:"pareto_objectives"`
-	Channel             ChannelSpec            `json:"channel"`
-	MembranePreset      string                 `json:"membrane_preset"`
-	FeedPreset          string                 `json:"feed_preset"`
-	Orientation         string                 `json:"orientation"`
-	Orientations        []string               `json:"orientations"`
-	OsmoticModel        string                 `json:"osmotic_model"`
-	OsmoticModels       []string               `json:"osmotic_models"`
-	HazardFlags         []string               `json:"hazard_flags"`
-	ConcentrationUnits  []string               `json:"concentration_units"`
-	PressureUnitsPa     map[string]float64     `json:"pressure_units_pa"`
-	GasConstantJPerMolK float64                `json:"gas_constant_j_per_mol_k"`
-	BatchMaxRequests    int                    `json:"batch_max_requests"`
-	EngineVersion       string                 `json:"engine_version"`
+	Limits           map[string]LimitReport `json:"limits"`
+	Weights          map[string]float64     `json:"weights"`
+	Objectives       []ObjectiveReport      `json:"objectives"`
+	ParetoObjectives []string               `json:"pareto_objectives"`
+	Channel          ChannelSpec            `json:"channel"`
+	MembranePreset   string                 `json:"membrane_preset"`
+	FeedPreset       string                 `json:"feed_preset"`
+	Orientation      string                 `json:"orientation"`
+	Orientations     []string               `json:"orientations"`
+	OsmoticModel     string                 `json:"osmotic_model"`
+	OsmoticModels    []string               `json:"osmotic_models"`
+	// OsmoticModelAliases: other accepted spellings → the model's name.
+	OsmoticModelAliases map[string]string `json:"osmotic_model_aliases"`
+	// The basis a scenario without one gets: a multiple of the feed's π
+	// when the feed has one, else a fixed π.
+	BasisWithFeed       BasisSpec          `json:"basis_with_feed"`
+	BasisWithoutFeed    BasisSpec          `json:"basis_without_feed"`
+	HazardFlags         []string           `json:"hazard_flags"`
+	ConcentrationUnits  []string           `json:"concentration_units"`
+	PressureUnitsPa     map[string]float64 `json:"pressure_units_pa"`
+	GasConstantJPerMolK float64            `json:"gas_constant_j_per_mol_k"`
+	BatchMaxRequests    int                `json:"batch_max_requests"`
+	EngineVersion       string             `json:"engine_version"`
 }
 
 // Defaults reports the engine's defaults and limits (scenario.Defaults).
@@ -66,7 +73,9 @@ func Defaults() *DefaultsResponse {
 		Channel:        scenario.DefaultChannel(),
 		MembranePreset: t.MembranePreset, FeedPreset: t.FeedPreset,
 		Orientation: t.Orientation, Orientations: t.Orientations,
-		OsmoticModel: t.OsmoticModel, OsmoticModels: t.OsmoticModels,
+		OsmoticModel: t.OsmoticModel, OsmoticModels: t.OsmoticModels, OsmoticModelAliases: scenario.OsmoticModelAliases,
+		BasisWithFeed:       BasisSpec{Kind: "osmotic-pressure", MultipleOfFeed: ptr(limits.BasisMultiple.Default)},
+		BasisWithoutFeed:    BasisSpec{Kind: "osmotic-pressure", Value: ptr(limits.BasisPressure.Default), Unit: limits.BasisPressure.Unit},
 		HazardFlags:         t.HazardFlags,
 		ConcentrationUnits:  thermo.UnitNames()[:thermo.OsmolPerKg],
 		PressureUnitsPa:     map[string]float64{},

@@ -47,9 +47,10 @@ func (r *Range) ID() string {
 	return r.Field
 }
 
-// Contains reports whether v lies in the range (false for NaN).
+// Contains reports whether v lies in the range. Every input must be a
+// finite number: NaN and ±Inf lie in no range.
 func (r *Range) Contains(v float64) bool {
-	if math.IsNaN(v) {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return false
 	}
 	if r.MinOpen && !(v > r.Min) || !r.MinOpen && !(v >= r.Min) {
@@ -119,6 +120,9 @@ func num(v float64) string {
 	if math.IsInf(v, 0) || math.IsNaN(v) {
 		return strconv.FormatFloat(v, 'g', -1, 64)
 	}
+	if v == math.Trunc(v) && math.Abs(v) < 1e16 {
+		return strconv.FormatFloat(v, 'f', -1, 64) // whole numbers in full
+	}
 	s := strconv.FormatFloat(v, 'g', -1, 64)
 	s = strings.Replace(s, "e-0", "e-", 1)
 	return strings.Replace(s, "e+0", "e+", 1)
@@ -165,7 +169,9 @@ var (
 	// solubility of every library solute, common practice).
 	RegenerationRecovery = Range{Field: "regeneration_recovery", Min: 0, MinOpen: true, Max: 0.95, Default: 0.5, HasDefault: true,
 		Why: "a fraction; above 0.95 the re-concentrated draw nears solubility"}
-	Seed = Range{Field: "seed", Min: 0, Max: math.MaxUint64, Integer: true, Default: 1, HasDefault: true, Why: "a 64-bit unsigned seed"}
+	// Seed: a whole number up to 2⁵³ − 1, the largest that survives a
+	// round trip through a JavaScript number (the page, saved scenarios).
+	Seed = Range{Field: "seed", Min: 0, Max: 1<<53 - 1, Integer: true, Default: 1, HasDefault: true, Why: "a whole number a JavaScript number holds exactly"}
 
 	// Basis.
 	BasisValue = Range{Field: "basis.value", Min: 0, MinOpen: true, Max: inf, Why: "a positive target"}
@@ -180,7 +186,7 @@ var (
 	BasisPressure = Range{Field: "basis.value", Key: "basis.osmotic_pressure_bar", Unit: "bar", Min: 0, MinOpen: true, Max: 1e4, Default: 28, HasDefault: true,
 		Why: "positive; 10⁴ bar is beyond any solution"}
 	BasisFlux = Range{Field: "basis.value", Key: "basis.water_flux_lmh", Unit: "LMH", Min: 0, MinOpen: true, Max: 3600, MaxOpen: true, Why: "beyond any FO membrane"}
-	Weight    = Range{Field: "weights", Min: 0, Max: math.MaxFloat64, Why: "finite and non-negative"}
+	Weight    = Range{Field: "weights", Min: 0, Max: inf, Why: "finite and non-negative"}
 
 	// Robustness (Monte Carlo). The spreads' defaults are engine/screen's
 	// (each names its source there); a preset membrane brings its own A, B
@@ -193,9 +199,26 @@ var (
 		Why: "relative SD; custom-membrane default 30 % (common practice, from memory)"}
 	SRelSD = Range{Field: "uncertainty.s_rel_sd", Min: 0, Max: 2, Default: 0.15, HasDefault: true,
 		Why: "relative SD; custom-membrane default 15 % (common practice, from memory)"}
-	OsmoticRelSD     = Range{Field: "uncertainty.osmotic_rel_sd", Min: 0, Max: 2, Default: 0.02, HasDefault: true, Why: "relative SD; see screen.DefaultOsmoticRelSD"}
-	DiffusivityRelSD = Range{Field: "uncertainty.diffusivity_rel_sd", Min: 0, Max: 2, Default: 0.05, HasDefault: true, Why: "relative SD; see screen.DefaultDiffusivityRelSD"}
-	EstimatedBRelSD  = Range{Field: "uncertainty.estimated_b_rel_sd", Min: 0, Max: 2, Default: 1.0, HasDefault: true, Why: "relative SD; see screen.DefaultEstimatedBRelSD"}
+	// OsmoticRelSD: 2 % on π for a fitted model within its data (the
+	// Pitzer sets reproduce the CRC Handbook's activity coefficients to
+	// about 1–2 %, see engine/thermo's tests; common practice), and
+	// VantHoffOsmoticRelSD, 10 %, for a record with no non-ideal model
+	// (common practice, from memory): the defaults when a scenario does not
+	// name osmotic_rel_sd.
+	OsmoticRelSD         = Range{Field: "uncertainty.osmotic_rel_sd", Min: 0, Max: 2, Default: 0.02, HasDefault: true, Why: "relative SD of each candidate's π model"}
+	VantHoffOsmoticRelSD = Range{Field: "uncertainty.osmotic_rel_sd", Key: "uncertainty.osmotic_rel_sd.van_t_hoff_only", Min: 0, Max: 2, Default: 0.10, HasDefault: true,
+		Why: "the default for a solute with no non-ideal model (van 't Hoff only)"}
+	// DiffusivityRelSD: 5 % on D (common practice, from memory).
+	DiffusivityRelSD = Range{Field: "uncertainty.diffusivity_rel_sd", Min: 0, Max: 2, Default: 0.05, HasDefault: true, Why: "relative SD of each candidate's D"}
+	// EstimatedBRelSD: the spread of a B scaled from NaCl's by diffusivity,
+	// an order-of-magnitude estimate taken as good to about a factor of two
+	// (common practice, from memory), drawn per candidate.
+	EstimatedBRelSD = Range{Field: "uncertainty.estimated_b_rel_sd", Min: 0, Max: 2, Default: 1.0, HasDefault: true, Why: "relative SD of an estimated B, per candidate"}
+
+	// Concentration: any solution's concentration, in the request's unit
+	// (draw.concentration, feed.concentration, …); its solubility is checked
+	// against the solute's record.
+	Concentration = Range{Field: "concentration", Min: 0, Max: inf, Why: "non-negative; each solute's solubility is checked in the request's unit"}
 
 	// Sweeps.
 	SweepPoints = Range{Field: "sweep.points", Min: 2, Max: 1000, Integer: true, Why: "a series of 2–1000 points"}
@@ -204,8 +227,38 @@ var (
 	CustomMolarMass   = Range{Field: "custom_solutes[].molar_mass_g_per_mol", Unit: "g/mol", Min: 0, MinOpen: true, Max: 1e7, MaxOpen: true, Why: "unit-slip guard"}
 	CustomDiffusivity = Range{Field: "custom_solutes[].diffusivity_m2_per_s", Unit: "m²/s", Min: 0, MinOpen: true, Max: 1e-8, MaxOpen: true, Why: "unit-slip guard"}
 	CustomVantHoff    = Range{Field: "custom_solutes[].van_t_hoff_factor", Min: 0, Max: 10, Why: "particles per formula unit; 0 → Σ ion counts, or 1"}
+	CustomSolubility  = Range{Field: "custom_solutes[].solubility_mol_per_kg", Unit: "mol/kg", Min: 0, MinOpen: true, Max: 1e3, Why: "positive; 10³ mol/kg is beyond any solute"}
+	CustomPrice       = Range{Field: "custom_solutes[].price_usd_per_kg_min", Key: "custom_solutes[].price_usd_per_kg", Unit: "USD/kg", Min: 0, Max: 1e6, Why: "non-negative; unit-slip guard"}
 	PiTablePoints     = Range{Field: "custom_solutes[].pi_table.points", Min: 2, Max: 1000, Integer: true, Why: "a table of 2–1000 points"}
 )
+
+// Lookup returns the range of a contract field (the first listed, where
+// several share it), or nil. List indices do not matter:
+// "custom_solutes[2].molar_mass_g_per_mol" finds
+// "custom_solutes[].molar_mass_g_per_mol".
+func Lookup(field string) *Range {
+	var b strings.Builder
+	skip := false
+	for _, c := range field {
+		switch {
+		case c == '[':
+			skip = true
+			b.WriteRune(c)
+		case c == ']':
+			skip = false
+			b.WriteRune(c)
+		case !skip:
+			b.WriteRune(c)
+		}
+	}
+	key := b.String()
+	for _, r := range Ranges() {
+		if r.Field == key {
+			return r
+		}
+	}
+	return nil
+}
 
 // Ranges lists every range, in the order the defaults operation reports
 // them.
@@ -215,7 +268,7 @@ func Ranges() []*Range {
 		&ChannelHeight, &ChannelWidth, &ChannelLength, &Crossflow, &FeedCrossflow,
 		&FeedPH, &FeedIonMgPerL, &FeedIonMolarMass, &RegenerationRecovery, &Seed,
 		&BasisValue, &BasisMultiple, &BasisPressure, &BasisFlux, &Weight,
-		&Samples, &ARelSD, &BRelSD, &SRelSD, &OsmoticRelSD, &DiffusivityRelSD, &EstimatedBRelSD,
-		&SweepPoints, &CustomMolarMass, &CustomDiffusivity, &CustomVantHoff, &PiTablePoints,
+		&Samples, &ARelSD, &BRelSD, &SRelSD, &OsmoticRelSD, &VantHoffOsmoticRelSD, &DiffusivityRelSD, &EstimatedBRelSD,
+		&Concentration, &SweepPoints, &CustomMolarMass, &CustomDiffusivity, &CustomVantHoff, &CustomSolubility, &CustomPrice, &PiTablePoints,
 	}
 }

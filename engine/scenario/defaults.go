@@ -45,13 +45,21 @@ var OsmoticModelNames = []string{"real", "van-t-hoff"}
 
 func (m OsmoticModel) String() string { return OsmoticModelNames[m] }
 
-// ParseOsmoticModel reads an osmotic-model name ("" → real); "ideal",
-// "vant-hoff" and "van't-hoff" are accepted spellings of van-t-hoff.
+// OsmoticModelAliases are the other accepted spellings, by the name they
+// stand for.
+var OsmoticModelAliases = map[string]string{"vant-hoff": "van-t-hoff", "van't-hoff": "van-t-hoff", "ideal": "van-t-hoff"}
+
+// ParseOsmoticModel reads an osmotic-model name or alias, case-insensitively
+// ("" → real).
 func ParseOsmoticModel(name string) (OsmoticModel, error) {
-	switch strings.ToLower(strings.TrimSpace(name)) {
+	k := strings.ToLower(strings.TrimSpace(name))
+	if a, ok := OsmoticModelAliases[k]; ok {
+		k = a
+	}
+	switch k {
 	case "", "real":
 		return Real, nil
-	case "van-t-hoff", "vant-hoff", "van't-hoff", "ideal":
+	case "van-t-hoff":
 		return VantHoff, nil
 	}
 	return Real, errs.InvalidText("osmotic_model", name, OsmoticModelNames, "unknown osmotic model %q", name)

@@ -2,7 +2,6 @@ package scenario
 
 import (
 	"drawsift/engine/limits"
-	"math"
 	"strings"
 
 	"drawsift/engine/errs"
@@ -46,8 +45,8 @@ func ParseConcentration(prefix string, v *float64, unit string) (float64, thermo
 	if v == nil {
 		return 0, 0, errs.InvalidText(errs.Join(prefix, "concentration"), "", nil, "a concentration is required")
 	}
-	if !(*v >= 0) || math.IsInf(*v, 0) {
-		return 0, 0, errs.Invalid(errs.Join(prefix, "concentration"), *v, "≥ 0", "concentration must be a finite, non-negative number (got %g)", *v)
+	if !limits.Concentration.Contains(*v) {
+		return 0, 0, errs.Invalid(errs.Join(prefix, "concentration"), *v, limits.Concentration.Text(), "concentration must be a finite, non-negative number (got %g)", *v)
 	}
 	if unit == "" {
 		return 0, 0, errs.InvalidText(errs.Join(prefix, "unit"), "", thermo.UnitNames(), "a unit is required")

@@ -171,6 +171,9 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 	var err error
 	sc := &screen.Scenario{Seed: uint64(limits.Seed.Default), AllowExtrapolation: req.AllowExtrapolation}
 	if req.Seed != nil {
+		if err := limits.Seed.Check(float64(*req.Seed)); err != nil || *req.Seed > 1<<53-1 {
+			return nil, nil, errs.Invalid(limits.Seed.Field, float64(*req.Seed), limits.Seed.Text(), "seed = %d is outside %s", *req.Seed, limits.Seed.Text())
+		}
 		sc.Seed = *req.Seed
 	}
 	if sc.RegenerationRecovery, err = limits.RegenerationRecovery.Or(req.RegenerationRecovery); err != nil {
@@ -567,8 +570,8 @@ func resolveBasis(b *BasisSpec, feedHasPi bool) (screen.Basis, error) {
 		default:
 			return screen.Basis{}, invalid("basis.unit", []string{"LMH", "m/s"}, "unknown flux unit %q", b.Unit)
 		}
-		if !(v < 1e-3) {
-			return screen.Basis{}, invalid("basis.value", "< 3600 LMH", "the target water flux is beyond any FO membrane")
+		if err := limits.BasisFlux.Check(v / thermo.MPerSPerLMH); err != nil {
+			return screen.Basis{}, err
 		}
 		return screen.Basis{Kind: screen.BasisWaterFlux, JwMPerS: v}, nil
 	}
@@ -577,6 +580,11 @@ func resolveBasis(b *BasisSpec, feedHasPi bool) (screen.Basis, error) {
 
 // customSolute builds a van 't Hoff-only library record from a user's
 // definition.
+// CustomSolubilityTemperatureC is the temperature a custom solute's single
+// solubility value is taken to hold at (the engine uses it unchanged at
+// other temperatures, with a warning).
+const CustomSolubilityTemperatureC = 25
+
 func customSolute(i int, cs *CustomSolute, lib *library.Library) (*library.Solute, error) {
 	field := func(f string) string { return fmt.Sprintf("custom_solutes[%d].%s", i, f) }
 	if strings.TrimSpace(cs.ID) == "" {
@@ -585,11 +593,13 @@ func customSolute(i int, cs *CustomSolute, lib *library.Library) (*library.Solut
 	if _, clash := lib.Lookup(cs.ID); clash {
 		return nil, invalid(field("id"), nil, "%q is already a library solute; choose another id", cs.ID)
 	}
-	if !(cs.MolarMassGPerMol > 0 && cs.MolarMassGPerMol < 1e7) {
-		return nil, invalid(field("molar_mass_g_per_mol"), "> 0", "a positive molar mass is required")
-	}
-	if !(cs.DiffusivityM2PerS > 0 && cs.DiffusivityM2PerS < 1e-8) {
-		return nil, invalid(field("diffusivity_m2_per_s"), "(0, 1e-8) m²/s", "a diffusion coefficient in (0, 1e-8) m²/s is required")
+	for _, f := range []struct {
+		r *limits.Range
+		v float64
+	}{{&limits.CustomMolarMass, cs.MolarMassGPerMol}, {&limits.CustomDiffusivity, cs.DiffusivityM2PerS}, {&limits.CustomVantHoff, cs.VantHoffFactor}} {
+		if err := f.r.CheckAt(fmt.Sprintf(strings.Replace(f.r.Field, "[]", "[%d]", 1), i), f.v); err != nil {
+			return nil, err
+		}
 	}
 	s := &library.Solute{ID: cs.ID, Name: cs.Name, Family: "custom", Formula: cs.ID, MolarMassGPerMol: cs.MolarMassGPerMol,
 		HazardFlags: cs.HazardFlags, Hazards: []string{}, Regeneration: []string{}, Aliases: []string{}}
@@ -601,18 +611,15 @@ func customSolute(i int, cs *CustomSolute, lib *library.Library) (*library.Solut
 	}
 	s.Osmotic = library.OsmoticModel{Kind: library.ModelNone, Reason: "user-defined solute: van 't Hoff osmotic pressure only",
 		VantHoffNu: cs.VantHoffFactor}
-	if cs.VantHoffFactor < 0 || cs.VantHoffFactor > 10 {
-		return nil, invalid(field("van_t_hoff_factor"), "0–10", "van_t_hoff_factor = %g is outside 0–10", cs.VantHoffFactor)
-	}
 	if t := cs.PiTable; t != nil {
 		if _, err := thermo.ParseUnit(t.Unit); err != nil || t.Unit == thermo.OsmolPerKg.String() {
 			return nil, invalid(field("pi_table.unit"), []string{"mol/kg", "mol/L", "g/L", "g/kg", "wt%"}, "unknown table unit %q", t.Unit)
 		}
-		if !(t.TemperatureC >= thermo.MinTemperatureC && t.TemperatureC <= thermo.MaxTemperatureC) {
-			return nil, invalid(field("pi_table.temperature_c"), "0–100 °C", "table temperature %g °C is outside 0–100 °C", t.TemperatureC)
+		if err := limits.TemperatureC.CheckAt(field("pi_table.temperature_c"), t.TemperatureC); err != nil {
+			return nil, err
 		}
-		if len(t.Points) < 2 || len(t.Points) > 1000 {
-			return nil, invalid(field("pi_table.points"), "2–1000 points", "a measured table needs 2 to 1000 points")
+		if err := limits.PiTablePoints.CheckAt(field("pi_table.points"), float64(len(t.Points))); err != nil {
+			return nil, err
 		}
 		prevC, prevP := 0.0, 0.0
 		for j, p := range t.Points {
@@ -627,15 +634,26 @@ func customSolute(i int, cs *CustomSolute, lib *library.Library) (*library.Solut
 	switch {
 	case cs.Miscible:
 		s.Solubility.Miscible = true
-	case cs.SolubilityMolPerKg != nil && *cs.SolubilityMolPerKg > 0:
-		s.Solubility.Points = []library.SolubilityPoint{{TemperatureC: 25, MolalityMolPerKg: *cs.SolubilityMolPerKg}}
+	case cs.SolubilityMolPerKg != nil:
+		if err := limits.CustomSolubility.CheckAt(field("solubility_mol_per_kg"), *cs.SolubilityMolPerKg); err != nil {
+			return nil, err
+		}
+		s.Solubility.Points = []library.SolubilityPoint{{TemperatureC: CustomSolubilityTemperatureC, MolalityMolPerKg: *cs.SolubilityMolPerKg}}
 	default:
-		return nil, invalid(field("solubility_mol_per_kg"), "> 0", "give solubility_mol_per_kg (or miscible: true)")
+		return nil, invalid(field("solubility_mol_per_kg"), limits.CustomSolubility.Text(), "give solubility_mol_per_kg (or miscible: true)")
 	}
 	s.Diffusivity.D0M2PerS = cs.DiffusivityM2PerS
 	if cs.PriceUSDPerKgMin != nil || cs.PriceUSDPerKgMax != nil {
 		if cs.PriceUSDPerKgMin == nil || cs.PriceUSDPerKgMax == nil {
 			return nil, invalid(field("price_usd_per_kg_max"), nil, "give both price_usd_per_kg_min and price_usd_per_kg_max")
+		}
+		for _, p := range []struct {
+			name string
+			v    float64
+		}{{"price_usd_per_kg_min", *cs.PriceUSDPerKgMin}, {"price_usd_per_kg_max", *cs.PriceUSDPerKgMax}} {
+			if err := limits.CustomPrice.CheckAt(field(p.name), p.v); err != nil {
+				return nil, err
+			}
 		}
 		s.Price = &library.Price{USDPerKgMin: *cs.PriceUSDPerKgMin, USDPerKgMax: *cs.PriceUSDPerKgMax}
 	}

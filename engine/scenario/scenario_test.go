@@ -2,74 +2,15 @@ package scenario
 
 import (
 	"drawsift/engine/limits"
-	"errors"
 	"math"
 	"strings"
 	"testing"
 
-	"drawsift/engine/errs"
 	"drawsift/engine/library"
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
 	"drawsift/engine/warn"
 )
-
-// Every range is well formed and its default lies inside it, so the
-// defaults the page shows are values the engine accepts.
-func TestRangesConsistent(t *testing.T) {
-	seen := map[string]bool{}
-	for _, r := range limits.Ranges() {
-		if seen[r.ID()] {
-			t.Errorf("%s listed twice", r.ID())
-		}
-		seen[r.ID()] = true
-		if !(r.Min < r.Max) {
-			t.Errorf("%s: min %g ≥ max %g", r.ID(), r.Min, r.Max)
-		}
-		if r.HasDefault && !r.Contains(r.Default) {
-			t.Errorf("%s: default %g outside %s", r.ID(), r.Default, r.Text())
-		}
-		if r.Text() == "" || strings.Contains(r.Text(), "e-0") {
-			t.Errorf("%s: limit text %q", r.ID(), r.Text())
-		}
-	}
-}
-
-func TestRangeCheck(t *testing.T) {
-	for _, tc := range []struct {
-		r    *limits.Range
-		v    float64
-		ok   bool
-		text string
-	}{
-		{&limits.TemperatureC, 100, true, "0–100 °C"},
-		{&limits.TemperatureC, 100.001, false, "0–100 °C"},
-		{&limits.KDraw, 1e-8, true, "1e-8–1 m/s"},
-		{&limits.KDraw, 5, false, "1e-8–1 m/s"},
-		{&limits.RegenerationRecovery, 0, false, "> 0 and ≤ 0.95"},
-		{&limits.RegenerationRecovery, 0.95, true, "> 0 and ≤ 0.95"},
-		{&limits.Samples, 10.5, false, "1–100000 (whole number)"},
-		{&limits.Samples, 1, true, "1–100000 (whole number)"},
-		{&limits.BasisFlux, 3600, false, "> 0 and < 3600 LMH"},
-		{&limits.MembraneA, math.NaN(), false, "0.001–100 LMH/bar"},
-		{&limits.BasisValue, math.Inf(1), true, "> 0"},
-	} {
-		err := tc.r.Check(tc.v)
-		if (err == nil) != tc.ok {
-			t.Errorf("%s = %g: err %v, want ok %v", tc.r.Field, tc.v, err, tc.ok)
-		}
-		if tc.r.Text() != tc.text {
-			t.Errorf("%s: text %q, want %q", tc.r.Field, tc.r.Text(), tc.text)
-		}
-		var ie *errs.InputError
-		if err != nil && (!errors.As(err, &ie) || ie.Field != tc.r.Field || ie.Limit != tc.text || !errors.Is(err, errs.ErrInvalidInput)) {
-			t.Errorf("%s = %g: error %#v does not name the field and limit", tc.r.Field, tc.v, err)
-		}
-		if ie != nil && (math.IsNaN(ie.Value) || math.IsInf(ie.Value, 0)) {
-			t.Errorf("%s: the error carries a non-finite value", tc.r.Field)
-		}
-	}
-}
 
 // A preset's measured B stands for its own solutes; overriding its NaCl B
 // drops them (they were measured with the preset's NaCl B), and a custom

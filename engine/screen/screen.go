@@ -17,6 +17,7 @@
 package screen
 
 import (
+	"drawsift/engine/limits"
 	"fmt"
 	"math"
 	"strings"
@@ -197,21 +198,13 @@ type Uncertainty struct {
 	Prices bool
 }
 
-// DefaultEstimatedBRelSD is the spread of a B scaled from NaCl's by
-// diffusivity: an order-of-magnitude estimate, taken as good to about a
-// factor of two (common practice, from memory).
-const DefaultEstimatedBRelSD = 1.0
-
-// DefaultOsmoticRelSD and DefaultDiffusivityRelSD apply when a scenario
-// asks for robustness without naming them: 2 % on π for a fitted model
-// within its data (the Pitzer sets reproduce the CRC Handbook's activity
-// coefficients to about 1–2 %, see engine/thermo's tests; common practice)
-// and 10 % for a van 't Hoff-only record;
-// 5 % on D (common practice, from memory).
-const (
-	DefaultOsmoticRelSD     = 0.02
-	DefaultVantHoffRelSD    = 0.10
-	DefaultDiffusivityRelSD = 0.05
+// The default spreads of the robustness run are the defaults of their
+// ranges in engine/limits (each with its source there).
+var (
+	DefaultEstimatedBRelSD  = limits.EstimatedBRelSD.Default
+	DefaultOsmoticRelSD     = limits.OsmoticRelSD.Default
+	DefaultVantHoffRelSD    = limits.VantHoffOsmoticRelSD.Default
+	DefaultDiffusivityRelSD = limits.DiffusivityRelSD.Default
 )
 
 // Scenario is everything a screen needs, resolved and in SI.
@@ -254,8 +247,8 @@ func (sc *Scenario) validate() error {
 	if len(sc.Orientations) == 0 {
 		return inputErr("orientation", []string{"AL-FS", "AL-DS"}, "no orientation")
 	}
-	if !(sc.TemperatureK >= thermo.ZeroCelsiusK+thermo.MinTemperatureC && sc.TemperatureK <= thermo.ZeroCelsiusK+thermo.MaxTemperatureC) {
-		return inputErr("temperature_c", "0–100 °C", "temperature outside 0–100 °C")
+	if err := limits.TemperatureC.Check(sc.TemperatureK - thermo.ZeroCelsiusK); err != nil {
+		return err
 	}
 	m := sc.Membrane
 	if !(m.AMPerSPa > 0) || !(m.SM > 0) || !(m.B.NaCl >= 0) || math.IsInf(m.AMPerSPa+m.SM+m.B.NaCl, 0) {
@@ -263,47 +256,52 @@ func (sc *Scenario) validate() error {
 	}
 	sum := 0.0
 	for i, w := range sc.Weights {
-		if !(w >= 0) || math.IsInf(w, 0) {
-			return inputErr("weights."+Objective(i).Key(), "≥ 0", "weights must be finite and non-negative (got %g)", w)
+		if err := limits.Weight.CheckAt("weights."+Objective(i).Key(), w); err != nil {
+			return err
 		}
 		sum += w
 	}
 	if !(sum > 0) {
 		return inputErr("weights", "at least one weight > 0", "all weights are zero")
 	}
-	if r := sc.RegenerationRecovery; !(r > 0 && r <= 0.95) {
-		return inputErr("regeneration_recovery", "0 < r ≤ 0.95", "regeneration recovery must lie in (0, 0.95] (got %g)", r)
+	if err := limits.RegenerationRecovery.Check(sc.RegenerationRecovery); err != nil {
+		return err
 	}
 	b := sc.Basis
 	switch b.Kind {
 	case BasisOsmoticPressure:
-		if b.MultipleOfFeed == 0 && !(b.PiPa > 0 && b.PiPa < 1e9) {
-			return inputErr("basis.value", "> 0 bar", "the target osmotic pressure must be positive")
-		}
-		if b.MultipleOfFeed != 0 && !(b.MultipleOfFeed > 0 && b.MultipleOfFeed < 1e3) {
-			return inputErr("basis.multiple_of_feed", "> 0", "the multiple of the feed's osmotic pressure must be positive")
+		if b.MultipleOfFeed == 0 {
+			if err := limits.BasisPressure.Check(b.PiPa / thermo.PascalPerBar); err != nil {
+				return err
+			}
+		} else if err := limits.BasisMultiple.Check(b.MultipleOfFeed); err != nil {
+			return err
 		}
 	case BasisConcentration:
-		if !(b.Concentration > 0) || math.IsInf(b.Concentration, 0) {
-			return inputErr("basis.value", "> 0", "the basis concentration must be positive")
+		if err := limits.BasisValue.Check(b.Concentration); err != nil {
+			return err
 		}
 	case BasisWaterFlux:
-		if !(b.JwMPerS > 0 && b.JwMPerS < 1e-3) {
-			return inputErr("basis.value", "> 0 LMH", "the target water flux must be positive")
+		if err := limits.BasisFlux.Check(b.JwMPerS / thermo.MPerSPerLMH); err != nil {
+			return err
 		}
 	default:
 		return inputErr("basis.kind", []string{"osmotic-pressure", "concentration", "water-flux"}, "unknown basis")
 	}
 	if u := sc.Uncertainty; u != nil {
-		if u.Samples < 0 || u.Samples > 100000 {
-			return inputErr("uncertainty.samples", "0–100000", "samples must lie within 0–100000")
+		// Zero samples means no robustness run.
+		if u.Samples != 0 {
+			if err := limits.Samples.Check(float64(u.Samples)); err != nil {
+				return err
+			}
 		}
 		for _, f := range []struct {
-			name string
-			v    float64
-		}{{"a_rel_sd", u.ARelSD}, {"b_rel_sd", u.BRelSD}, {"s_rel_sd", u.SRelSD}, {"osmotic_rel_sd", u.OsmoticRelSD}, {"diffusivity_rel_sd", u.DiffusivityRelSD}} {
-			if !(f.v >= 0 && f.v <= 2) {
-				return inputErr("uncertainty."+f.name, "0–2", "relative standard deviation must lie within 0–2")
+			r *limits.Range
+			v float64
+		}{{&limits.ARelSD, u.ARelSD}, {&limits.BRelSD, u.BRelSD}, {&limits.SRelSD, u.SRelSD}, {&limits.OsmoticRelSD, u.OsmoticRelSD},
+			{&limits.DiffusivityRelSD, u.DiffusivityRelSD}, {&limits.EstimatedBRelSD, u.EstimatedBRelSD}} {
+			if err := f.r.Check(f.v); err != nil {
+				return err
 			}
 		}
 	}

@@ -2,6 +2,7 @@ package screen
 
 import (
 	"context"
+	"drawsift/engine/limits"
 	"math"
 
 	"drawsift/engine/library"
@@ -43,15 +44,12 @@ type SweepSeries struct {
 	Points      []SweepPoint
 }
 
-// MaxSweepPoints bounds a sweep's length.
-const MaxSweepPoints = 1000
-
 // Sweep evaluates every candidate in every requested orientation across
 // the values of one variable, for plots. A point that fails a hard limit
 // carries its reason instead of metrics; the rest of the sweep goes on.
 func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSpec) ([]SweepSeries, error) {
-	if spec.Points < 2 || spec.Points > MaxSweepPoints {
-		return nil, inputErr("sweep.points", "2–1000", "a sweep needs 2–1000 points")
+	if err := limits.SweepPoints.Check(float64(spec.Points)); err != nil {
+		return nil, err
 	}
 	if !(spec.From >= 0 && spec.To > spec.From) || math.IsInf(spec.To, 0) {
 		return nil, inputErr("sweep.to", "> from ≥ 0", "the sweep range must be finite and increasing")
