@@ -55,7 +55,8 @@
       e.textContent = String(Number((P.dflt(e.dataset.defaultOf) * (Number(e.dataset.scale) || 1)).toPrecision(12)));
     }
     for (const inp of document.querySelectorAll("#weights input[type=range]")) inp.min = String(P.limit("weights").min);
-    $("unc-pi").placeholder = P.dflt("uncertainty.osmotic_rel_sd") + " (engine default)";
+    $("unc-pi").placeholder = P.dflt("uncertainty.osmotic_rel_sd") + " (engine default; " +
+      P.dflt("uncertainty.osmotic_rel_sd.van_t_hoff_only") + " for van 't Hoff-only solutes)";
     $("feed-ph").placeholder = String(P.dflt("feed.ph"));
     // A measured table without a temperature is taken at the default one.
     $("cs-table-t").placeholder = String(P.dflt("temperature_c"));
@@ -152,14 +153,13 @@
   function kMode() { return document.querySelector('input[name="k-mode"]:checked').value; }
   function updateKUI() { $("k-given-box").hidden = kMode() !== "given"; }
 
-  // basisDefault is the engine's basis for a scenario that names none: a
-  // multiple of the feed's π, or an equal π for a feed without one
-  // (engine/api resolveBasis), with the engine's numbers.
+  // basisDefault is the engine's basis for a scenario that names none:
+  // basis_with_feed for a feed with osmotic pressure, else
+  // basis_without_feed (both from the engine's defaults).
   function basisDefault(feed) {
     const pre = feed.preset && state.feeds.find(f => f.id === feed.preset);
     const hasPi = feed.preset ? !!pre && pre.osmotic.method !== "none" : feed.concentration > 0;
-    if (hasPi) return { kind: "osmotic-pressure", multiple_of_feed: P.dflt("basis.multiple_of_feed") };
-    return { kind: "osmotic-pressure", value: P.dflt("basis.osmotic_pressure_bar"), unit: P.limit("basis.osmotic_pressure_bar").unit };
+    return Object.assign({}, P.defaults()[hasPi ? "basis_with_feed" : "basis_without_feed"]);
   }
 
   function writeForm(sc) {
