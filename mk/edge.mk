@@ -29,6 +29,7 @@ edge:
 
 edge-size:
 	@total=0; for f in $(EDGE_DIR)/app.wasm $(EDGE_DIR)/wasm_exec.js $(EDGE_DIR)/worker.mjs $(EDGE_DIR)/runtime.mjs; do \
+	  test -f $$f || { echo "$$f is missing: run make edge"; exit 1; }; \
 	  raw=$$(wc -c < $$f); gz=$$(gzip -9 -c $$f | wc -c); total=$$((total + gz)); \
 	  printf '%-28s %10d B raw %10d B gzip\n' $$f $$raw $$gz; done; \
 	  printf 'edge bundle gzip total: %d B (budget 3145728 B)\n' $$total; \
