@@ -157,10 +157,8 @@ func (mx *Mixture) Eval(m, lnGamma []float64) float64 {
 		iStr += 0.5 * mi * mx.z[i] * mx.z[i]
 		zSum += mi * math.Abs(mx.z[i])
 	}
-	if lnGamma != nil {
-		for i := range lnGamma {
-			lnGamma[i] = 0
-		}
+	for i := range lnGamma {
+		lnGamma[i] = 0
 	}
 	if sumM <= 0 {
 		return 1
@@ -228,10 +226,8 @@ func (mx *Mixture) Eval(m, lnGamma []float64) float64 {
 	}
 	like(mx.cat, mx.an)
 	like(mx.an, mx.cat)
-	if lnGamma != nil {
-		for i := range lnGamma {
-			lnGamma[i] += mx.z[i]*mx.z[i]*f + math.Abs(mx.z[i])*sumCC
-		}
+	for i := range lnGamma {
+		lnGamma[i] += mx.z[i]*mx.z[i]*f + math.Abs(mx.z[i])*sumCC
 	}
 	return 1 + 2*osm/sumM
 }
