@@ -9,6 +9,7 @@ import (
 
 	"drawsift/engine/errs"
 	"drawsift/engine/library"
+	"drawsift/engine/warn"
 )
 
 // MixIon is one ion of a mixed-electrolyte solution.
@@ -35,9 +36,10 @@ type binary struct {
 // Electrolyte Solutions, 2nd ed., ch. 3, eqs. 59–69 and 84–86; Pitzer (1975)
 // J. Solution Chem. 4:249 for ᴱθ.
 //
-// The like-ion θ and ψ parameters are zero until the library carries them;
-// ᴱθ (which needs no parameter) is always included, so a mixture of ions of
-// unlike charge (Na⁺–Mg²⁺, Cl⁻–SO₄²⁻) is not treated as symmetric.
+// The like-ion θ and ψ come from Harvie, Møller & Weare (1984) Table 2
+// (mixing.go; zero for pairs it does not list); ᴱθ (which needs no
+// parameter) is always included, so ions of unlike charge (Na⁺–Mg²⁺,
+// Cl⁻–SO₄²⁻) are never treated as symmetric.
 type Mixture struct {
 	ions  []MixIon
 	z     []float64
@@ -48,6 +50,9 @@ type Mixture struct {
 	psi   [][][]float64
 	aphi  float64
 	tK    float64
+	// Warnings: mixing data at 25 °C used elsewhere; binary sets used
+	// outside their temperature range.
+	Warnings []warn.Warning
 }
 
 // NewMixture builds the model at tK from library salts: each Pitzer salt
@@ -100,6 +105,12 @@ func NewMixture(salts []*library.Solute, tK float64) (*Mixture, error) {
 	for _, l := range links {
 		mx.pair[pos[l.c]][pos[l.a]] = l.p
 	}
+	for _, l := range links {
+		if !l.p.inRange {
+			mx.Warnings = append(mx.Warnings, warn.New(warn.Temperature25C, l.p.fromSolute,
+				"%s: Pitzer parameters used outside the temperature range of their data", l.p.fromSolute))
+		}
+	}
 	n := len(mx.ions)
 	mx.theta = make([][]float64, n)
 	mx.psi = make([][][]float64, n)
@@ -109,6 +120,10 @@ func NewMixture(salts []*library.Solute, tK float64) (*Mixture, error) {
 		for j := range mx.psi[i] {
 			mx.psi[i][j] = make([]float64, n)
 		}
+	}
+	if mx.fillMixing() && math.Abs(tK-ReferenceK) > 5 {
+		mx.Warnings = append(mx.Warnings, warn.New(warn.Temperature25C, "mixture",
+			"mixture: the like-ion mixing parameters θ and ψ are 25 °C data (Harvie, Møller & Weare 1984), used unchanged at %.4g °C", tK-ZeroCelsiusK))
 	}
 	return mx, nil
 }

@@ -7,6 +7,8 @@ import (
 	"gonum.org/v1/gonum/integrate/quad"
 
 	"drawsift/engine/library"
+	"drawsift/engine/warn"
+	"drawsift/engine/water"
 )
 
 func mixSalts(t *testing.T, ids ...string) []*library.Solute {
@@ -187,3 +189,82 @@ func BenchmarkMixtureSeawater(b *testing.B) {
 
 // sinkF keeps benchmark results alive.
 var sinkF float64
+
+// seawaterMixture is the Reference Composition (Millero et al. 2008,
+// Deep-Sea Res. I 55:50, Table 4, as data/feeds.json holds it) at absolute
+// salinity sa, in mol per kg of water, with the minor ions folded into
+// the major ones of the same charge that have Pitzer pairs here (Sr²⁺ into
+// Ca²⁺; Br⁻, B(OH)₄⁻, F⁻ into Cl⁻; CO₃²⁻ as two HCO₃⁻): together under
+// 0.2 % of the salt, so the fold moves φ by far less than the tolerance.
+func seawaterMixture(t *testing.T, mx *Mixture, sa float64) []float64 {
+	t.Helper()
+	f, ok := library.LookupFeed("seawater")
+	if !ok {
+		t.Fatal("no seawater preset")
+	}
+	into := map[string]string{"Sr+2": "Ca+2", "Br-": "Cl-", "B(OH)4-": "Cl-", "F-": "Cl-"}
+	byIon := map[string]float64{}
+	for _, ion := range f.IonsAt(sa) {
+		mol := ion.Mol / (1 - sa/1000) // per kg of solution → per kg of water
+		switch {
+		case ion.Symbol == "CO3-2":
+			byIon["HCO3-"] += 2 * mol
+		case into[ion.Symbol] != "":
+			byIon[into[ion.Symbol]] += mol
+		default:
+			byIon[ion.Symbol] += mol
+		}
+	}
+	m := make([]float64, len(mx.Ions()))
+	for i, ion := range mx.Ions() {
+		m[i] = byIon[ion.Symbol]
+		delete(byIon, ion.Symbol)
+	}
+	for sym := range byIon {
+		t.Fatalf("seawater ion %s has no place in the mixture", sym)
+	}
+	return m
+}
+
+// Seawater by composition against TEOS-10 (IOC, SCOR & IAPSO 2010; Debian's
+// python3-gsw via testdata/seawater_teos10.csv), every row of 5–70 g/kg and
+// 0–45 °C: within 0.5 % from 10 °C up (the tolerance of issue #10; worst
+// 0.35 % at 25 °C), within 1 % at 0 and 5 °C, where the deviation reaches
+// 0.78 % because the like-ion mixing parameters are 25 °C data (Harvie,
+// Møller & Weare 1984) and the test states that limit rather than hide it.
+// Binary parameters are the library records' own, with their temperature
+// functions. No Ca–SO₄ pair is in the library yet (its ions are 0.1 % of
+// the salt).
+func TestMixtureSeawaterTEOS10(t *testing.T) {
+	salts := mixSalts(t, "NaCl", "KCl", "MgCl2", "CaCl2", "Na2SO4", "K2SO4", "MgSO4", "NaHCO3", "KHCO3")
+	worst := 0.0
+	for _, r := range readCSV(t, "../../testdata/seawater_teos10.csv") {
+		sa, tc, want := r[0], r[1], r[2]*PascalPerBar
+		tK := tc + ZeroCelsiusK
+		mx, err := NewMixture(salts, tK)
+		if err != nil {
+			t.Fatal(err)
+		}
+		m := seawaterMixture(t, mx, sa)
+		sum := 0.0
+		for _, v := range m {
+			sum += v
+		}
+		// π = −(RT/V̄w) ln a_w, ln a_w = −φ Σmᵢ M_w.
+		got := GasConstant * tK / water.MolarVolume(tK) * mx.Eval(m, nil) * sum * water.MolarMassKgPerMol
+		dev := got/want - 1
+		tol := 0.005
+		if tc < 10 {
+			tol = 0.01
+		} else {
+			worst = math.Max(worst, math.Abs(dev))
+		}
+		if math.Abs(dev) > tol {
+			t.Errorf("seawater %g g/kg, %g °C: π = %.4f bar by composition, TEOS-10 %.4f bar (%+.2f %%)", sa, tc, got/1e5, want/1e5, 100*dev)
+		}
+		if tc != 25 && !warn.Has(mx.Warnings, warn.Temperature25C) && math.Abs(tK-ReferenceK) > 5 {
+			t.Errorf("%g °C: the 25 °C mixing data are not flagged", tc)
+		}
+	}
+	t.Logf("seawater by composition vs TEOS-10, 10–45 °C: worst %.3f %%", 100*worst)
+}
