@@ -168,6 +168,18 @@ func TestJIntegral(t *testing.T) {
 	}
 }
 
+// The interpolated J agrees with the quadrature across the table, at
+// points between its nodes.
+func TestJFast(t *testing.T) {
+	for x := 1.03e-4; x < 1e3; x *= 1.37 {
+		j, dj := jFast(x)
+		wj, wd := JIntegral(x)
+		if math.Abs(j-wj) > 1e-9*wj+1e-15 || math.Abs(dj-wd) > 5e-8*math.Abs(wd)+1e-9 {
+			t.Errorf("x = %g: J %.12g (quadrature %.12g), J′ %.10g (%.10g)", x, j, wj, dj, wd)
+		}
+	}
+}
+
 func BenchmarkMixtureSeawater(b *testing.B) {
 	lib, _ := library.Default()
 	var salts []*library.Solute
