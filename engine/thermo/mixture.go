@@ -278,7 +278,7 @@ func (mx *Mixture) etheta(zi, zj, iStr, s float64) (et, etp float64) {
 //	Gᴱˣ/(w_w RT) = −A_φ(4I/b) ln(1 + b√I) + Σ_c Σ_a m_c m_a (2B_ca + Z C_ca)
 //	              + Σ_{c<c′} m_c m_c′ (2Φ_cc′ + Σ_a m_a ψ_cc′a) + Σ_{a<a′} m_a m_a′ (2Φ_aa′ + Σ_c m_c ψ_aa′c)
 //
-// It exists to check Eval (the two are independent transcriptions of the
+// It exists to check Eval (the two are independent codings of the
 // model) and is not on any hot path.
 func (mx *Mixture) ExcessGibbs(m []float64) float64 {
 	var iStr, zSum float64
