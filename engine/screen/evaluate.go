@@ -177,9 +177,9 @@ type env struct {
 	davies   float64   // Davies A at T (log10 units)
 	cands    []candidate
 	warnings []warn.Warning
-	// mtDraw, mtFeed: the last solve's Sherwood results, when k came from
-	// the channel (for the nominal run's warnings).
-	mtDraw, mtFeed *transport.MassTransfer
+	// kWarn holds the last solve's Sherwood-correlation warnings, draw side
+	// then feed side (nil where k was given), for the nominal run.
+	kWarn [2][]warn.Warning
 }
 
 type ionConc struct {
@@ -436,13 +436,13 @@ func (e *env) solve(c *candidate, ori transport.Orientation, m float64, p *pertu
 	cD := x.MolarityMolPerM3(m)
 	d := x.DiffusivityM2PerS(m) * p.fD
 	kD := sc.KDrawMPerS
-	e.mtDraw, e.mtFeed = nil, nil
+	e.kWarn = [2][]warn.Warning{}
 	if kD == 0 {
 		mt, err := channelK(sc.Channel, false, x.DensityKgPerM3(m), x.ViscosityPaS(m), d)
 		if err != nil {
 			return err
 		}
-		kD, e.mtDraw = mt.KMPerS, &mt
+		kD, e.kWarn[0] = mt.KMPerS, mt.Warnings
 	}
 	kF := e.kFeed
 	if kF == 0 { // solute-free feed: the reverse-fluxed draw solute sets k
@@ -450,7 +450,7 @@ func (e *env) solve(c *candidate, ori transport.Orientation, m float64, p *pertu
 		if err != nil {
 			return err
 		}
-		kF, e.mtFeed = mt.KMPerS, &mt
+		kF, e.kWarn[1] = mt.KMPerS, mt.Warnings
 	}
 	c.pi.f = p.fPi
 	in := transport.Input{
@@ -507,14 +507,9 @@ func (e *env) metricsAt(c *candidate, ori transport.Orientation, m float64, p *p
 		// The channel's regime and the correlation's caveats reach every
 		// host with the candidate (only on the nominal run: the Monte
 		// Carlo samples would repeat them).
-		for _, k := range [...]struct {
-			side string
-			mt   *transport.MassTransfer
-		}{{"k_draw", e.mtDraw}, {"k_feed", e.mtFeed}} {
-			if k.mt != nil {
-				for _, w := range k.mt.Warnings {
-					out.Warnings = append(out.Warnings, w.About(c.sol.ID+" "+k.side))
-				}
+		for i, side := range [2]string{"k_draw", "k_feed"} {
+			for _, w := range e.kWarn[i] {
+				out.Warnings = append(out.Warnings, w.About(c.sol.ID+" "+side))
 			}
 		}
 	}
