@@ -93,18 +93,18 @@ type BasisSpec struct {
 }
 
 // UncertaintySpec sets the robustness run; omitted numbers take the
-// membrane record's scatter (custom membranes: 10 %, 30 %, 15 %), 2 % on
-// π (10 % for a van 't Hoff-only solute), 5 % on D, and prices drawn
-// uniformly within their ranges.
+// membrane record's scatter (a custom membrane the uncertainty.*_rel_sd
+// defaults of engine/limits), the π, D and estimated-B spreads of the same
+// table, and prices drawn uniformly within their ranges.
 type UncertaintySpec struct {
-	Samples          *int     `json:"samples,omitempty"` // default 1000
+	Samples          *int     `json:"samples,omitempty"` // default limits.Samples
 	ARelSD           *float64 `json:"a_rel_sd,omitempty"`
 	BRelSD           *float64 `json:"b_rel_sd,omitempty"`
 	SRelSD           *float64 `json:"s_rel_sd,omitempty"`
 	OsmoticRelSD     *float64 `json:"osmotic_rel_sd,omitempty"`
 	DiffusivityRelSD *float64 `json:"diffusivity_rel_sd,omitempty"`
 	// EstimatedBRelSD: per candidate, for a B estimated from NaCl's
-	// (default screen.DefaultEstimatedBRelSD).
+	// (default limits.EstimatedBRelSD).
 	EstimatedBRelSD *float64 `json:"estimated_b_rel_sd,omitempty"`
 	Prices          *bool    `json:"prices,omitempty"`
 }
@@ -171,7 +171,8 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 	var err error
 	sc := &screen.Scenario{Seed: uint64(limits.Seed.Default), AllowExtrapolation: req.AllowExtrapolation}
 	if req.Seed != nil {
-		if err := limits.Seed.Check(float64(*req.Seed)); err != nil || *req.Seed > 1<<53-1 {
+		// Compared as integers: a uint64 seed does not survive a float64.
+		if *req.Seed > uint64(limits.Seed.Max) {
 			return nil, nil, errs.Invalid(limits.Seed.Field, float64(*req.Seed), limits.Seed.Text(), "seed = %d is outside %s", *req.Seed, limits.Seed.Text())
 		}
 		sc.Seed = *req.Seed

@@ -35,15 +35,7 @@ func BenchmarkScreen(b *testing.B) {
 	sc := baseScenario(b)
 	sc.Feed = seawaterFeed(b)
 	sc.Basis = Basis{Kind: BasisOsmoticPressure, MultipleOfFeed: 2}
-	l := lib(b)
-	b.ReportAllocs()
-	for b.Loop() {
-		r, err := Run(context.Background(), sc, l, nil)
-		if err != nil {
-			b.Fatal(err)
-		}
-		sinkResult = r
-	}
+	benchRun(b, sc)
 }
 
 // BenchmarkRobustness: 1,000 Monte Carlo samples over 25 candidates
@@ -54,21 +46,12 @@ func BenchmarkRobustness(b *testing.B) {
 	sc.Basis = Basis{Kind: BasisOsmoticPressure, MultipleOfFeed: 2}
 	sc.AllowExtrapolation = true
 	sc.Uncertainty = &Uncertainty{Samples: 1000, ARelSD: .1, BRelSD: .3, SRelSD: .15, DefaultOsmotic: true, DiffusivityRelSD: .05, Prices: true}
-	l := lib(b)
-	r, err := Run(context.Background(), sc, l, nil)
+	r, err := Run(context.Background(), sc, lib(b), nil)
 	if err != nil {
 		b.Fatal(err)
 	}
-	n := len(r.Ranked)
-	b.ReportAllocs()
-	for b.Loop() {
-		r, err := Run(context.Background(), sc, l, nil)
-		if err != nil {
-			b.Fatal(err)
-		}
-		sinkResult = r
-	}
-	b.ReportMetric(float64(n), "candidates")
+	benchRun(b, sc)
+	b.ReportMetric(float64(len(r.Ranked)), "candidates")
 }
 
 // BenchmarkWaterFluxBasis: one ranked screen of the whole library at an
@@ -80,6 +63,11 @@ func BenchmarkWaterFluxBasis(b *testing.B) {
 	sc.Feed = seawaterFeed(b)
 	sc.Orientations = []transport.Orientation{transport.ALFS, transport.ALDS}
 	sc.Basis = Basis{Kind: BasisWaterFlux, JwMPerS: 5 * thermo.MPerSPerLMH}
+	benchRun(b, sc)
+}
+
+// benchRun times whole screens of sc.
+func benchRun(b *testing.B, sc *Scenario) {
 	l := lib(b)
 	b.ReportAllocs()
 	for b.Loop() {

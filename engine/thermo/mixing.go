@@ -40,7 +40,7 @@ func likeKey(a, b string) [2]string {
 // fillMixing sets θ and ψ for the mixture's ions from the tables and
 // reports whether any was set (so a caller can flag 25 °C data).
 func (mx *Mixture) fillMixing() bool {
-	any := false
+	set := false
 	n := len(mx.ions)
 	for i := 0; i < n; i++ {
 		for j := i + 1; j < n; j++ {
@@ -50,7 +50,7 @@ func (mx *Mixture) fillMixing() bool {
 			key := likeKey(mx.ions[i].Symbol, mx.ions[j].Symbol)
 			if th, ok := mixTheta[key]; ok {
 				mx.theta[i][j], mx.theta[j][i] = th, th
-				any = true
+				set = true
 			}
 			for k := 0; k < n; k++ {
 				if mx.z[k]*mx.z[i] >= 0 {
@@ -58,10 +58,10 @@ func (mx *Mixture) fillMixing() bool {
 				}
 				if ps, ok := mixPsi[[3]string{key[0], key[1], mx.ions[k].Symbol}]; ok {
 					mx.psi[i][j][k], mx.psi[j][i][k] = ps, ps
-					any = true
+					set = true
 				}
 			}
 		}
 	}
-	return any
+	return set
 }

@@ -49,7 +49,6 @@ type Mixture struct {
 	theta [][]float64 // like-charged pairs, by ion index (zero for now)
 	psi   [][][]float64
 	aphi  float64
-	tK    float64
 	// Warnings: mixing data at 25 °C used elsewhere; binary sets used
 	// outside their temperature range.
 	Warnings []warn.Warning
@@ -59,7 +58,7 @@ type Mixture struct {
 // brings its cation–anion pair's binary parameters (at tK, by the record's
 // temperature function). The ions are the salts' ions, merged by symbol.
 func NewMixture(salts []*library.Solute, tK float64) (*Mixture, error) {
-	mx := &Mixture{tK: tK, aphi: AphiMoller88(tK)}
+	mx := &Mixture{aphi: AphiMoller88(tK)}
 	index := map[string]int{}
 	add := func(ion library.Ion) int {
 		if i, ok := index[ion.Symbol]; ok {
