@@ -27,10 +27,7 @@ const (
 	ReverseFlow    Code = "reverse-flow"    // water flows from draw to feed
 	Unused         Code = "unused"          // an input that has no effect
 	Regeneration   Code = "regeneration"    // about the regeneration estimate
-	Robustness     Code = "robustness"      // about the Monte Carlo run
-	Surrogate      Code = "surrogate"       // a feed's π from an equivalent solute
 	Scaling        Code = "scaling"         // mineral saturation
-	MassTransfer   Code = "mass-transfer"   // other remarks on k
 )
 
 // Warning is one warning: its code, what it concerns (a solute ID, "feed",
