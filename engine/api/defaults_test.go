@@ -33,7 +33,7 @@ func TestDefaultsOperation(t *testing.T) {
 		t.Errorf("defaults: %+v", d)
 	}
 	// A screen that omits the recovery reports the energy at the default.
-	resp, e := Screen(context.Background(), &ScreenRequest{Candidates: []string{"NaCl"}}, nil)
+	resp, e := Screen(context.Background(), &ScreenRequest{Candidates: []Candidate{{ID: "NaCl"}}}, nil)
 	if e != nil {
 		t.Fatal(e)
 	}

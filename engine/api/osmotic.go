@@ -3,6 +3,8 @@ package api
 import (
 	"math"
 
+	"drawsift/engine/errs"
+
 	"drawsift/engine/library"
 	"drawsift/engine/scenario"
 	"drawsift/engine/thermo"
@@ -12,12 +14,34 @@ import (
 // Concentration is how a concentration travels: a solute, a value and a unit.
 type Concentration = scenario.Concentration
 
-// OsmoticRequest asks for the osmotic properties of one solution.
+// OsmoticRequest asks for the osmotic properties of one solution: a
+// solute at a concentration, or a mixture of parts each at its own
+// concentration.
 type OsmoticRequest struct {
-	Solute        string   `json:"solute"`
-	Concentration *float64 `json:"concentration"`
-	Unit          string   `json:"unit"`
-	TemperatureC  *float64 `json:"temperature_c,omitempty"` // default 25 °C
+	Solute        string        `json:"solute,omitempty"`
+	Concentration *float64      `json:"concentration,omitempty"`
+	Unit          string        `json:"unit,omitempty"`
+	Mixture       []MixturePart `json:"mixture,omitempty"`
+	TemperatureC  *float64      `json:"temperature_c,omitempty"` // default 25 °C
+}
+
+// IonResult is one ion of the solution.
+type IonResult struct {
+	Ion              string  `json:"ion"`
+	Charge           int     `json:"charge"`
+	MolalityMolPerKg float64 `json:"molality_mol_per_kg"`
+	// ActivityCoefficient is the single-ion γ of the Pitzer equations
+	// (null where the solute's model gives none).
+	ActivityCoefficient *float64 `json:"activity_coefficient"`
+}
+
+// ComponentResult is one part of a blend in the solution.
+type ComponentResult struct {
+	Solute                 string  `json:"solute"`
+	MoleFraction           float64 `json:"mole_fraction"`
+	MolalityMolPerKg       float64 `json:"molality_mol_per_kg"`
+	MolarityMolPerL        float64 `json:"molarity_mol_per_l"`
+	MassConcentrationGPerL float64 `json:"mass_concentration_g_per_l"`
 }
 
 // OsmoticResponse holds every property of the solution.
@@ -40,6 +64,14 @@ type OsmoticResponse struct {
 	ViscosityMPaS           float64  `json:"viscosity_mpa_s"`
 	DiffusivityM2PerS       float64  `json:"diffusivity_m2_per_s"`
 	VantHoffFactor          float64  `json:"van_t_hoff_factor"`
+	// Ion-level results: every ion with its molality and activity
+	// coefficient, the ionic strength, and log10(IAP/Ksp) of each mineral
+	// whose ions are present, keyed by lower-case mineral name.
+	IonicStrengthMolPerKg float64            `json:"ionic_strength_mol_per_kg"`
+	Ions                  []IonResult        `json:"ions"`
+	SaturationIndices     map[string]float64 `json:"saturation_indices"`
+	// Components lists a blend's parts (omitted for a single solute).
+	Components []ComponentResult `json:"components,omitempty"`
 	// SolubilityMolPerKg is omitted for a miscible solute.
 	SolubilityMolPerKg *float64 `json:"solubility_mol_per_kg,omitempty"`
 	Warnings           []string `json:"warnings"`
@@ -57,6 +89,11 @@ var modelSources = map[string][]Source{
 	library.ModelNorrish:  {{Field: "model", Reference: "Norrish (1966) J. Food Technol. 1:25 (a_w = x_w exp(−K x_s²))"}},
 	library.ModelTable:    {{Field: "model", Reference: "measured osmotic-pressure table, monotone cubic interpolation (Fritsch & Butland 1984)"}},
 	library.ModelNone:     {{Field: "model", Reference: "van 't Hoff (1887): no trustworthy non-ideal model for this solute"}},
+	thermo.PathPitzerMixture: {
+		{Field: "model", Reference: "Harvie, Møller & Weare (1984) Geochim. Cosmochim. Acta 48:723 (mixed-electrolyte Pitzer model); Pitzer (1991) Activity Coefficients in Electrolyte Solutions, ch. 3; Pitzer (1975) J. Solution Chem. 4:249 (unsymmetrical mixing)"},
+		{Field: "model.A_phi", Reference: "Møller (1988) Geochim. Cosmochim. Acta 52:821, eq. 13"},
+	},
+	thermo.PathZSR: {{Field: "model", Reference: "Zdanovskii–Stokes–Robinson rule: Stokes & Robinson (1966) J. Phys. Chem. 70:2126, over the parts' binary models"}},
 }
 
 var commonSources = []Source{
@@ -66,23 +103,11 @@ var commonSources = []Source{
 
 // Osmotic computes the osmotic properties of one solution.
 func Osmotic(req *OsmoticRequest) (*OsmoticResponse, *Error) {
-	s, err := scenario.LookupSolute("solute", req.Solute)
-	if err != nil {
-		return nil, fromEngine("", err)
-	}
 	tK, err := scenario.TemperatureK("temperature_c", req.TemperatureC)
 	if err != nil {
 		return nil, fromEngine("", err)
 	}
-	v, u, err := scenario.ParseConcentration("", req.Concentration, req.Unit)
-	if err != nil {
-		return nil, fromEngine("", err)
-	}
-	x, err := thermo.NewSolution(s, tK)
-	if err != nil {
-		return nil, fromEngine("", err)
-	}
-	m, err := x.ToMolality(v, u)
+	x, m, u, err := osmoticSolution(req, tK)
 	if err != nil {
 		return nil, fromEngine("", err)
 	}
@@ -90,12 +115,53 @@ func Osmotic(req *OsmoticRequest) (*OsmoticResponse, *Error) {
 	if err != nil {
 		return nil, fromEngine("", err)
 	}
-	return osmoticResponse(s, x, st, tK), nil
+	ionic, err := x.IonsAt(m)
+	if err != nil {
+		return nil, fromEngine("", err)
+	}
+	return osmoticResponse(x.Solute, x, st, ionic, tK), nil
 }
 
-func osmoticResponse(s *library.Solute, x *thermo.Solution, st thermo.State, tK float64) *OsmoticResponse {
+// osmoticSolution prepares the request's solution: a solute at a
+// concentration, or a mixture.
+func osmoticSolution(req *OsmoticRequest, tK float64) (*thermo.Solution, float64, thermo.Unit, error) {
+	if len(req.Mixture) > 0 {
+		if req.Solute != "" || req.Concentration != nil {
+			return nil, 0, 0, errs.InvalidText("mixture", "", nil, "give either a solute with its concentration or a mixture, not both")
+		}
+		return scenario.ResolveMixture("", req.Mixture, tK)
+	}
+	s, err := scenario.LookupSolute("solute", req.Solute)
+	if err != nil {
+		return nil, 0, 0, err
+	}
+	v, u, err := scenario.ParseConcentration("", req.Concentration, req.Unit)
+	if err != nil {
+		return nil, 0, 0, err
+	}
+	x, err := thermo.NewSolution(s, tK)
+	if err != nil {
+		return nil, 0, 0, err
+	}
+	m, err := x.ToMolality(v, u)
+	if err != nil {
+		return nil, 0, 0, err
+	}
+	return x, m, u, nil
+}
+
+// modelName is the response's model: the osmotic path of a mixture, else
+// the solute's model kind.
+func modelName(x *thermo.Solution) string {
+	if p := x.MixturePath(); p != "" {
+		return p
+	}
+	return x.Kind()
+}
+
+func osmoticResponse(s *library.Solute, x *thermo.Solution, st thermo.State, ionic thermo.IonicState, tK float64) *OsmoticResponse {
 	r := &OsmoticResponse{
-		Solute: s.ID, Name: s.Name, Model: s.Osmotic.Kind,
+		Solute: s.ID, Name: s.Name, Model: modelName(x),
 		TemperatureC:           tK - thermo.ZeroCelsiusK,
 		OsmoticPressureBar:     st.OsmoticPressurePa / thermo.PascalPerBar,
 		VantHoffBar:            st.VantHoffPa / thermo.PascalPerBar,
@@ -110,8 +176,29 @@ func osmoticResponse(s *library.Solute, x *thermo.Solution, st thermo.State, tK 
 		ViscosityMPaS:          st.ViscosityPaS * thermo.MPaSPerPaS,
 		DiffusivityM2PerS:      st.DiffusivityM2PerS,
 		VantHoffFactor:         x.Nu(),
-		Warnings:               warn.Strings(st.Warnings),
+		Warnings:               warn.Strings(append(st.Warnings, ionic.Warnings...)),
 		EngineVersion:          EngineVersion,
+		IonicStrengthMolPerKg:  ionic.IonicStrengthMolPerKg,
+		Ions:                   []IonResult{},
+		SaturationIndices:      map[string]float64{},
+	}
+	for _, ion := range ionic.Ions {
+		ir := IonResult{Ion: ion.Symbol, Charge: ion.Charge, MolalityMolPerKg: ion.MolalityMolPerKg}
+		if ion.HasGamma {
+			g := math.Exp(ion.LnGamma)
+			ir.ActivityCoefficient = &g
+		}
+		r.Ions = append(r.Ions, ir)
+	}
+	for _, sat := range ionic.Saturation {
+		r.SaturationIndices[sat.Mineral] = sat.SI
+	}
+	parts, fr := x.Parts()
+	for k, p := range parts {
+		mk := fr[k] * st.MolalityMolPerKg
+		ck := fr[k] * st.MolarityMolPerM3 / 1000
+		r.Components = append(r.Components, ComponentResult{Solute: p.Solute.ID, MoleFraction: fr[k], MolalityMolPerKg: mk,
+			MolarityMolPerL: ck, MassConcentrationGPerL: ck * p.Solute.MolarMassGPerMol})
 	}
 	if st.HasGamma {
 		g := math.Exp(st.LnGamma)
@@ -121,7 +208,10 @@ func osmoticResponse(s *library.Solute, x *thermo.Solution, st thermo.State, tK 
 		sol := st.SolubilityMolPerKg
 		r.SolubilityMolPerKg = &sol
 	}
-	r.Sources = append(r.Sources, modelSources[s.Osmotic.Kind]...)
+	r.Sources = append(r.Sources, modelSources[r.Model]...)
+	for _, p := range parts {
+		r.Sources = append(r.Sources, soluteSources(p.Solute)...)
+	}
 	r.Sources = append(r.Sources, commonSources...)
 	r.Sources = append(r.Sources, soluteSources(s)...)
 	return r

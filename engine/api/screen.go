@@ -169,6 +169,9 @@ type (
 	SweepSpec       = scenario.SweepSpec
 	CustomSolute    = scenario.CustomSolute
 	CustomIon       = scenario.CustomIon
+	Candidate       = scenario.Candidate
+	BlendPart       = scenario.BlendPart
+	MixturePart     = scenario.MixturePart
 )
 
 // Screen ranks the scenario's candidates. progress, if not nil, receives

@@ -456,7 +456,9 @@ func TestSchemaMatchesTypes(t *testing.T) {
 		}
 		var want, got []string
 		for i := 0; i < typ.NumField(); i++ {
-			want = append(want, strings.Split(typ.Field(i).Tag.Get("json"), ",")[0])
+			if name := strings.Split(typ.Field(i).Tag.Get("json"), ",")[0]; typ.Field(i).IsExported() && name != "-" {
+				want = append(want, name)
+			}
 		}
 		for k := range d.Properties {
 			got = append(got, k)

@@ -39,8 +39,29 @@ func Default() (*Library, error) {
 			return
 		}
 		defaultLib, defaultErr = Parse(b)
+		if defaultErr == nil {
+			defaultErr = defaultLib.linkCompositions()
+		}
 	})
 	return defaultLib, defaultErr
+}
+
+// linkCompositions gives each mixture record the ions of its composition
+// feed (the feed presets load separately, so this runs once both exist).
+func (l *Library) linkCompositions() error {
+	for _, s := range l.solutes {
+		if s.Osmotic.Kind != ModelMixture {
+			continue
+		}
+		f, ok := LookupFeed(s.Osmotic.CompositionFeed)
+		if !ok {
+			return fmt.Errorf("solute %q: composition feed %q not found", s.ID, s.Osmotic.CompositionFeed)
+		}
+		if err := s.setComposition(f); err != nil {
+			return err
+		}
+	}
+	return nil
 }
 
 // MustDefault is Default for callers that cannot proceed without the
@@ -143,6 +164,9 @@ func (s *Solute) Validate() error {
 	if !(s.MolarMassGPerMol > 0) || math.IsInf(s.MolarMassGPerMol, 0) {
 		return bad("molar_mass_g_per_mol", "must be a positive finite number, got %v", s.MolarMassGPerMol)
 	}
+	if len(s.Components) > 0 {
+		return bad("components", "a library record is one solute; blends are built from records by the engine")
+	}
 	charge := 0
 	for _, ion := range s.Ions {
 		if ion.Count <= 0 || ion.Charge == 0 {
@@ -190,6 +214,10 @@ func (s *Solute) Validate() error {
 			return bad("osmotic_model", "norrish needs max_molality_mol_per_kg")
 		}
 	case ModelSeawater:
+	case ModelMixture:
+		if m.CompositionFeed == "" {
+			return bad("osmotic_model.composition_feed", "a mixture record names the feed record that holds its composition")
+		}
 	case ModelTable:
 		if m.Table == nil || len(m.Table.Points) < 2 {
 			return bad("osmotic_model.table", "needs at least two points")

@@ -79,9 +79,22 @@ func (m *Membrane) SoluteB() SoluteB { return SoluteB{NaCl: m.BNaClLMH, Measured
 //	B_j = B_NaCl · D_j / D_NaCl         otherwise (BEstimateRule)
 //
 // with D the infinite-dilution diffusivities of the library records.
+//
+// A blend's B is its parts' B weighted by mass, Σ_k (x_k M_k/M) B_k, which
+// gives the blend's reverse mass flux exactly when the parts share one
+// concentration profile (the transport model's assumption for a blend);
+// it is an estimate when any part's is.
 func (b *SoluteB) For(s *Solute) (v float64, estimated bool) {
 	if v, ok := b.Measured[s.ID]; ok {
 		return v, false
+	}
+	if s.IsBlend() {
+		for _, c := range s.Components {
+			bk, est := b.For(c.Solute)
+			v += c.MoleFraction * c.Solute.MolarMassGPerMol / s.MolarMassGPerMol * bk
+			estimated = estimated || est
+		}
+		return v, estimated
 	}
 	if Key(s.ID) == "nacl" {
 		return b.NaCl, false

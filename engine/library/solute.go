@@ -36,6 +36,12 @@ type Solute struct {
 
 	// Sources maps a field path to where its numbers come from.
 	Sources map[string]string `json:"sources"`
+
+	// Components are a blend's parts (NewBlend); empty for a library record.
+	Components []Component `json:"components,omitempty"`
+	// composition: the ions per formula unit of a mixture record or blend
+	// (IonShares); nil for a single solute.
+	composition []IonShare `json:"-"`
 }
 
 // HazardFlags are the machine-readable hazard flags a record may carry
@@ -101,6 +107,10 @@ type OsmoticModel struct {
 
 	// Reason explains a ModelNone record.
 	Reason string `json:"reason,omitempty"`
+	// CompositionFeed names the feed record whose ion list is this mixture
+	// solute's composition (ModelMixture records: seawater's Reference
+	// Composition).
+	CompositionFeed string `json:"composition_feed,omitempty"`
 	// VantHoffNu is the van 't Hoff factor to use when Ions is empty or the
 	// model is "none" (e.g. 2 for NH4HCO3). Zero means derived from Ions.
 	VantHoffNu float64 `json:"vant_hoff_nu,omitempty"`

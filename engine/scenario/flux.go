@@ -1,6 +1,7 @@
 package scenario
 
 import (
+	"drawsift/engine/errs"
 	"drawsift/engine/library"
 	"drawsift/engine/limits"
 	"drawsift/engine/thermo"
@@ -9,11 +10,13 @@ import (
 )
 
 // Concentration is how a concentration travels: a solute, a value and a
-// unit (the contract's JSON names; engine/api re-exports the type).
+// unit, or a mixture of parts each at its own concentration (the
+// contract's JSON names; engine/api re-exports the type).
 type Concentration struct {
-	Solute        string   `json:"solute"`
-	Concentration *float64 `json:"concentration"`
-	Unit          string   `json:"unit"`
+	Solute        string        `json:"solute,omitempty"`
+	Concentration *float64      `json:"concentration,omitempty"`
+	Unit          string        `json:"unit,omitempty"`
+	Mixture       []MixturePart `json:"mixture,omitempty"`
 }
 
 // FluxSpec is a flux request as the contract gives it (engine/api
@@ -49,27 +52,48 @@ type Side struct {
 // PrepareSide checks one stream's solute and concentration (fields under
 // prefix) and evaluates its bulk state at tK.
 func PrepareSide(prefix string, c *Concentration, tK float64) (*Side, error) {
-	s, err := LookupSolute(prefix+".solute", c.Solute)
+	x, m, u, err := prepareSolution(prefix, c, tK)
 	if err != nil {
 		return nil, err
 	}
-	v, u, err := ParseConcentration(prefix, c.Concentration, c.Unit)
-	if err != nil {
-		return nil, err
-	}
-	x, err := thermo.NewSolution(s, tK)
-	if err != nil {
-		return nil, prefixed(prefix, err)
-	}
-	m, err := x.ToMolality(v, u)
-	if err != nil {
-		return nil, prefixed(prefix, err)
-	}
+	return sideAt(prefix, x, m, u)
+}
+
+// sideAt evaluates a prepared solution's bulk state at molality m.
+func sideAt(prefix string, x *thermo.Solution, m float64, u thermo.Unit) (*Side, error) {
 	st, err := x.StateAt(m, u)
 	if err != nil {
 		return nil, prefixed(prefix, err)
 	}
-	return &Side{Solute: s, X: x, M: m, CSI: st.MolarityMolPerM3, State: st}, nil
+	return &Side{Solute: x.Solute, X: x, M: m, CSI: st.MolarityMolPerM3, State: st}, nil
+}
+
+// prepareSolution reads one stream (fields under prefix): a solute at a
+// concentration, or a mixture (ResolveMixture).
+func prepareSolution(prefix string, c *Concentration, tK float64) (*thermo.Solution, float64, thermo.Unit, error) {
+	if len(c.Mixture) > 0 {
+		if c.Solute != "" || c.Concentration != nil {
+			return nil, 0, 0, invalid(errs.Join(prefix, "mixture"), nil, "give either a solute with its concentration or a mixture, not both")
+		}
+		return ResolveMixture(prefix, c.Mixture, tK)
+	}
+	s, err := LookupSolute(errs.Join(prefix, "solute"), c.Solute)
+	if err != nil {
+		return nil, 0, 0, err
+	}
+	v, u, err := ParseConcentration(prefix, c.Concentration, c.Unit)
+	if err != nil {
+		return nil, 0, 0, err
+	}
+	x, err := thermo.NewSolution(s, tK)
+	if err != nil {
+		return nil, 0, 0, prefixed(prefix, err)
+	}
+	m, err := x.ToMolality(v, u)
+	if err != nil {
+		return nil, 0, 0, prefixed(prefix, err)
+	}
+	return x, m, u, nil
 }
 
 // Fluid is the side's bulk solution as the Sherwood correlations see it,
@@ -133,12 +157,13 @@ func ResolveFlux(req *FluxSpec) (*Flux, error) {
 	if err != nil {
 		return nil, err
 	}
-	feedSpec := req.Feed
-	if feedSpec == nil {
-		zero := 0.0
-		feedSpec = &Concentration{Solute: draw.Solute.ID, Concentration: &zero, Unit: "mol/L"}
+	var feed *Side
+	if req.Feed == nil {
+		// Deionised water: the draw's own solution at zero concentration.
+		feed, err = sideAt("feed", draw.X, 0, thermo.MolPerL)
+	} else {
+		feed, err = PrepareSide("feed", req.Feed, tK)
 	}
-	feed, err := PrepareSide("feed", feedSpec, tK)
 	if err != nil {
 		return nil, err
 	}

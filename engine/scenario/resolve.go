@@ -37,9 +37,10 @@ type Spec struct {
 	// Channel sets k from a Sherwood correlation (default DefaultChannel).
 	Channel    *ChannelSpec `json:"channel,omitempty"`
 	ExternalCP *bool        `json:"external_cp,omitempty"` // default true
-	// Candidates: solute IDs or aliases; omitted → the whole library plus
-	// the custom solutes.
-	Candidates    []string       `json:"candidates,omitempty"`
+	// Candidates: solute IDs or aliases, or blends ({"id", "blend":
+	// [{"solute", "mole_fraction" | "mass_fraction"}, …]}); omitted → the
+	// whole library plus the custom solutes.
+	Candidates    []Candidate    `json:"candidates,omitempty"`
 	CustomSolutes []CustomSolute `json:"custom_solutes,omitempty"`
 	// Basis of comparison; omitted → 2 × the feed's π, or 28 bar for a
 	// solute-free feed.
@@ -74,6 +75,9 @@ type FeedSpec struct {
 	Unit          string    `json:"unit,omitempty"`
 	Ions          []IonSpec `json:"ions,omitempty"`
 	PH            *float64  `json:"ph,omitempty"`
+	// Mixture: the feed as parts each at its own concentration (instead
+	// of solute/concentration); its ions follow from the parts.
+	Mixture []MixturePart `json:"mixture,omitempty"`
 }
 
 // IonSpec is one ion of a custom feed.
@@ -283,13 +287,32 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 			return nil, nil, invalid("candidates", "at least one solute", "the candidate list is empty (omit it to screen the whole library)")
 		}
 		seen := map[*library.Solute]bool{}
-		for i, name := range req.Candidates {
+		blends := map[string]int{}
+		for i, c := range req.Candidates {
+			field := fmt.Sprintf("candidates[%d]", i)
+			if len(c.Blend) > 0 {
+				b, err := ResolveBlend(field, &c, customs)
+				if err != nil {
+					return nil, nil, err
+				}
+				k := library.Key(b.ID)
+				if j, dup := blends[k]; dup {
+					return nil, nil, invalid(field+".id", nil, "blend %q is named twice (candidates %d and %d)", b.ID, j, i)
+				}
+				if _, clash := lib.Lookup(b.ID); clash || customs[k] != nil {
+					return nil, nil, invalid(field+".id", nil, "blend id %q is already a solute's name; choose another", b.ID)
+				}
+				blends[k] = i
+				sc.Candidates = append(sc.Candidates, b)
+				continue
+			}
+			name := c.ID
 			s, ok := customs[library.Key(name)]
 			if !ok {
 				s, ok = lib.Lookup(name)
 			}
 			if !ok {
-				return nil, nil, invalid(fmt.Sprintf("candidates[%d]", i), nil, "unknown solute %q; known: %s", name, strings.Join(lib.IDs(), ", "))
+				return nil, nil, invalid(field, nil, "unknown solute %q; known: %s", name, strings.Join(lib.IDs(), ", "))
 			}
 			if !seen[s] {
 				seen[s] = true
@@ -402,8 +425,8 @@ func resolveFeed(fs *FeedSpec, tK float64) (screen.Feed, *library.Feed, error) {
 			}
 			return f, nil, invalid("feed.preset", ids, "unknown feed preset %q", fs.Preset)
 		}
-		if fs.Solute != "" || fs.Ions != nil {
-			return f, nil, invalid("feed.solute", nil, "give either a feed preset or a custom feed (solute, ions), not both")
+		if fs.Solute != "" || fs.Ions != nil || fs.Mixture != nil {
+			return f, nil, invalid("feed.solute", nil, "give either a feed preset or a custom feed (solute, ions or mixture), not both")
 		}
 		rec = r
 		f.ID, f.PH = r.ID, r.PH
@@ -446,9 +469,24 @@ func resolveFeed(fs *FeedSpec, tK float64) (screen.Feed, *library.Feed, error) {
 			salinity = f.Concentration
 		}
 		f.Ions = r.IonsAt(salinity)
+	} else if fs.Mixture != nil {
+		if fs.Solute != "" || fs.Concentration != nil || fs.Ions != nil {
+			return f, nil, invalid("feed.mixture", nil, "give either a mixture or a solute (with its ions), not both")
+		}
+		x, m, _, err := ResolveMixture("feed", fs.Mixture, tK)
+		if err != nil {
+			return f, nil, err
+		}
+		s := x.Solute
+		f.Solute, f.Concentration, f.Unit = s, m, thermo.MolPerKg
+		f.OsmoticMethod = fmt.Sprintf("mixture %s at %.4g mol/kg (%s)", s.ID, m, x.MixturePath())
+		c := x.MolarityMolPerM3(m) / 1000
+		for _, ion := range s.IonShares() {
+			f.Ions = append(f.Ions, library.IonAmount{Symbol: ion.Symbol, Charge: ion.Charge, Mol: c * ion.PerUnit})
+		}
 	} else {
 		if fs.Solute == "" {
-			return f, nil, invalid("feed", nil, "a feed needs a preset or a solute (e.g. {\"solute\": \"seawater\", \"concentration\": 35, \"unit\": \"g/kg\"})")
+			return f, nil, invalid("feed", nil, "a feed needs a preset, a solute (e.g. {\"solute\": \"seawater\", \"concentration\": 35, \"unit\": \"g/kg\"}) or a mixture")
 		}
 		s, err := LookupSolute("feed.solute", fs.Solute)
 		if err != nil {
@@ -478,15 +516,15 @@ func resolveFeed(fs *FeedSpec, tK float64) (screen.Feed, *library.Feed, error) {
 			if err != nil {
 				return f, nil, prefixed("feed", err)
 			}
-			if s.Osmotic.Kind == library.ModelSeawater {
-				if r, ok := library.LookupFeed("seawater"); ok && r.ReferenceSalinityGPerKg > 0 {
+			if s.Osmotic.CompositionFeed != "" && s.Osmotic.Kind == library.ModelMixture {
+				if r, ok := library.LookupFeed(s.Osmotic.CompositionFeed); ok && r.ReferenceSalinityGPerKg > 0 {
 					f.IonsPerKg = true
 					f.Ions = r.IonsAt(x.FromMolality(mm, thermo.GPerKg))
 				}
 			} else {
 				c := x.MolarityMolPerM3(mm) / 1000
-				for _, ion := range s.Ions {
-					f.Ions = append(f.Ions, library.IonAmount{Symbol: ion.Symbol, Charge: ion.Charge, Mol: c * float64(ion.Count)})
+				for _, ion := range s.IonShares() {
+					f.Ions = append(f.Ions, library.IonAmount{Symbol: ion.Symbol, Charge: ion.Charge, Mol: c * ion.PerUnit})
 				}
 			}
 		}

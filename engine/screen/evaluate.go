@@ -294,13 +294,16 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 			c.warnings = append(c.warnings, warn.New(warn.BEstimated, s.ID, "%s: B estimated from the membrane's NaCl value by diffusivity (%.3g LMH): %s",
 				s.ID, c.bMPerS/thermo.MPerSPerLMH, "likely pessimistic for multivalent ions and sugars; enter a measured B where known"))
 		}
+		if s.IsBlend() {
+			c.warnings = append(c.warnings, warn.New(warn.ModelNote, s.ID, "%s: a blend is transported as one solute at its fixed ratio (its parts share one concentration profile; B and D are the parts' mass- and osmotically weighted values)", s.ID))
+		}
 		if p := s.Price; p != nil {
 			c.hasPrice, c.priceMin, c.priceMax = true, p.USDPerKgMin, p.USDPerKgMax
 		} else {
 			c.warnings = append(c.warnings, warn.New(warn.NoPrice, s.ID, "%s: no price on record; scored as the worst on replenishment cost", s.ID))
 		}
-		for _, ion := range s.Ions {
-			c.ions = append(c.ions, ionCount{ion.Symbol, ion.Charge, float64(ion.Count)})
+		for _, ion := range s.IonShares() {
+			c.ions = append(c.ions, ionCount{ion.Symbol, ion.Charge, ion.PerUnit})
 		}
 		if h := hazardHit(s, sc.ExcludeHazards); h != "" {
 			c.excl = &exclusion{ReasonHazard, fmt.Sprintf("%s carries the hazard flag %q", s.ID, h)}

@@ -69,6 +69,8 @@ func (x *Solution) mPhi(m float64) (g, dg float64) {
 			2*s*(7.0132355546e-6+5.6960486681e-8*t-2.8624032584e-10*t*t)
 		dsdm := 1000 * x.mKg / ((1 + m*x.mKg) * (1 + m*x.mKg))
 		return m * phi, phi + m*dphids*dsdm
+	case library.ModelMixture:
+		return x.mixPhi(m)
 	case library.ModelTable:
 		// g such that π = piPerG·ν·g reproduces the table.
 		mm := math.Min(m, x.tabMax)

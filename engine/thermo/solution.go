@@ -57,6 +57,8 @@ type Solution struct {
 	// Warnings that hold for every concentration at this temperature.
 	Warnings []warn.Warning
 
+	mix *mixModel // ModelMixture: the mixed-electrolyte model
+
 	fastState // the table behind FastOsmoticFunc, built on first use
 }
 
@@ -76,7 +78,7 @@ func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 	rhoW := water.Density(tK)
 	x.muW = water.Viscosity(tK)
 	x.dens = newDensity(s, rhoW, tC)
-	if s.Density == nil && x.kind != library.ModelSeawater {
+	if s.Density == nil && x.kind != library.ModelSeawater && x.kind != library.ModelMixture {
 		x.warn(warn.ModelNote, "%s: no density model; the solute is taken to occupy the volume of an equal mass of water, so mol/L and g/L conversions are approximate", s.ID)
 	} else if d := s.Density; d != nil && (tC < d.MinC || tC > d.MaxC) {
 		x.warn(warn.Extrapolated, "%s: density model fitted %g–%g °C; extrapolated to %g °C", s.ID, d.MinC, d.MaxC, tC)
@@ -105,6 +107,11 @@ func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 		if err := x.prepareTable(); err != nil {
 			return nil, err
 		}
+	case library.ModelMixture:
+		if err := x.prepareMixture(); err != nil {
+			return nil, err
+		}
+		x.dens = x.mixDensity(rhoW, tC)
 	case library.ModelNone:
 		x.warn(warn.NoModel, "%s: %s; osmotic pressure is the van 't Hoff estimate only", s.ID, m.Reason)
 		x.validMolal = math.Inf(1)
@@ -115,6 +122,11 @@ func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 	}
 	x.prepareViscosity()
 	x.solMolal = x.solubilityAt(tC)
+	if x.mix != nil && len(x.mix.parts) == 0 {
+		// An ion composition (seawater): the mixed-electrolyte model holds
+		// up to the solid's saturation.
+		x.validMolal = x.solMolal
+	}
 	x.prepareCap()
 	x.topMolal = x.solMolal
 	if math.IsInf(x.topMolal, 0) {
@@ -171,6 +183,9 @@ func (x *Solution) prepareTable() error {
 // solubilityAt interpolates the saturation molality linearly in
 // temperature; outside the tabulated range it holds the end value and warns.
 func (x *Solution) solubilityAt(tC float64) float64 {
+	if x.mix != nil && len(x.mix.parts) > 0 {
+		return x.mixSolubility(tC)
+	}
 	sol := x.Solute.Solubility
 	if sol.Miscible || len(sol.Points) == 0 {
 		return math.Inf(1)

@@ -16,7 +16,7 @@ import (
 func (x *Solution) prepareViscosity() {
 	v := x.Solute.Viscosity
 	if v == nil {
-		if x.kind != library.ModelSeawater {
+		if x.kind != library.ModelSeawater && x.kind != library.ModelMixture {
 			x.warn(warn.ModelNote, "%s: no viscosity model; pure-water viscosity is reported", x.Solute.ID)
 		}
 		return
@@ -53,6 +53,9 @@ func (x *Solution) prepareViscosity() {
 // a model it returns the pure-water value (flagged by NewSolution).
 func (x *Solution) ViscosityPaS(m float64) float64 {
 	w := x.massFractionFromMolality(m)
+	if x.kind == library.ModelMixture {
+		return x.mixViscosity(w)
+	}
 	if x.kind == library.ModelSeawater {
 		return x.muW * seawaterRelViscosity(w, x.tC)
 	}
@@ -99,6 +102,9 @@ func (x *Solution) ViscosityPaS(m float64) float64 {
 // (the usual scaling, e.g. Miller et al. 1994 observed D(35 °C)/D(25 °C)
 // close to water's fluidity ratio).
 func (x *Solution) DiffusivityM2PerS(m float64) float64 {
+	if d, ok := x.mixDiffusivity(m); ok {
+		return d
+	}
 	d := x.Solute.Diffusivity
 	d25 := d.D0M2PerS
 	if len(d.Points) > 0 {

@@ -1,0 +1,464 @@
+package thermo
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"drawsift/engine/errs"
+	"drawsift/engine/internal/roots"
+	"drawsift/engine/library"
+	"drawsift/engine/warn"
+)
+
+// Paths of a mixture Solution's osmotic model (MixturePath).
+const (
+	// PathPitzerMixture: the Harvie–Møller–Weare mixed-electrolyte model
+	// over the solution's ions (Mixture).
+	PathPitzerMixture = "pitzer-mixture"
+	// PathZSR: the Zdanovskii–Stokes–Robinson rule over the parts' own
+	// binary models, used where the mixed-electrolyte model lacks data.
+	PathZSR = "zsr"
+)
+
+// maxStackIons bounds the ion count for which mixture evaluations keep
+// their scratch on the stack (larger mixtures allocate).
+const maxStackIons = 24
+
+// mixModel is the mixed-electrolyte part of a Solution of kind
+// library.ModelMixture: a blend of library solutes at a fixed mole ratio,
+// or seawater by its Reference Composition. The solution's molality m is
+// that of its formula unit; ion i is at per[i]·m.
+type mixModel struct {
+	path string
+	mx   *Mixture  // over the solution's ions, both paths (γ, saturation)
+	per  []float64 // ion molality per unit molality, in mx.Ions() order
+	sPer float64   // Σ per: particles per formula unit
+	// Parts of a blend (nil for seawater), their mole fractions and
+	// their own prepared binary Solutions (ZSR, transport properties).
+	parts []*Solution
+	x     []float64
+}
+
+// MixturePath reports which model computes a mixture Solution's osmotic
+// properties (PathPitzerMixture or PathZSR), or "" for a single solute.
+func (x *Solution) MixturePath() string {
+	if x.mix == nil {
+		return ""
+	}
+	return x.mix.path
+}
+
+// Parts returns a blend's prepared parts and their mole fractions (nil
+// for a single solute or seawater).
+func (x *Solution) Parts() ([]*Solution, []float64) {
+	if x.mix == nil {
+		return nil, nil
+	}
+	return x.mix.parts, x.mix.x
+}
+
+// prepareMixture builds the mixture model of x (kind ModelMixture) at
+// x.TK: the parts' own Solutions, the ion model, the path, the data limit
+// and the solubility limit.
+//
+// Path: the mixed-electrolyte model when every part is a Pitzer salt (or
+// the record is an ion composition such as seawater) and every pair of
+// like-charged ions has tabulated mixing parameters; otherwise the
+// Zdanovskii–Stokes–Robinson rule (Stokes & Robinson 1966, J. Phys. Chem.
+// 70:2126), which needs only each part's binary model, flagged.
+//
+// Data limit: a blend is within its data while every part's own molality
+// x_k·m stays within its binary data and the ionic strength within the
+// largest of the parts' binary data (for ZSR: while every part's binary
+// molality at the solution's water activity stays within its data).
+// Solubility: every part within its own binary solubility, x_k·m ≤
+// m_sat,k (the common-ion effect can lower the real limit; the mineral
+// saturation indices report it where the minerals are known). Seawater:
+// the record's solubility (halite).
+func (x *Solution) prepareMixture() error {
+	s := x.Solute
+	mm := &mixModel{}
+	x.mix = mm
+	shares := s.IonShares()
+	ions := make([]MixIon, 0, len(shares))
+	for _, sh := range shares {
+		ions = append(ions, MixIon{Symbol: sh.Symbol, Charge: sh.Charge})
+		mm.per = append(mm.per, sh.PerUnit)
+		mm.sPer += sh.PerUnit
+	}
+	for _, c := range s.Components {
+		p, err := NewSolution(c.Solute, x.TK)
+		if err != nil {
+			return err
+		}
+		mm.parts = append(mm.parts, p)
+		mm.x = append(mm.x, c.MoleFraction)
+	}
+	electrolytes := len(ions) > 0
+	allPitzer := electrolytes
+	for _, p := range mm.parts {
+		if p.kind != library.ModelPitzer {
+			allPitzer = false
+		}
+		if len(p.Solute.Ions) == 0 {
+			electrolytes = false
+		}
+	}
+	if len(ions) > 0 {
+		mx, err := NewIonMixture(ions, x.TK)
+		if err != nil {
+			return err
+		}
+		// Reorder per to the mixture's ion order.
+		per, err := ionVector(mx, shares)
+		if err != nil {
+			return err
+		}
+		mm.per = per
+		mm.mx = mx
+	}
+	if !electrolytes && len(mm.parts) == 0 {
+		return errs.InvalidText("mixture", s.ID, nil, "a mixture needs ions or parts")
+	}
+	missing := []string(nil)
+	if mm.mx != nil {
+		missing = mm.mx.MissingMixing()
+	}
+	switch {
+	case len(mm.parts) == 0: // an ion composition (seawater)
+		mm.path = PathPitzerMixture
+		x.Warnings = append(x.Warnings, mm.mx.Warnings...)
+		if len(missing) > 0 {
+			x.warn(warn.ModelNote, "%s: no like-ion mixing parameters for %s; only the unsymmetrical-mixing terms are included", s.ID, strings.Join(missing, ", "))
+		}
+	case allPitzer && len(missing) == 0:
+		mm.path = PathPitzerMixture
+		x.Warnings = append(x.Warnings, mm.mx.Warnings...)
+	default:
+		mm.path = PathZSR
+		why := "a part is not a Pitzer salt"
+		if allPitzer {
+			why = "no like-ion mixing parameters for " + strings.Join(missing, ", ")
+		}
+		x.warn(warn.ModelNote, "%s: osmotic pressure from the Zdanovskii–Stokes–Robinson rule over the parts' binary models (Stokes & Robinson 1966), since %s", s.ID, why)
+	}
+	for _, p := range mm.parts {
+		x.Warnings = append(x.Warnings, p.Warnings...)
+	}
+	if len(mm.parts) == 0 {
+		x.validMolal = math.Inf(1)
+		if v := s.Osmotic.MaxMolalityMolPerKg; v > 0 {
+			x.validMolal = v
+		}
+		return nil
+	}
+	// Data limit (see the doc comment).
+	valid := math.Inf(1)
+	iMax := 0.0
+	for k, p := range mm.parts {
+		valid = math.Min(valid, p.validMolal/mm.x[k])
+		iMax = math.Max(iMax, ionicStrengthPerMolal(p.Solute)*p.validMolal)
+	}
+	if mm.path == PathPitzerMixture {
+		if iPer := mm.mx.IonicStrength(mm.per); iPer > 0 {
+			valid = math.Min(valid, iMax/iPer)
+		}
+	} else {
+		valid = math.Min(valid, mm.zsrValidMolal())
+	}
+	x.validMolal = valid
+	return nil
+}
+
+// ionicStrengthPerMolal returns ½ Σ ν_i z_i² of a salt: its ionic strength
+// at 1 mol/kg.
+func ionicStrengthPerMolal(s *library.Solute) float64 {
+	v := 0.0
+	for _, ion := range s.IonShares() {
+		v += 0.5 * ion.PerUnit * float64(ion.Charge*ion.Charge)
+	}
+	return v
+}
+
+// mixSolubility returns min_k m_sat,k / x_k for a blend (see
+// prepareMixture), or the record's own solubility.
+func (x *Solution) mixSolubility(tC float64) float64 {
+	mm := x.mix
+	if len(mm.parts) == 0 {
+		return math.NaN() // caller uses the record's points
+	}
+	sol := math.Inf(1)
+	for k, p := range mm.parts {
+		sol = math.Min(sol, p.solMolal/mm.x[k])
+	}
+	return sol
+}
+
+// mixPhi returns g = m·(Σper/ν)·φ and dg/dm for the mixture (ν·g is the
+// total osmolality, Σ mᵢ φ). The Pitzer path evaluates the mixture at
+// the ion molalities; dg/dm is the five-point central difference along
+// the composition ray (step 10⁻³·m; truncation and rounding both near
+// 10⁻¹² relative). ZSR: see zsrOsmolality.
+func (x *Solution) mixPhi(m float64) (g, dg float64) {
+	mm := x.mix
+	if mm.path == PathZSR {
+		om, dom := mm.zsrOsmolality(m)
+		return om / x.nu, dom / x.nu
+	}
+	f := func(t float64) float64 { return t * mm.sPer * mm.phiAt(t) }
+	om := f(m)
+	h := 1e-3 * m
+	dom := (f(m-2*h) - 8*f(m-h) + 8*f(m+h) - f(m+2*h)) / (12 * h)
+	return om / x.nu, dom / x.nu
+}
+
+// phiAt evaluates the mixture's φ at total molality m (Pitzer path).
+func (mm *mixModel) phiAt(m float64) float64 {
+	var buf [maxStackIons]float64
+	var ion []float64
+	if len(mm.per) <= maxStackIons {
+		ion = buf[:len(mm.per)]
+	} else {
+		ion = make([]float64, len(mm.per))
+	}
+	for i, p := range mm.per {
+		ion[i] = p * m
+	}
+	return mm.mx.Eval(ion, nil)
+}
+
+// zsrOsmolality returns the total osmolality Ω = −ln a_w / M_w of a blend
+// at molality m by the Zdanovskii–Stokes–Robinson rule
+//
+//	Σ_k m_k / m°_k(a_w) = 1,   m_k = x_k m
+//
+// with m°_k(a_w) the molality of part k alone at the same water activity
+// (Stokes & Robinson 1966, J. Phys. Chem. 70:2126, eq. 1), and dΩ/dm by
+// implicit differentiation:
+//
+//	dΩ/dm = (Σ x_k/m°_k) / (Σ x_k m /(m°_k² · dΩ_k/dm°_k))
+//
+// Ω lies between the smallest and largest of the parts' Ω_k(m) (each
+// Ω_k increasing), which brackets the root.
+func (mm *mixModel) zsrOsmolality(m float64) (om, dom float64) {
+	if m <= 0 {
+		return 0, mm.zsrDilute()
+	}
+	lo, hi := math.Inf(1), 0.0
+	for _, p := range mm.parts {
+		o, _ := p.osmolalityMono(m)
+		lo, hi = math.Min(lo, o), math.Max(hi, o)
+	}
+	resid := func(o float64) float64 {
+		sum := 0.0
+		for k, p := range mm.parts {
+			sum += mm.x[k] * m / p.molalityForOsmolality(o)
+		}
+		return sum - 1
+	}
+	if hi-lo <= 1e-14*hi {
+		om = hi
+	} else {
+		r, err := roots.Brent(resid,
+			roots.Bracket{Lo: lo, Hi: hi, FLo: resid(lo), FHi: resid(hi)},
+			&roots.Settings{Solver: "Zdanovskii–Stokes–Robinson water activity", XRelTol: 1e-14, FAbsTol: 1e-15})
+		om = r.X
+		if err != nil && !(om > 0) {
+			om = 0.5 * (lo + hi)
+		}
+	}
+	var num, den float64
+	for k, p := range mm.parts {
+		m0 := p.molalityForOsmolality(om)
+		_, d0 := p.osmolalityMono(m0)
+		num += mm.x[k] / m0
+		den += mm.x[k] * m / (m0 * m0 * d0)
+	}
+	return om, num / den
+}
+
+// zsrDilute returns dΩ/dm at m → 0: Σ x_k ν_k (ideal dilute limit).
+func (mm *mixModel) zsrDilute() float64 {
+	d := 0.0
+	for k, p := range mm.parts {
+		d += mm.x[k] * p.nu
+	}
+	return d
+}
+
+// zsrValidMolal returns the blend molality at which the ZSR solution's
+// water activity reaches the first part's data limit (each part's binary
+// molality at that water activity equals its data limit).
+func (mm *mixModel) zsrValidMolal() float64 {
+	lim := math.Inf(1)
+	for _, p := range mm.parts {
+		if !math.IsInf(p.validMolal, 0) {
+			o, _ := p.osmolalityMono(p.validMolal)
+			lim = math.Min(lim, o)
+		}
+	}
+	if math.IsInf(lim, 0) {
+		return lim
+	}
+	// Ω(m) increases; bracket [0, hi] with hi doubling.
+	hi := 1.0
+	for k := 0; k < 60; k++ {
+		if o, _ := mm.zsrOsmolality(hi); o >= lim {
+			break
+		}
+		hi *= 2
+	}
+	f := func(m float64) (float64, float64) {
+		o, d := mm.zsrOsmolality(m)
+		return o - lim, d
+	}
+	fhi, _ := f(hi)
+	r, err := roots.Newton(f, roots.Bracket{Lo: 0, Hi: hi, FLo: -lim, FHi: fhi}, hi/2,
+		&roots.Settings{Solver: "ZSR data limit", XRelTol: 1e-12, FAbsTol: 1e-12 * lim})
+	if err != nil && !(r.X > 0) {
+		return hi
+	}
+	return r.X
+}
+
+// osmolalityMono returns a single solute's total osmolality Ω = ν·m·φ
+// and dΩ/dm at any m ≥ 0: the model inside the working range, the
+// monotone π extension beyond (π = piPerG·Ω).
+func (x *Solution) osmolalityMono(m float64) (om, dom float64) {
+	pi, dp := x.piMono(m)
+	return pi / x.piPerG, dp / x.piPerG
+}
+
+// molalityForOsmolality inverts osmolalityMono (safeguarded Newton in a
+// doubling bracket); used by the ZSR rule.
+func (x *Solution) molalityForOsmolality(om float64) float64 {
+	if om <= 0 {
+		return 0
+	}
+	hi := om / x.nu * 2
+	for k := 0; k < 80; k++ {
+		if o, _ := x.osmolalityMono(hi); o >= om {
+			break
+		}
+		hi *= 2
+	}
+	f := func(m float64) (float64, float64) {
+		o, d := x.osmolalityMono(m)
+		return o - om, d
+	}
+	fhi, _ := f(hi)
+	r, _ := roots.Newton(f, roots.Bracket{Lo: 0, Hi: hi, FLo: -om, FHi: fhi}, math.Min(om/x.nu, hi),
+		&roots.Settings{Solver: "binary molality at a water activity", XRelTol: 1e-15, FAbsTol: 1e-14 * om, Scale: om})
+	return r.X
+}
+
+// ionVector places the ions per formula unit in the mixture's order.
+func ionVector(mx *Mixture, shares []library.IonShare) ([]float64, error) {
+	per := make([]float64, len(mx.Ions()))
+	for _, sh := range shares {
+		i, ok := mx.Index(sh.Symbol)
+		if !ok {
+			return nil, fmt.Errorf("thermo: ion %s missing from its mixture model", sh.Symbol)
+		}
+		per[i] += sh.PerUnit
+	}
+	return per, nil
+}
+
+// IonState is one ion of a solution at a concentration.
+type IonState struct {
+	Symbol           string
+	Charge           int
+	MolalityMolPerKg float64
+	// LnGamma is the ion's ln γ on the mixed-electrolyte model's scale
+	// (the MacInnes convention is not applied: single-ion values are
+	// those of the Pitzer equations); valid when HasGamma.
+	LnGamma  float64
+	HasGamma bool
+}
+
+// IonicState is a solution's ion-level description at one molality: its
+// ions, ionic strength and mineral saturation indices.
+type IonicState struct {
+	Ions                  []IonState
+	IonicStrengthMolPerKg float64
+	Saturation            []Saturation
+	Warnings              []warn.Warning
+}
+
+// IonsAt returns the ion-level state of the solution at molality m: every
+// ion's molality and, from the mixed-electrolyte model, its activity
+// coefficient, the ionic strength and the saturation indices of the
+// minerals whose ions are present. For a single Pitzer salt the
+// mixed-electrolyte model over its two ions reduces to the salt's own
+// equations (TestMixtureSingleSaltLimit). A non-electrolyte has no ions.
+// Saturation indices of a ZSR blend use the mixed-electrolyte model's
+// activities (flagged).
+func (x *Solution) IonsAt(m float64) (IonicState, error) {
+	var st IonicState
+	shares := x.Solute.IonShares()
+	if len(shares) == 0 {
+		return st, nil
+	}
+	mx, per := (*Mixture)(nil), []float64(nil)
+	if x.mix != nil {
+		mx, per = x.mix.mx, x.mix.per
+	} else {
+		ions := make([]MixIon, len(shares))
+		for k, sh := range shares {
+			ions[k] = MixIon{Symbol: sh.Symbol, Charge: sh.Charge}
+		}
+		var err error
+		if mx, err = NewIonMixture(ions, x.TK); err != nil {
+			return st, err
+		}
+		if per, err = ionVector(mx, shares); err != nil {
+			return st, err
+		}
+	}
+	mi := make([]float64, len(per))
+	for i, p := range per {
+		mi[i] = p * m
+	}
+	lng := make([]float64, len(per))
+	mx.Eval(mi, lng)
+	gammaOK := x.kind == library.ModelPitzer || x.mix != nil
+	for i, ion := range mx.Ions() {
+		st.Ions = append(st.Ions, IonState{Symbol: ion.Symbol, Charge: ion.Charge, MolalityMolPerKg: mi[i],
+			LnGamma: lng[i], HasGamma: gammaOK && !math.IsNaN(lng[i]) && !math.IsInf(lng[i], 0)})
+	}
+	st.IonicStrengthMolPerKg = mx.IonicStrength(mi)
+	st.Saturation = mx.SaturationIndices(mi)
+	if x.mix != nil && x.mix.path == PathZSR && len(st.Saturation) > 0 {
+		st.Warnings = append(st.Warnings, warn.New(warn.ModelNote, x.Solute.ID,
+			"%s: saturation indices use the mixed-electrolyte model's activities, though the osmotic pressure comes from the ZSR rule", x.Solute.ID))
+	}
+	if x.kind != library.ModelPitzer && x.mix == nil {
+		st.Warnings = append(st.Warnings, warn.New(warn.ModelNote, x.Solute.ID,
+			"%s: ion activity coefficients are not reported, the solute's osmotic model is not a Pitzer one", x.Solute.ID))
+	}
+	return st, nil
+}
+
+// mixDiffusivity returns a blend's effective diffusivity at molality m:
+// the osmotically weighted harmonic mean of its parts' own diffusivities
+// (each at its own molality x_k·m),
+//
+//	1/D = Σ_k (x_k ν_k / ν) / D_k
+//
+// which matches the blend's internal-polarisation factor Σ (x_kν_k/ν)·
+// exp(−Jw·S/D_k) to first order in Jw·S/D (derived here; the parts share
+// one concentration profile in the transport model). Seawater: the
+// record's value.
+func (x *Solution) mixDiffusivity(m float64) (float64, bool) {
+	mm := x.mix
+	if mm == nil || len(mm.parts) == 0 {
+		return 0, false
+	}
+	inv := 0.0
+	for k, p := range mm.parts {
+		inv += mm.x[k] * p.nu / x.nu / p.DiffusivityM2PerS(mm.x[k]*m)
+	}
+	return 1 / inv, true
+}
