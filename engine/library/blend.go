@@ -203,3 +203,45 @@ func (s *Solute) setComposition(f *Feed) error {
 	}
 	return nil
 }
+
+// NewComposition builds a mixture record from a water's ion list (each
+// ion's concentration in mg per unit of water, any unit, since only the
+// proportions matter): one formula unit is one mole of dissolved
+// particles, its molar mass Σ mass / Σ mol. Its osmotic pressure comes
+// from the mixed-electrolyte model over those ions; no solid limits it
+// (the saturation indices report each mineral), so it is recorded as
+// miscible.
+func NewComposition(id, name string, ions []FeedIon) (*Solute, error) {
+	var mass, mol float64
+	for _, ion := range ions {
+		if !(ion.MolarMassGPerMol > 0) || !(ion.Concentration >= 0) || math.IsInf(ion.Concentration, 0) {
+			return nil, fmt.Errorf("ion %q needs a positive molar mass and a finite concentration ≥ 0", ion.Symbol)
+		}
+		mass += ion.Concentration
+		mol += ion.Concentration / ion.MolarMassGPerMol
+	}
+	if !(mol > 0) {
+		return nil, fmt.Errorf("the ion list holds no ions")
+	}
+	s := &Solute{ID: id, Name: name, Family: "water", Formula: "ion mixture", MolarMassGPerMol: mass / mol,
+		Osmotic:    OsmoticModel{Kind: ModelMixture, VantHoffNu: 1},
+		Solubility: Solubility{Miscible: true},
+		Sources:    map[string]string{"osmotic_model": "mixed-electrolyte model over the water's ion list"}}
+	for _, ion := range ions {
+		if ion.Concentration > 0 {
+			s.composition = append(s.composition, IonShare{Symbol: ion.Symbol, Charge: ion.Charge,
+				PerUnit: ion.Concentration / ion.MolarMassGPerMol / mol})
+		}
+	}
+	return s, nil
+}
+
+// TotalMmol returns a feed's total ion amount, Σ c_i/M_i, in mmol per
+// unit of feed (per litre for mg/L ions, per kg for mg/kg).
+func (f *Feed) TotalMmol() float64 {
+	sum := 0.0
+	for _, ion := range f.Ions {
+		sum += ion.Concentration / ion.MolarMassGPerMol
+	}
+	return sum
+}

@@ -28,6 +28,7 @@ const (
 	FeedOsmoticNone           = "none"            // pure water
 	FeedOsmoticSolute         = "solute"          // a library solute at a concentration
 	FeedOsmoticEquivalentNaCl = "equivalent-nacl" // NaCl at half the total ion molarity
+	FeedOsmoticIons           = "ions"            // the mixed-electrolyte model over the feed's ions
 )
 
 // FeedOsmotic says how the feed's osmotic pressure is computed.
@@ -121,6 +122,10 @@ func (f *Feed) Validate() error {
 	}
 	switch f.Osmotic.Method {
 	case FeedOsmoticNone, FeedOsmoticEquivalentNaCl:
+	case FeedOsmoticIons:
+		if len(f.Ions) == 0 {
+			return bad("osmotic", "method ions needs ions")
+		}
 	case FeedOsmoticSolute:
 		if f.Osmotic.Solute == "" || f.Osmotic.Unit == "" || !(f.Osmotic.Concentration >= 0) {
 			return bad("osmotic", "method solute needs solute, concentration and unit")

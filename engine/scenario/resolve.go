@@ -408,6 +408,66 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 	return sc, info, nil
 }
 
+// MaxChargeImbalance is the largest ion-balance error accepted in a feed's
+// ion list, |Σ cation eq − Σ anion eq| / (Σ cation eq + Σ anion eq):
+// common practice for water analyses (an analysis outside ±5 % is
+// usually rechecked; e.g. the acceptance criteria of APHA Standard
+// Methods 1030E, from memory).
+const MaxChargeImbalance = 0.05
+
+// customIons checks a custom feed's ions: symbol, charge, molar mass and
+// concentration within their ranges, each symbol once, and the list
+// electroneutral within MaxChargeImbalance.
+func customIons(specs []IonSpec) ([]library.FeedIon, error) {
+	out := make([]library.FeedIon, 0, len(specs))
+	seen := map[string]int{}
+	for i, ion := range specs {
+		field := fmt.Sprintf("feed.ions[%d]", i)
+		if ion.Symbol == "" || ion.Charge == 0 || !limits.FeedIonMolarMass.Contains(ion.MolarMassGPerMol) || !limits.FeedIonMgPerL.Contains(ion.MgPerL) {
+			return nil, invalid(field, nil, "an ion needs a symbol, a non-zero charge, molar_mass_g_per_mol %s and mg_per_l %s",
+				limits.FeedIonMolarMass.Text(), limits.FeedIonMgPerL.Text())
+		}
+		if z, ok := thermo.KnownIonCharge(ion.Symbol); !ok {
+			return nil, errs.InvalidText(field+".symbol", ion.Symbol, thermo.KnownIonSymbols(), "unknown ion %q: the mixed-electrolyte model has no data for it", ion.Symbol)
+		} else if z != ion.Charge {
+			return nil, errs.Invalid(field+".charge", float64(ion.Charge), fmt.Sprint(z), "%s has charge %d, not %d", ion.Symbol, z, ion.Charge)
+		}
+		if j, dup := seen[ion.Symbol]; dup {
+			return nil, invalid(field+".symbol", nil, "ion %s is listed twice (ions %d and %d)", ion.Symbol, j, i)
+		}
+		seen[ion.Symbol] = i
+		out = append(out, library.FeedIon{Symbol: ion.Symbol, Charge: ion.Charge, MolarMassGPerMol: ion.MolarMassGPerMol, Concentration: ion.MgPerL})
+	}
+	rec := library.Feed{Ions: out}
+	if imb := rec.ChargeImbalance(); math.Abs(imb) > MaxChargeImbalance {
+		return nil, errs.Invalid("feed.ions", imb, fmt.Sprintf("±%g (charge imbalance)", MaxChargeImbalance),
+			"the ions are not electroneutral: charge imbalance %+.1f %% (cation minus anion equivalents over their sum); at most ±%g %% is accepted", 100*imb, 100*MaxChargeImbalance)
+	}
+	return out, nil
+}
+
+// ionFeed sets f's osmotic pressure from its ion list (mg per litre, or
+// per kg when perKg): the ions as one mixture record at their total
+// amount, and the ions themselves for the scaling check.
+func ionFeed(f *screen.Feed, id, name string, ions []library.FeedIon, perKg bool) error {
+	s, err := library.NewComposition(id, name, ions)
+	if err != nil {
+		return invalid("feed.ions", nil, "%v", err)
+	}
+	rec := library.Feed{Ions: ions}
+	f.Solute, f.Concentration = s, rec.TotalMmol()/1000
+	f.Unit = thermo.MolPerL
+	if perKg {
+		// mol per kg of feed: the mass fraction of the ions converts it.
+		f.Unit = thermo.GPerKg
+		f.Concentration = rec.TotalMmol() / 1000 * s.MolarMassGPerMol
+	}
+	f.IonsPerKg = perKg
+	f.Ions = rec.IonsAt(-1)
+	f.OsmoticMethod = fmt.Sprintf("the mixed-electrolyte model over the feed's %d ions (%.4g mmol of ions per %s)", len(ions), rec.TotalMmol(), map[bool]string{false: "litre", true: "kg"}[perKg])
+	return nil
+}
+
 // resolveFeed reads the feed: a preset, or a solute with optional ions.
 func resolveFeed(fs *FeedSpec, tK float64) (screen.Feed, *library.Feed, error) {
 	if fs == nil {
@@ -452,6 +512,13 @@ func resolveFeed(fs *FeedSpec, tK float64) (screen.Feed, *library.Feed, error) {
 				f.Concentration = v
 			}
 			f.OsmoticMethod = fmt.Sprintf("library solute %s at %g %s", s.ID, f.Concentration, u)
+		case library.FeedOsmoticIons:
+			if fs.Concentration != nil {
+				return f, nil, invalid("feed.concentration", nil, "preset %q sets its osmotic pressure from its ions; use a custom feed to change it", r.ID)
+			}
+			if err := ionFeed(&f, r.ID, r.Name, r.Ions, r.IonsPerKg()); err != nil {
+				return f, nil, err
+			}
 		case library.FeedOsmoticEquivalentNaCl:
 			s, err := LookupSolute("feed.preset", "NaCl")
 			if err != nil {
@@ -484,6 +551,18 @@ func resolveFeed(fs *FeedSpec, tK float64) (screen.Feed, *library.Feed, error) {
 		for _, ion := range s.IonShares() {
 			f.Ions = append(f.Ions, library.IonAmount{Symbol: ion.Symbol, Charge: ion.Charge, Mol: c * ion.PerUnit})
 		}
+	} else if fs.Solute == "" && len(fs.Ions) > 0 {
+		// A custom water given by its ions: π from the ions.
+		if fs.Concentration != nil {
+			return f, nil, invalid("feed.concentration", nil, "a feed given by its ions takes its concentration from them; leave concentration out")
+		}
+		ions, err := customIons(fs.Ions)
+		if err != nil {
+			return f, nil, err
+		}
+		if err := ionFeed(&f, "custom", "custom feed", ions, false); err != nil {
+			return f, nil, err
+		}
 	} else {
 		if fs.Solute == "" {
 			return f, nil, invalid("feed", nil, "a feed needs a preset, a solute (e.g. {\"solute\": \"seawater\", \"concentration\": 35, \"unit\": \"g/kg\"}) or a mixture")
@@ -498,12 +577,12 @@ func resolveFeed(fs *FeedSpec, tK float64) (screen.Feed, *library.Feed, error) {
 		}
 		f.Solute, f.Concentration, f.Unit = s, v, u
 		f.OsmoticMethod = fmt.Sprintf("library solute %s at %g %s", s.ID, v, u)
-		for i, ion := range fs.Ions {
-			if ion.Symbol == "" || ion.Charge == 0 || !limits.FeedIonMolarMass.Contains(ion.MolarMassGPerMol) || !limits.FeedIonMgPerL.Contains(ion.MgPerL) {
-				return f, nil, invalid(fmt.Sprintf("feed.ions[%d]", i), nil, "an ion needs a symbol, a non-zero charge, molar_mass_g_per_mol %s and mg_per_l %s",
-					limits.FeedIonMolarMass.Text(), limits.FeedIonMgPerL.Text())
-			}
-			f.Ions = append(f.Ions, library.IonAmount{Symbol: ion.Symbol, Charge: ion.Charge, Mol: ion.MgPerL / ion.MolarMassGPerMol / 1000})
+		ions, err := customIons(fs.Ions)
+		if err != nil {
+			return f, nil, err
+		}
+		for _, ion := range ions {
+			f.Ions = append(f.Ions, library.IonAmount{Symbol: ion.Symbol, Charge: ion.Charge, Mol: ion.Concentration / ion.MolarMassGPerMol / 1000})
 		}
 		if fs.Ions == nil && v > 0 {
 			// The solute's own ions at its molarity; seawater: the

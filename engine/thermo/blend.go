@@ -3,7 +3,9 @@ package thermo
 import (
 	"fmt"
 	"math"
+	"sort"
 	"strings"
+	"sync"
 
 	"drawsift/engine/errs"
 	"drawsift/engine/internal/roots"
@@ -461,4 +463,64 @@ func (x *Solution) mixDiffusivity(m float64) (float64, bool) {
 		inv += mm.x[k] * p.nu / x.nu / p.DiffusivityM2PerS(mm.x[k]*m)
 	}
 	return 1 / inv, true
+}
+
+// knownIons maps every ion symbol the mixed-electrolyte model has data
+// for (an ion of a library salt or of the mixing tables) to its charge.
+var knownIons = sync.OnceValue(func() map[string]int {
+	out := map[string]int{}
+	if lib, err := library.Default(); err == nil {
+		for _, s := range lib.All() {
+			for _, ion := range s.IonShares() {
+				out[ion.Symbol] = ion.Charge
+			}
+		}
+	}
+	for _, sym := range pairTableIons() {
+		if z, ok := chargeOfSymbol(sym); ok {
+			out[sym] = z
+		}
+	}
+	return out
+})
+
+// chargeOfSymbol reads the charge from an ion symbol's suffix: "Na+" → 1,
+// "Ca+2" → 2, "SO4-2" → −2, "Cl-" → −1.
+func chargeOfSymbol(sym string) (int, bool) {
+	i := strings.LastIndexAny(sym, "+-")
+	if i <= 0 {
+		return 0, false
+	}
+	sign := 1
+	if sym[i] == '-' {
+		sign = -1
+	}
+	if i == len(sym)-1 {
+		return sign, true
+	}
+	n := 0
+	for _, r := range sym[i+1:] {
+		if r < '0' || r > '9' {
+			return 0, false
+		}
+		n = 10*n + int(r-'0')
+	}
+	return sign * n, n > 0
+}
+
+// KnownIonCharge returns the charge of an ion the mixed-electrolyte model
+// knows, and whether it knows it.
+func KnownIonCharge(symbol string) (int, bool) {
+	z, ok := knownIons()[symbol]
+	return z, ok
+}
+
+// KnownIonSymbols lists the ions the mixed-electrolyte model knows, sorted.
+func KnownIonSymbols() []string {
+	out := make([]string, 0, len(knownIons()))
+	for s := range knownIons() {
+		out = append(out, s)
+	}
+	sort.Strings(out)
+	return out
 }

@@ -123,3 +123,14 @@ func (x *Solution) mixViscosity(w float64) float64 {
 	}
 	return x.muW
 }
+
+func pairTableIons() []string {
+	var out []string
+	for k := range mixTheta {
+		out = append(out, k[0], k[1])
+	}
+	for k := range mixPsi {
+		out = append(out, k[0], k[1], k[2])
+	}
+	return out
+}
