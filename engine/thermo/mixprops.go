@@ -23,9 +23,14 @@ import (
 //	ln η  = w_w ln η_w + Σ w_i ln η_i(w_s)       (solute viscosities at w_s)
 //
 // Each component's ρ_app,i and η_i are evaluated at the mixture's total
-// solute fraction 1 − w_w, not at its own w_i (as the rules are written in
-// both papers; also as transcribed in the chemicals library's
-// Laliberte_density and Laliberte_viscosity, where this was checked).
+// solute fraction 1 − w_w, not at its own w_i. Provenance of that detail:
+// the papers' full text was not available to us; we checked it where the
+// rules are written out, with Laliberté (2009) J. Chem. Eng. Data 54:1725
+// as their reference, in the chemicals library's Laliberte_density and
+// Laliberte_viscosity (both pass 1 − w_w of the mixture to every solute).
+// Laliberté & Cooper (2004) state (abstract) that the density rule predicts
+// over 1600 points of two or more electrolytes with a mean difference of
+// 0.003 kg/m³ and a standard deviation of 1.39 kg/m³.
 // Written with the mass shares f_i = w_i/w_s, both rules are the
 // share-weighted mean of the binary solutions of each solute at the same
 // total solute fraction:

@@ -214,7 +214,7 @@ func TestSeawaterSalts(t *testing.T) {
 // at 303.15 and 313.15 K, 0.5–3.5 mol/kg of each salt ("Experimental
 // measurements and modelling of viscosity and density of calcium and
 // potassium chlorides ternary solutions", Sci. Rep. 10 (2020), article
-// s41598-020-73484-4, Tables 5 and 7, experimental columns; transcribed in
+// s41598-020-73484-4, Tables 5 and 7, experimental columns; copied into
 // testdata/mixed_kcl_cacl2_scirep2020.csv). The rules predict them from the
 // binary records alone (no ternary parameter). Tolerances are what the
 // rules achieve, inside what the sources claim for mixtures (Laliberté &
