@@ -517,9 +517,14 @@ func (p *MixProps) Ranges() []MixRange {
 // Seawater by composition.
 //
 // SeawaterSaltRule names how the Reference Composition's ions are assigned
-// to library salts for the density and viscosity rules.
+// to library salts for the density and viscosity rules. Sources: Young &
+// Smith (1954) J. Phys. Chem. 58:716 (mixture properties from the single
+// salts' by fractions); Reilly, Wood & Robinson (1971) J. Phys. Chem.
+// 75:1305 for the pairing of every cation with every anion by equivalent
+// fractions (citation and page from memory, not re-read).
 const SeawaterSaltRule = "seawater Reference Composition (Millero et al. 2008) assigned to salts by " +
-	"equivalent fractions, after Reilly, Wood & Robinson (1971): each cation M and anion X form salt MX " +
+	"equivalent fractions (the weighting of Young's rule, Young & Smith 1954, as generalised by Reilly, Wood & " +
+	"Robinson 1971; the latter citation from memory): each cation M and anion X form salt MX " +
 	"with E_M·E_X of the equivalents (E = equivalent fraction among ions of that sign); pairs with no " +
 	"library salt (Ca–SO4, Mg/Ca–HCO3, Mg/Ca–Br, the CO3, B(OH)4 and F pairs, all Sr) give their mass to " +
 	"the chloride of the same cation (Sr to CaCl2); shares by mass, scaled to the absolute salinity"

@@ -388,3 +388,30 @@ func BenchmarkMixBlendProps(b *testing.B) {
 		}
 	})
 }
+
+// BlendFromMoles keeps the mole ratio: the component molalities
+// (f_i/M_i)·w/(1 − w) stand in the given ratio, and their sum is
+// SaltMolPerKg·w/(1 − w) (definitions, exact up to rounding).
+func TestMixBlendMoleRatio(t *testing.T) {
+	p, err := NewMixProps(mixSalts(t, "NaCl", "MgCl2", "Na2SO4"), 298.15)
+	if err != nil {
+		t.Fatal(err)
+	}
+	x := []float64{0.7, 0.2, 0.1}
+	b, err := p.BlendFromMoles(x)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := b.MassShares()
+	sum := 0.0
+	for i := range f {
+		n := f[i] / p.comps[i].mKg
+		sum += n
+		if r := n / (f[0] / p.comps[0].mKg); math.Abs(r/(x[i]/x[0])-1) > 1e-14 {
+			t.Errorf("component %d: mole ratio %g, want %g", i, r, x[i]/x[0])
+		}
+	}
+	if math.Abs(sum/b.SaltMolPerKg()-1) > 1e-14 {
+		t.Errorf("SaltMolPerKg = %g, Σ f_i/M_i = %g", b.SaltMolPerKg(), sum)
+	}
+}
