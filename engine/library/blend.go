@@ -34,6 +34,9 @@ type IonShare struct {
 	// DiffusivityM2PerS is the limiting ionic diffusion coefficient at
 	// 25 °C where the record gives it (0 when unknown).
 	DiffusivityM2PerS float64
+	// MolarMassGPerMol is the ion's molar mass where the record gives it
+	// (ion compositions; 0 for a salt's ions).
+	MolarMassGPerMol float64
 }
 
 // IonShares returns the solute's ions per formula unit, merged by symbol
@@ -199,7 +202,7 @@ func (s *Solute) setComposition(f *Feed) error {
 	s.composition = nil
 	for _, ion := range f.Ions {
 		s.composition = append(s.composition, IonShare{Symbol: ion.Symbol, Charge: ion.Charge,
-			PerUnit: ion.Concentration / ion.MolarMassGPerMol / total})
+			PerUnit: ion.Concentration / ion.MolarMassGPerMol / total, MolarMassGPerMol: ion.MolarMassGPerMol})
 	}
 	return nil
 }
@@ -230,7 +233,7 @@ func NewComposition(id, name string, ions []FeedIon) (*Solute, error) {
 	for _, ion := range ions {
 		if ion.Concentration > 0 {
 			s.composition = append(s.composition, IonShare{Symbol: ion.Symbol, Charge: ion.Charge,
-				PerUnit: ion.Concentration / ion.MolarMassGPerMol / mol})
+				PerUnit: ion.Concentration / ion.MolarMassGPerMol / mol, MolarMassGPerMol: ion.MolarMassGPerMol})
 		}
 	}
 	return s, nil

@@ -40,6 +40,7 @@ type mixModel struct {
 	// their own prepared binary Solutions (ZSR, transport properties).
 	parts []*Solution
 	x     []float64
+	props *MixBlend // density and viscosity
 }
 
 // MixturePath reports which model computes a mixture Solution's osmotic
@@ -172,6 +173,42 @@ func (x *Solution) prepareMixture() error {
 	x.validMolal = valid
 	return nil
 }
+
+// mixDensity prepares the mixture's density (and viscosity) by the
+// multicomponent rules of Laliberté & Cooper (2004) and Laliberté (2007)
+// over its parts at their mole ratio, or, for an ion composition, over
+// the library salts its ions are assigned to (IonSalts).
+func (x *Solution) mixDensity(rhoW, tC float64) (density, error) {
+	mm := x.mix
+	var b *MixBlend
+	var err error
+	if len(mm.parts) > 0 {
+		sols := make([]*library.Solute, len(mm.parts))
+		for k, p := range mm.parts {
+			sols[k] = p.Solute
+		}
+		var p *MixProps
+		if p, err = NewMixProps(sols, x.TK); err == nil {
+			b, err = p.BlendFromMoles(mm.x)
+			x.Warnings = append(x.Warnings, p.Warnings...)
+		}
+	} else {
+		shares := x.Solute.IonShares()
+		ions := make([]library.FeedIon, len(shares))
+		for k, sh := range shares {
+			ions[k] = library.FeedIon{Symbol: sh.Symbol, Charge: sh.Charge, MolarMassGPerMol: sh.MolarMassGPerMol, Concentration: sh.PerUnit * sh.MolarMassGPerMol}
+		}
+		b, err = NewIonBlend(ions, x.TK)
+	}
+	if err != nil {
+		return density{}, err
+	}
+	mm.props = b
+	return density{kind: densMixture, rhoW: rhoW, tC: tC, mKg: x.mKg, blend: b}, nil
+}
+
+// mixViscosity is the mixture's viscosity at solute mass fraction w.
+func (x *Solution) mixViscosity(w float64) float64 { return x.mix.props.ViscosityPaS(w) }
 
 // ionicStrengthPerMolal returns ½ Σ ν_i z_i² of a salt: its ionic strength
 // at 1 mol/kg.

@@ -14,6 +14,7 @@ const (
 	densLaliberte
 	densAMV
 	densSeawater
+	densMixture // the multicomponent rules (MixBlend)
 )
 
 // density is a solution-density model prepared at one temperature. It gives
@@ -28,6 +29,7 @@ type density struct {
 	// apparent molar volume: V_φ = v0 + v1 m, m³/mol and m³ kg/mol²
 	v0, v1 float64
 	mKg    float64 // solute molar mass, kg/mol
+	blend  *MixBlend
 }
 
 func newDensity(s *library.Solute, rhoW, tC float64) density {
@@ -73,6 +75,10 @@ func (d *density) specVol(w float64) (v, dv float64) {
 		dv = dvdm / (d.mKg * (1 - w) * (1 - w))
 	case densSeawater:
 		rho, drho := seawaterDensity(w, d.tC)
+		v = 1 / rho
+		dv = -drho / (rho * rho)
+	case densMixture:
+		rho, drho := d.blend.DensityKgPerM3(w)
 		v = 1 / rho
 		dv = -drho / (rho * rho)
 	default:

@@ -3,6 +3,7 @@ package thermo
 import (
 	"fmt"
 	"math"
+	"sync"
 
 	"gonum.org/v1/gonum/interp"
 
@@ -144,6 +145,9 @@ func NewMixProps(solutes []*library.Solute, tK float64) (*MixProps, error) {
 	for i, s := range solutes {
 		if s == nil {
 			return nil, errs.Invalid(fmt.Sprintf("mixture[%d].solute", i), 0, "a library solute", "missing solute")
+		}
+		if s.Osmotic.Kind == library.ModelMixture {
+			return nil, errs.InvalidText(fmt.Sprintf("mixture[%d].solute", i), s.ID, "a single solute", "%s is itself a mixture; give its salts", s.ID)
 		}
 		p.comps[i] = p.prepare(s)
 	}
@@ -529,17 +533,37 @@ const SeawaterSaltRule = "seawater Reference Composition (Millero et al. 2008) a
 	"library salt (Ca–SO4, Mg/Ca–HCO3, Mg/Ca–Br, the CO3, B(OH)4 and F pairs, all Sr) give their mass to " +
 	"the chloride of the same cation (Sr to CaCl2); shares by mass, scaled to the absolute salinity"
 
-// seawaterPairSalt is the library salt of each cation–anion pair.
-var seawaterPairSalt = map[[2]string]string{
-	{"Na+", "Cl-"}: "NaCl", {"Na+", "SO4-2"}: "Na2SO4", {"Na+", "HCO3-"}: "NaHCO3", {"Na+", "Br-"}: "NaBr",
-	{"K+", "Cl-"}: "KCl", {"K+", "SO4-2"}: "K2SO4", {"K+", "HCO3-"}: "KHCO3", {"K+", "Br-"}: "KBr",
-	{"Mg+2", "Cl-"}: "MgCl2", {"Mg+2", "SO4-2"}: "MgSO4",
-	{"Ca+2", "Cl-"}: "CaCl2",
-}
-
-// seawaterChloride is the salt that takes the mass of a cation's pairs
-// without a library salt.
-var seawaterChloride = map[string]string{"Na+": "NaCl", "K+": "KCl", "Mg+2": "MgCl2", "Ca+2": "CaCl2", "Sr+2": "CaCl2"}
+// pairSalts maps each cation–anion pair to the library salt made of
+// exactly those two ions (with a density or viscosity model, or not), and
+// each cation to its chloride, for IonSalts.
+var pairSalts = sync.OnceValues(func() (map[[2]string]*library.Solute, map[string]*library.Solute) {
+	pairs, chlorides := map[[2]string]*library.Solute{}, map[string]*library.Solute{}
+	lib, err := library.Default()
+	if err != nil {
+		return pairs, chlorides
+	}
+	for _, s := range lib.All() {
+		if len(s.Ions) != 2 || s.Osmotic.Kind == library.ModelMixture {
+			continue
+		}
+		c, a := s.Ions[0], s.Ions[1]
+		if c.Charge < 0 {
+			c, a = a, c
+		}
+		key := [2]string{c.Symbol, a.Symbol}
+		if _, dup := pairs[key]; !dup {
+			pairs[key] = s
+		}
+		if a.Symbol == "Cl-" {
+			chlorides[c.Symbol] = s
+		}
+	}
+	// Strontium has no library salt: its pairs go to calcium's chloride.
+	if ca, ok := chlorides["Ca+2"]; ok {
+		chlorides["Sr+2"] = ca
+	}
+	return pairs, chlorides
+})
 
 // SaltShare is one salt of a composition assignment: its mass share of the
 // dissolved salt, and the part of that share that came from ion pairs
@@ -552,65 +576,72 @@ type SaltShare struct {
 
 // SeawaterSalts returns the seawater Reference Composition (Millero,
 // Feistel, Wright & McDougall 2008, Deep-Sea Res. I 55:50; the "seawater"
-// feed record's ions) as library salts, by SeawaterSaltRule: with Q the
-// equivalents per kg, E_M = z_M c_M/Q and E_X = |z_X| c_X/Q,
-//
-//	n_MX = E_M E_X Q / (ν_M z_M),   mass_MX = E_M E_X Q (M_M/z_M + M_X/|z_X|)
-//
-// which conserves every ion and the total ion mass. Shares are by mass and
-// sum to 1; the salinity of the feed record's omitted neutral species
-// (B(OH)3, CO2: 0.06 % of S_R) is spread over them in proportion. The
-// order is that of the first pair of each salt (cations, then anions, as
-// listed in the feed record). Errors only if the embedded data lack a
-// record (a build fault).
+// feed record's ions) as library salts (IonSalts). Errors only if the
+// embedded data lack a record (a build fault).
 func SeawaterSalts() ([]SaltShare, error) {
 	feed, ok := library.LookupFeed("seawater")
 	if !ok {
 		return nil, fmt.Errorf("thermo: no seawater feed record")
 	}
-	lib, err := library.Default()
-	if err != nil {
-		return nil, err
-	}
+	return IonSalts(feed.Ions)
+}
+
+// IonSalts assigns a water's ions (concentrations in any mass unit) to
+// library salts by SeawaterSaltRule: with Q the equivalents, E_M =
+// z_M c_M/Q and E_X = |z_X| c_X/Q,
+//
+//	n_MX = E_M E_X Q / (ν_M z_M),   mass_MX = E_M E_X Q (M_M/z_M + M_X/|z_X|)
+//
+// which conserves every ion and the total ion mass; a pair without a
+// library salt gives its mass to the cation's chloride (Sr to CaCl2), and
+// a cation without a chloride to NaCl. Shares are by mass and sum to 1;
+// the order is that of the first pair of each salt. Errors if the list has
+// no cation or no anion.
+func IonSalts(ions []library.FeedIon) ([]SaltShare, error) {
+	pairs, chlorides := pairSalts()
 	type ion struct {
 		sym  string
-		z, c float64 // |charge|, mol/kg
+		z, c float64 // |charge|, mol per unit
 		mKg  float64 // kg/mol
 	}
 	var cat, an []ion
-	q := 0.0
-	for i, a := range feed.IonsAt(-1) {
-		x := ion{sym: a.Symbol, z: math.Abs(float64(a.Charge)), c: a.Mol, mKg: feed.Ions[i].MolarMassGPerMol / 1000}
+	q, qa := 0.0, 0.0
+	for _, a := range ions {
+		if !(a.Concentration > 0) || !(a.MolarMassGPerMol > 0) {
+			continue
+		}
+		x := ion{sym: a.Symbol, z: math.Abs(float64(a.Charge)), c: a.Concentration / a.MolarMassGPerMol, mKg: a.MolarMassGPerMol / 1000}
 		if a.Charge > 0 {
 			cat = append(cat, x)
 			q += x.z * x.c
-		} else {
+		} else if a.Charge < 0 {
 			an = append(an, x)
+			qa += x.z * x.c
 		}
 	}
-	qa := 0.0
-	for _, x := range an {
-		qa += x.z * x.c
+	if len(cat) == 0 || len(an) == 0 {
+		return nil, errs.InvalidText("ions", "", nil, "an ion list needs at least one cation and one anion")
 	}
 	var out []SaltShare
-	index := map[string]int{}
+	index := map[*library.Solute]int{}
 	total := 0.0
 	for _, m := range cat {
 		for _, x := range an {
 			eq := (m.z * m.c / q) * (x.z * x.c / qa) * q
 			mass := eq * (m.mKg/m.z + x.mKg/x.z)
-			id, own := seawaterPairSalt[[2]string{m.sym, x.sym}]
+			s, own := pairs[[2]string{m.sym, x.sym}]
 			if !own {
-				id = seawaterChloride[m.sym]
-			}
-			k, seen := index[id]
-			if !seen {
-				s, ok := lib.Lookup(id)
-				if !ok || id == "" {
-					return nil, fmt.Errorf("thermo: seawater salt %q (for %s, %s) not in the library", id, m.sym, x.sym)
+				if s = chlorides[m.sym]; s == nil {
+					s = chlorides["Na+"]
 				}
+			}
+			if s == nil {
+				return nil, fmt.Errorf("thermo: no library salt for %s–%s", m.sym, x.sym)
+			}
+			k, seen := index[s]
+			if !seen {
 				k = len(out)
-				index[id] = k
+				index[s] = k
 				out = append(out, SaltShare{Solute: s})
 			}
 			out[k].MassShare += mass
@@ -646,6 +677,20 @@ func NewSeawaterBlend(tK float64) (*MixBlend, error) {
 	if err != nil {
 		return nil, err
 	}
+	return saltsBlend(salts, tK)
+}
+
+// NewIonBlend is NewSeawaterBlend for any ion list (IonSalts).
+func NewIonBlend(ions []library.FeedIon, tK float64) (*MixBlend, error) {
+	salts, err := IonSalts(ions)
+	if err != nil {
+		return nil, err
+	}
+	return saltsBlend(salts, tK)
+}
+
+// saltsBlend prepares a salt assignment's density and viscosity blend.
+func saltsBlend(salts []SaltShare, tK float64) (*MixBlend, error) {
 	ss := make([]*library.Solute, len(salts))
 	f := make([]float64, len(salts))
 	for i, s := range salts {

@@ -109,21 +109,6 @@ func (mx *Mixture) MissingMixing() []string {
 
 func (mx *Mixture) SaturationIndices(m []float64) []Saturation { return nil }
 
-// mixDensity: TEMPORARY until the props branch lands.
-func (x *Solution) mixDensity(rhoW, tC float64) density {
-	if len(x.mix.parts) == 0 {
-		return density{kind: densSeawater, rhoW: rhoW, tC: tC, mKg: x.mKg}
-	}
-	return density{kind: densWater, rhoW: rhoW, tC: tC, mKg: x.mKg}
-}
-
-func (x *Solution) mixViscosity(w float64) float64 {
-	if len(x.mix.parts) == 0 {
-		return x.muW * seawaterRelViscosity(w, x.tC)
-	}
-	return x.muW
-}
-
 func pairTableIons() []string {
 	var out []string
 	for k := range mixTheta {

@@ -111,7 +111,11 @@ func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 		if err := x.prepareMixture(); err != nil {
 			return nil, err
 		}
-		x.dens = x.mixDensity(rhoW, tC)
+		d, err := x.mixDensity(rhoW, tC)
+		if err != nil {
+			return nil, err
+		}
+		x.dens = d
 	case library.ModelNone:
 		x.warn(warn.NoModel, "%s: %s; osmotic pressure is the van 't Hoff estimate only", s.ID, m.Reason)
 		x.validMolal = math.Inf(1)
