@@ -140,6 +140,7 @@ func (mn *mineral) logKAt(tK float64) (float64, []warn.Warning) {
 // molality is omitted, so the result is never NaN; an empty mixture gives
 // none. SaturationIndices allocates its result and one work slice.
 func (mx *Mixture) SaturationIndices(m []float64) []Saturation {
+	mx.mineralsOnce.Do(mx.prepareMinerals)
 	lg := make([]float64, len(mx.ions))
 	phi := mx.Eval(m, lg)
 	sum := 0.0
@@ -147,28 +148,61 @@ func (mx *Mixture) SaturationIndices(m []float64) []Saturation {
 		sum += mi
 	}
 	log10aw := -water.MolarMassKgPerMol * phi * sum / math.Ln10
+	for i := range lg { // lg becomes log₁₀ aᵢ
+		if m[i] > 0 {
+			lg[i] = math.Log10(m[i]) + lg[i]/math.Ln10
+		}
+	}
 	var out []Saturation
-	for k := range minerals {
-		mn := &minerals[k]
-		logIAP := mn.water * log10aw
+	for k := range mx.minerals {
+		ma := &mx.minerals[k]
+		logIAP := ma.mn.water * log10aw
 		ok := true
-		for _, st := range mn.ions {
-			i, found := mx.Index(st.symbol)
-			if !found || !(m[i] > 0) {
+		for j, st := range ma.mn.ions {
+			i := ma.idx[j]
+			if !(m[i] > 0) {
 				ok = false
 				break
 			}
-			logIAP += st.n * (math.Log10(m[i]) + lg[i]/math.Ln10)
+			logIAP += st.n * lg[i]
 		}
 		if !ok {
 			continue
 		}
-		lk, ws := mn.logKAt(mx.tK)
-		si := logIAP - lk
+		si := logIAP - ma.logK
 		if math.IsNaN(si) || math.IsInf(si, 0) {
 			continue
 		}
-		out = append(out, Saturation{Mineral: mn.name, SI: si, LogKsp: lk, Source: mn.src, Warnings: ws})
+		out = append(out, Saturation{Mineral: ma.mn.name, SI: si, LogKsp: ma.logK, Source: ma.mn.src, Warnings: ma.ws})
 	}
 	return out
+}
+
+// mineralAt is a mineral whose ions are all in a mixture: their
+// positions and log K_sp at the mixture's temperature.
+type mineralAt struct {
+	mn   *mineral
+	idx  []int
+	logK float64
+	ws   []warn.Warning
+}
+
+// prepareMinerals lists the minerals whose ions the mixture holds.
+func (mx *Mixture) prepareMinerals() {
+	for k := range minerals {
+		mn := &minerals[k]
+		ma := mineralAt{mn: mn}
+		for _, st := range mn.ions {
+			i, ok := mx.Index(st.symbol)
+			if !ok {
+				ma.idx = nil
+				break
+			}
+			ma.idx = append(ma.idx, i)
+		}
+		if len(ma.idx) == len(mn.ions) {
+			ma.logK, ma.ws = mn.logKAt(mx.tK)
+			mx.minerals = append(mx.minerals, ma)
+		}
+	}
 }

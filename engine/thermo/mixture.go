@@ -97,6 +97,10 @@ type Mixture struct {
 	aphi  float64
 	// missingTheta: like-charged pairs without a tabulated θ.
 	missingTheta []string
+	// minerals whose ions are all present, prepared on first use by
+	// SaturationIndices.
+	mineralsOnce sync.Once
+	minerals     []mineralAt
 	// Warnings: mixing data at 25 °C used elsewhere; binary sets used
 	// outside their temperature range; pairs without parameters.
 	Warnings []warn.Warning
