@@ -234,3 +234,26 @@ func TestIonMixtureConstruction(t *testing.T) {
 		t.Error("NewMixture did not take Ca–SO4 from the pair table")
 	}
 }
+
+// A neutral species at zero molality leaves the salt's numbers unchanged,
+// and its own ln γ in the salt is the Setschenow form of HMW 1984's λ
+// terms, ln γ_CO2 = 2 m (λ_CO2,Na + λ_CO2,Cl) = 0.16 m for NaCl (λ = 0.085
+// and −0.005, HMW 1984 Table 2): exact, as the model has no other CO₂ term.
+func TestIonMixtureNeutralLimit(t *testing.T) {
+	s := mixSalts(t, "NaCl")[0]
+	mx, err := NewIonMixture([]MixIon{{"Na+", 1}, {"Cl-", -1}, {"CO2", 0}}, ReferenceK)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p, _ := pitzerParams(s, ReferenceK)
+	for _, mol := range []float64{0.1, 1, 4} {
+		lg := make([]float64, 3)
+		phi := mx.Eval([]float64{mol, mol, 0}, lg)
+		if want := p.phi(mol); math.Abs(phi-want) > 1e-12*want {
+			t.Errorf("%g m NaCl + no CO2: φ %.15g, single-salt %.15g", mol, phi, want)
+		}
+		if want := 0.16 * mol; math.Abs(lg[2]-want) > 1e-14 {
+			t.Errorf("%g m NaCl: ln γ_CO2 = %.15g, want %.15g", mol, lg[2], want)
+		}
+	}
+}
