@@ -3,6 +3,7 @@ package thermo
 import (
 	"fmt"
 	"math"
+	"strings"
 	"sync"
 
 	"gonum.org/v1/gonum/integrate/quad"
@@ -10,9 +11,11 @@ import (
 	"drawsift/engine/errs"
 	"drawsift/engine/library"
 	"drawsift/engine/warn"
+	"drawsift/engine/water"
 )
 
-// MixIon is one ion of a mixed-electrolyte solution.
+// MixIon is one species of a mixed-electrolyte solution: an ion, or a
+// neutral solute (Charge 0) such as CO2 for the carbonate system.
 type MixIon struct {
 	Symbol string
 	Charge int
@@ -27,55 +30,99 @@ type binary struct {
 	fromSolute       string
 }
 
+// pairTerm is a set cation–anion pair as Eval uses it: ion indices, the
+// parameters, the positions of α₁ and α₂ in Mixture.alpha (ia2 < 0: no
+// β⁽²⁾) and C = C^φ/(2√|z_c z_a|).
+type pairTerm struct {
+	c, a     int
+	b0, b1   float64
+	b2, cc   float64
+	ia1, ia2 int
+}
+
+// likeTerm is a pair of ions of the same sign: θ, the charges for ᴱθ and
+// the ψ with ions of the other sign that are tabulated.
+type likeTerm struct {
+	i, j   int
+	zi, zj int // |z|
+	theta  float64
+	psi    []psiTerm
+}
+
+type psiTerm struct {
+	k int
+	v float64
+}
+
+// lambdaTerm is a neutral solute n with an ion i: λ_ni.
+type lambdaTerm struct {
+	n, i int
+	l    float64
+}
+
+// maxAlphas bounds the distinct α values of a mixture (2, 1.4, 12 in
+// practice; a record may bring its own).
+const maxAlphas = 8
+
+// maxCharge bounds |z| of a mixture's ions (the ᴱθ cache of Eval).
+const maxCharge = 4
+
 // Mixture is the Harvie–Møller–Weare form of the Pitzer model for a
-// solution of several electrolytes at one temperature: binary β⁽⁰⁾, β⁽¹⁾,
-// β⁽²⁾, C^φ for each cation–anion pair, the like-ion mixing terms θ and ψ,
-// and the unsymmetrical-mixing terms ᴱθ, ᴱθ′ from the J(x) integral.
+// solution of several electrolytes and neutral solutes at one temperature:
+// binary β⁽⁰⁾, β⁽¹⁾, β⁽²⁾, C^φ for each cation–anion pair, the like-ion
+// mixing terms θ and ψ, the unsymmetrical-mixing terms ᴱθ, ᴱθ′ from the
+// J(x) integral, and the neutral–ion terms λ.
 // Harvie, Møller & Weare (1984) Geochim. Cosmochim. Acta 48:723,
 // eqs. 1–9 and appendix; Pitzer (1991) Activity Coefficients in
 // Electrolyte Solutions, 2nd ed., ch. 3, eqs. 59–69 and 84–86; Pitzer (1975)
 // J. Solution Chem. 4:249 for ᴱθ.
 //
-// The like-ion θ and ψ come from Harvie, Møller & Weare (1984) Table 2
-// (mixing.go; zero for pairs it does not list); ᴱθ (which needs no
-// parameter) is always included, so ions of unlike charge (Na⁺–Mg²⁺,
-// Cl⁻–SO₄²⁻) are never treated as symmetric.
+// The like-ion θ and ψ come from Harvie, Møller & Weare (1984) Table 2 and
+// the few other sources named in mixing.go (zero for pairs none lists:
+// MissingMixing names them); ᴱθ (which needs no parameter) is always
+// included, so ions of unlike charge (Na⁺–Mg²⁺, Cl⁻–SO₄²⁻) are never
+// treated as symmetric. λ for CO₂(aq) are HMW 1984's (pairs.go). Ternary
+// neutral terms ζ and neutral–neutral λ are not included.
 type Mixture struct {
 	ions  []MixIon
 	z     []float64
-	cat   []int       // indices of the cations
-	an    []int       // indices of the anions
-	pair  [][]binary  // [cation][anion] by position in cat, an
-	theta [][]float64 // like-charged pairs, by ion index (zero for now)
-	psi   [][][]float64
+	tK    float64
+	cat   []int // indices of the cations
+	an    []int // indices of the anions
+	neu   []int // indices of the neutral species
+	pairs []pairTerm
+	like  []likeTerm
+	lams  []lambdaTerm
+	alpha []float64
 	aphi  float64
+	// missingTheta: like-charged pairs without a tabulated θ.
+	missingTheta []string
+	// minerals whose ions are all present, prepared on first use by
+	// SaturationIndices.
+	mineralsOnce sync.Once
+	minerals     []mineralAt
 	// Warnings: mixing data at 25 °C used elsewhere; binary sets used
-	// outside their temperature range.
+	// outside their temperature range; pairs without parameters.
 	Warnings []warn.Warning
 }
 
 // NewMixture builds the model at tK from library salts: each Pitzer salt
 // brings its cation–anion pair's binary parameters (at tK, by the record's
 // temperature function). The ions are the salts' ions, merged by symbol.
+// Cation–anion pairs that no given salt holds (Ca²⁺ with SO₄²⁻ from CaCl2
+// and Na2SO4) take their parameters as NewIonMixture does.
 func NewMixture(salts []*library.Solute, tK float64) (*Mixture, error) {
-	mx := &Mixture{aphi: AphiMoller88(tK)}
-	index := map[string]int{}
-	add := func(ion library.Ion) int {
-		if i, ok := index[ion.Symbol]; ok {
-			return i
+	var ions []MixIon
+	index := map[string]bool{}
+	add := func(ion library.Ion) {
+		if !index[ion.Symbol] {
+			index[ion.Symbol] = true
+			ions = append(ions, MixIon{Symbol: ion.Symbol, Charge: ion.Charge})
 		}
-		index[ion.Symbol] = len(mx.ions)
-		mx.ions = append(mx.ions, MixIon{Symbol: ion.Symbol, Charge: ion.Charge})
-		mx.z = append(mx.z, float64(ion.Charge))
-		return len(mx.ions) - 1
 	}
-	type link struct {
-		c, a int
-		p    binary
-	}
-	var links []link
+	given := map[[2]string]binary{}
 	for k, s := range salts {
-		if s.Osmotic.Kind != library.ModelPitzer || len(s.Ions) != 2 {
+		if s.Osmotic.Kind != library.ModelPitzer || len(s.Ions) != 2 || s.Ions[0].Charge*s.Ions[1].Charge >= 0 {
 			return nil, errs.InvalidText(fmt.Sprintf("mixture[%d].solute", k), s.ID, "a Pitzer salt of one cation and one anion",
 				"%s has no Pitzer parameters for a mixture", s.ID)
 		}
@@ -83,52 +130,221 @@ func NewMixture(salts []*library.Solute, tK float64) (*Mixture, error) {
 		if cat.Charge < 0 {
 			cat, an = an, cat
 		}
-		p, inRange := pitzerParams(s, tK)
-		links = append(links, link{add(cat), add(an), binary{set: true, b0: p.b0, b1: p.b1, b2: p.b2, cphi: p.cphi,
-			a1: p.a1, a2: p.a2, inRange: inRange, fromSolute: s.ID}})
-	}
-	pos := make([]int, len(mx.ions))
-	for i, ion := range mx.ions {
-		if ion.Charge > 0 {
-			pos[i] = len(mx.cat)
-			mx.cat = append(mx.cat, i)
-		} else {
-			pos[i] = len(mx.an)
-			mx.an = append(mx.an, i)
+		add(cat)
+		add(an)
+		key := [2]string{cat.Symbol, an.Symbol}
+		if _, dup := given[key]; !dup {
+			given[key] = saltBinary(s, tK)
 		}
 	}
-	mx.pair = make([][]binary, len(mx.cat))
-	for c := range mx.pair {
-		mx.pair[c] = make([]binary, len(mx.an))
+	return newMixture(ions, given, tK)
+}
+
+// NewIonMixture builds the model at tK for the given ions and neutral
+// species (Charge 0), in that order (the order Eval takes molalities).
+// Each cation–anion pair takes its binary parameters, in this order of
+// preference:
+//
+//  1. the library's Pitzer salt of exactly that pair (library.Default), with
+//     its temperature function, so that a single salt gives the single-salt
+//     model's numbers;
+//  2. the pair table of pairs.go (HMW 1984 Table 1 and the other sources
+//     named there), with its temperature terms where published;
+//  3. none: the pair's parameters are zero (Debye–Hückel and mixing terms
+//     only) and a warn.ModelNote warning names it.
+//
+// Data used outside their temperature range are flagged
+// (warn.Temperature25C). Each neutral species takes its λ with each ion
+// from pairs.go; one without any λ gets a warn.ModelNote.
+//
+// Errors (*errs.InputError): an empty symbol, a repeated symbol, |charge|
+// above 4, tK outside 273.15–573.15 K (the range of A_φ, Møller 1988).
+func NewIonMixture(ions []MixIon, tK float64) (*Mixture, error) {
+	return newMixture(ions, nil, tK)
+}
+
+// saltBinary is a library salt's binary parameters at tK.
+func saltBinary(s *library.Solute, tK float64) binary {
+	p, inRange := pitzerParams(s, tK)
+	return binary{set: true, b0: p.b0, b1: p.b1, b2: p.b2, cphi: p.cphi,
+		a1: p.a1, a2: p.a2, inRange: inRange, fromSolute: s.ID}
+}
+
+// librarySalts maps {cation, anion} to the default library's Pitzer salt of
+// exactly that pair (the first in file order).
+var librarySalts struct {
+	once sync.Once
+	m    map[[2]string]*library.Solute
+}
+
+func librarySalt(cat, an string) *library.Solute {
+	librarySalts.once.Do(func() {
+		librarySalts.m = map[[2]string]*library.Solute{}
+		lib, err := library.Default()
+		if err != nil {
+			return // the library's own tests rule this out; the pair table still serves
+		}
+		for _, s := range lib.All() {
+			if s.Osmotic.Kind != library.ModelPitzer || len(s.Ions) != 2 || s.Ions[0].Charge*s.Ions[1].Charge >= 0 {
+				continue
+			}
+			c, a := s.Ions[0], s.Ions[1]
+			if c.Charge < 0 {
+				c, a = a, c
+			}
+			key := [2]string{c.Symbol, a.Symbol}
+			if _, ok := librarySalts.m[key]; !ok {
+				librarySalts.m[key] = s
+			}
+		}
+	})
+	return librarySalts.m[[2]string{cat, an}]
+}
+
+func newMixture(ions []MixIon, given map[[2]string]binary, tK float64) (*Mixture, error) {
+	if !(tK >= ZeroCelsiusK-1e-9 && tK <= 573.15) {
+		return nil, errs.Invalid("temperature_k", tK, "273.15–573.15 K", "mixture temperature outside the range of A_φ (Møller 1988)")
 	}
-	for _, l := range links {
-		mx.pair[pos[l.c]][pos[l.a]] = l.p
-	}
-	for _, l := range links {
-		if !l.p.inRange {
-			mx.Warnings = append(mx.Warnings, warn.New(warn.Temperature25C, l.p.fromSolute,
-				"%s: Pitzer parameters used outside the temperature range of their data", l.p.fromSolute))
+	mx := &Mixture{aphi: AphiMoller88(tK), tK: tK}
+	seen := map[string]bool{}
+	for k, ion := range ions {
+		field := fmt.Sprintf("ions[%d]", k)
+		switch {
+		case ion.Symbol == "":
+			return nil, errs.InvalidText(field+".symbol", "", "a species symbol such as Na+", "empty species symbol")
+		case seen[ion.Symbol]:
+			return nil, errs.InvalidText(field+".symbol", ion.Symbol, "each species once", "%s is listed twice", ion.Symbol)
+		case ion.Charge > maxCharge || ion.Charge < -maxCharge:
+			return nil, errs.Invalid(field+".charge", float64(ion.Charge), "−4…4", "charge of %s out of range", ion.Symbol)
+		}
+		seen[ion.Symbol] = true
+		mx.ions = append(mx.ions, ion)
+		mx.z = append(mx.z, float64(ion.Charge))
+		switch {
+		case ion.Charge > 0:
+			mx.cat = append(mx.cat, k)
+		case ion.Charge < 0:
+			mx.an = append(mx.an, k)
+		default:
+			mx.neu = append(mx.neu, k)
 		}
 	}
-	n := len(mx.ions)
-	mx.theta = make([][]float64, n)
-	mx.psi = make([][][]float64, n)
-	for i := range mx.theta {
-		mx.theta[i] = make([]float64, n)
-		mx.psi[i] = make([][]float64, n)
-		for j := range mx.psi[i] {
-			mx.psi[i][j] = make([]float64, n)
+	alphaIndex := func(a float64) int {
+		for k, v := range mx.alpha {
+			if v == a {
+				return k
+			}
+		}
+		mx.alpha = append(mx.alpha, a)
+		return len(mx.alpha) - 1
+	}
+	var missing []string
+	for _, c := range mx.cat {
+		for _, a := range mx.an {
+			cs, as := mx.ions[c].Symbol, mx.ions[a].Symbol
+			var b binary
+			var ok bool
+			if b, ok = given[[2]string{cs, as}]; !ok {
+				if s := librarySalt(cs, as); s != nil {
+					b, ok = saltBinary(s, tK), true
+				} else {
+					b, ok = pairParams(cs, as, mx.z[c], mx.z[a], tK)
+				}
+			}
+			if !ok {
+				missing = append(missing, cs+"–"+as)
+				continue
+			}
+			if !b.inRange {
+				mx.Warnings = append(mx.Warnings, warn.New(warn.Temperature25C, b.fromSolute,
+					"%s: Pitzer parameters used outside the temperature range of their data (%.4g °C)", b.fromSolute, tK-ZeroCelsiusK))
+			}
+			if len(mx.alpha) >= maxAlphas-1 {
+				return nil, errs.Invalid("ions", float64(len(ions)), fmt.Sprintf("at most %d distinct α values", maxAlphas), "too many distinct Pitzer α values")
+			}
+			t := pairTerm{c: c, a: a, b0: b.b0, b1: b.b1, b2: b.b2,
+				cc: b.cphi / (2 * math.Sqrt(math.Abs(mx.z[c]*mx.z[a]))), ia1: alphaIndex(b.a1), ia2: -1}
+			if b.b2 != 0 {
+				t.ia2 = alphaIndex(b.a2)
+			}
+			mx.pairs = append(mx.pairs, t)
 		}
 	}
-	if mx.fillMixing() && math.Abs(tK-ReferenceK) > 5 {
+	if len(missing) > 0 {
+		mx.Warnings = append(mx.Warnings, warn.New(warn.ModelNote, "mixture",
+			"mixture: no binary Pitzer parameters for %s; taken as zero (Debye–Hückel and mixing terms only)", strings.Join(missing, ", ")))
+	}
+	lam25 := false
+	for _, n := range mx.neu {
+		any := false
+		for i := range mx.ions {
+			if l, ok := lambdaNeutral[[2]string{mx.ions[n].Symbol, mx.ions[i].Symbol}]; ok && mx.z[i] != 0 {
+				mx.lams = append(mx.lams, lambdaTerm{n: n, i: i, l: l})
+				any = true
+			}
+		}
+		if !any {
+			mx.Warnings = append(mx.Warnings, warn.New(warn.ModelNote, mx.ions[n].Symbol,
+				"%s: no neutral–ion λ parameters; treated as ideal", mx.ions[n].Symbol))
+		}
+		lam25 = lam25 || any
+	}
+	if (mx.fillMixing() || lam25) && math.Abs(tK-ReferenceK) > 5 {
 		mx.Warnings = append(mx.Warnings, warn.New(warn.Temperature25C, "mixture",
-			"mixture: the like-ion mixing parameters θ and ψ are 25 °C data (Harvie, Møller & Weare 1984), used unchanged at %.4g °C", tK-ZeroCelsiusK))
+			"mixture: the mixing parameters θ, ψ and λ are 25 °C data (Harvie, Møller & Weare 1984), used unchanged at %.4g °C", tK-ZeroCelsiusK))
 	}
 	return mx, nil
 }
 
-// Ions lists the mixture's ions in the order Eval takes their molalities.
+// Ions lists the mixture's species in the order Eval takes their
+// molalities.
 func (mx *Mixture) Ions() []MixIon { return mx.ions }
+
+// TemperatureK returns the temperature the mixture was built for.
+func (mx *Mixture) TemperatureK() float64 { return mx.tK }
+
+// Index returns the position of the species symbol in Ions.
+func (mx *Mixture) Index(symbol string) (int, bool) {
+	for i, ion := range mx.ions {
+		if ion.Symbol == symbol {
+			return i, true
+		}
+	}
+	return -1, false
+}
+
+// IonicStrength returns I = ½ Σ mᵢ zᵢ² (mol/kg) at the molalities m (in
+// the order of Ions; neutral species add nothing).
+func (mx *Mixture) IonicStrength(m []float64) float64 {
+	iStr := 0.0
+	for i, mi := range m {
+		iStr += 0.5 * mi * mx.z[i] * mx.z[i]
+	}
+	return iStr
+}
+
+// MissingMixing lists the like-charged ion pairs of the mixture ("K+/Na+"
+// style, each pair once) for which no θ is tabulated, so that a caller can
+// fall back to a mixing rule (Zdanovskii–Stokes–Robinson) and say so. ᴱθ
+// is still applied to them where the charges differ.
+func (mx *Mixture) MissingMixing() []string { return mx.missingTheta }
+
+// WaterActivity returns the activity of water at the molalities m:
+//
+//	ln a_w = −M_w φ Σ mᵢ
+//
+// with every species counted in Σmᵢ, neutral ones included (the definition
+// of the molal osmotic coefficient, IUPAC Gold Book). Pure water gives 1.
+func (mx *Mixture) WaterActivity(m []float64) float64 {
+	sum := 0.0
+	for _, mi := range m {
+		sum += mi
+	}
+	if sum <= 0 {
+		return 1
+	}
+	return math.Exp(-water.MolarMassKgPerMol * mx.Eval(m, nil) * sum)
+}
 
 // gFun and its companion are the ionic-strength functions of β⁽¹⁾ and
 // β⁽²⁾ (Pitzer 1991 eqs. 3-60, 3-62):
@@ -149,21 +365,24 @@ func gPrime(x float64) float64 {
 	return -2 * (1 - (1+x+0.5*x*x)*math.Exp(-x)) / (x * x)
 }
 
-// Eval returns the osmotic coefficient φ of the mixture at the ion
-// molalities m (mol/kg water, in the order of Ions) and, when lnGamma is not
-// nil (len(Ions)), each ion's ln γ:
+// Eval returns the osmotic coefficient φ of the mixture at the species
+// molalities m (mol/kg water, in the order of Ions) and, when lnGamma is
+// not nil (len(Ions)), each species' ln γ:
 //
 //	φ − 1 = (2/Σmᵢ)[−A_φ I^{3/2}/(1 + b√I) + Σ_c Σ_a m_c m_a (B^φ_ca + Z C_ca)
-//	        + Σ_{c<c′} m_c m_c′ (Φ^φ_cc′ + Σ_a m_a ψ_cc′a) + Σ_{a<a′} m_a m_a′ (Φ^φ_aa′ + Σ_c m_c ψ_aa′c)]
+//	        + Σ_{c<c′} m_c m_c′ (Φ^φ_cc′ + Σ_a m_a ψ_cc′a) + Σ_{a<a′} m_a m_a′ (Φ^φ_aa′ + Σ_c m_c ψ_aa′c)
+//	        + Σ_n Σ_i m_n m_i λ_ni]
 //	ln γ_M = z_M² F + Σ_a m_a (2B_Ma + Z C_Ma) + Σ_c m_c (2Φ_Mc + Σ_a m_a ψ_Mca)
-//	        + Σ_{a<a′} m_a m_a′ ψ_aa′M + |z_M| Σ_c Σ_a m_c m_a C_ca     (and likewise for anions)
+//	        + Σ_{a<a′} m_a m_a′ ψ_aa′M + |z_M| Σ_c Σ_a m_c m_a C_ca + 2 Σ_n m_n λ_nM     (and likewise for anions)
+//	ln γ_N = 2 Σ_i m_i λ_Ni
 //	F = −A_φ[√I/(1 + b√I) + (2/b) ln(1 + b√I)] + Σ_c Σ_a m_c m_a B′_ca
 //	    + Σ_{c<c′} m_c m_c′ Φ′_cc′ + Σ_{a<a′} m_a m_a′ Φ′_aa′
 //
-// with Z = Σ mᵢ|zᵢ|, C_ca = C^φ_ca/(2√|z_c z_a|), b = 1.2 (HMW 1984 eqs.
-// 1–9; Pitzer 1991 eqs. 3-59 to 3-69). Electroneutrality is the caller's:
-// Eval does not enforce it. Special cases: all molalities zero gives φ = 1
-// and ln γ = 0.
+// with Z = Σ mᵢ|zᵢ|, C_ca = C^φ_ca/(2√|z_c z_a|), b = 1.2, n over neutral
+// species and i over ions (HMW 1984 eqs. 1–9; Pitzer 1991 eqs. 3-59 to
+// 3-69). Electroneutrality is the caller's: Eval does not enforce it. Eval
+// does not allocate. Special cases: all molalities zero gives φ = 1 and
+// ln γ = 0.
 func (mx *Mixture) Eval(m, lnGamma []float64) float64 {
 	var sumM, iStr, zSum float64
 	for i, mi := range m {
@@ -181,65 +400,77 @@ func (mx *Mixture) Eval(m, lnGamma []float64) float64 {
 	const b = pitzerB
 	osm := -mx.aphi * iStr * s / (1 + b*s)
 	f := -mx.aphi * (s/(1+b*s) + 2/b*math.Log1p(b*s))
+	// The ionic-strength functions of each distinct α, once.
+	var ex, gg, gp [maxAlphas]float64
+	for k, a := range mx.alpha {
+		x := a * s
+		ex[k], gg[k] = math.Exp(-x), gFun(x)
+		if iStr > 0 {
+			gp[k] = gPrime(x) / iStr
+		}
+	}
 	var sumCC float64 // Σ_c Σ_a m_c m_a C_ca
-	for ci, c := range mx.cat {
-		for ai, a := range mx.an {
-			p := &mx.pair[ci][ai]
-			if !p.set || m[c] == 0 && m[a] == 0 {
-				continue
+	for k := range mx.pairs {
+		p := &mx.pairs[k]
+		mc, ma := m[p.c], m[p.a]
+		if mc == 0 && ma == 0 {
+			continue
+		}
+		bphi := p.b0 + p.b1*ex[p.ia1]
+		bb := p.b0 + p.b1*gg[p.ia1]
+		bprime := p.b1 * gp[p.ia1]
+		if p.ia2 >= 0 {
+			bphi += p.b2 * ex[p.ia2]
+			bb += p.b2 * gg[p.ia2]
+			bprime += p.b2 * gp[p.ia2]
+		}
+		mm := mc * ma
+		osm += mm * (bphi + zSum*p.cc)
+		f += mm * bprime
+		sumCC += mm * p.cc
+		if lnGamma != nil {
+			lnGamma[p.c] += ma * (2*bb + zSum*p.cc)
+			lnGamma[p.a] += mc * (2*bb + zSum*p.cc)
+		}
+	}
+	// Like-charged pairs: Φ = θ + ᴱθ, Φ′ = ᴱθ′, Φ^φ = Φ + IΦ′. ᴱθ depends on
+	// the charges only: computed once per pair of charges.
+	var etv, etpv [maxCharge + 1][maxCharge + 1]float64
+	var etok [maxCharge + 1][maxCharge + 1]bool
+	for k := range mx.like {
+		l := &mx.like[k]
+		var et, etp float64
+		if l.zi != l.zj {
+			if !etok[l.zi][l.zj] {
+				etv[l.zi][l.zj], etpv[l.zi][l.zj] = mx.etheta(float64(l.zi), float64(l.zj), iStr, s)
+				etok[l.zi][l.zj] = true
 			}
-			x1 := p.a1 * s
-			bphi := p.b0 + p.b1*math.Exp(-x1)
-			bb := p.b0 + p.b1*gFun(x1)
-			bprime := 0.0
-			if iStr > 0 {
-				bprime = p.b1 * gPrime(x1) / iStr
-			}
-			if p.b2 != 0 {
-				x2 := p.a2 * s
-				bphi += p.b2 * math.Exp(-x2)
-				bb += p.b2 * gFun(x2)
-				if iStr > 0 {
-					bprime += p.b2 * gPrime(x2) / iStr
-				}
-			}
-			cc := p.cphi / (2 * math.Sqrt(math.Abs(mx.z[c]*mx.z[a])))
-			mm := m[c] * m[a]
-			osm += mm * (bphi + zSum*cc)
-			f += mm * bprime
-			sumCC += mm * cc
-			if lnGamma != nil {
-				lnGamma[c] += m[a] * (2*bb + zSum*cc)
-				lnGamma[a] += m[c] * (2*bb + zSum*cc)
+			et, etp = etv[l.zi][l.zj], etpv[l.zi][l.zj]
+		}
+		phi := l.theta + et
+		mm := m[l.i] * m[l.j]
+		sumPsi := 0.0
+		for _, ps := range l.psi {
+			sumPsi += m[ps.k] * ps.v
+		}
+		osm += mm * (phi + iStr*etp + sumPsi)
+		f += mm * etp
+		if lnGamma != nil {
+			lnGamma[l.i] += m[l.j] * (2*phi + sumPsi)
+			lnGamma[l.j] += m[l.i] * (2*phi + sumPsi)
+			for _, ps := range l.psi {
+				lnGamma[ps.k] += mm * ps.v
 			}
 		}
 	}
-	// Like-charged pairs: Φ = θ + ᴱθ, Φ′ = ᴱθ′, Φ^φ = Φ + IΦ′.
-	like := func(group []int, other []int) {
-		for x := 0; x < len(group); x++ {
-			for y := x + 1; y < len(group); y++ {
-				i, j := group[x], group[y]
-				et, etp := mx.etheta(mx.z[i], mx.z[j], iStr, s)
-				phi := mx.theta[i][j] + et
-				mm := m[i] * m[j]
-				sumPsi := 0.0
-				for _, k := range other {
-					sumPsi += m[k] * mx.psi[i][j][k]
-				}
-				osm += mm * (phi + iStr*etp + sumPsi)
-				f += mm * etp
-				if lnGamma != nil {
-					lnGamma[i] += m[j] * (2*phi + sumPsi)
-					lnGamma[j] += m[i] * (2*phi + sumPsi)
-					for _, k := range other {
-						lnGamma[k] += mm * mx.psi[i][j][k]
-					}
-				}
-			}
+	for k := range mx.lams {
+		t := &mx.lams[k]
+		osm += m[t.n] * m[t.i] * t.l
+		if lnGamma != nil {
+			lnGamma[t.n] += 2 * m[t.i] * t.l
+			lnGamma[t.i] += 2 * m[t.n] * t.l
 		}
 	}
-	like(mx.cat, mx.an)
-	like(mx.an, mx.cat)
 	for i := range lnGamma {
 		lnGamma[i] += mx.z[i]*mx.z[i]*f + math.Abs(mx.z[i])*sumCC
 	}
@@ -276,9 +507,10 @@ func (mx *Mixture) etheta(zi, zj, iStr, s float64) (et, etp float64) {
 //
 //	Gᴱˣ/(w_w RT) = −A_φ(4I/b) ln(1 + b√I) + Σ_c Σ_a m_c m_a (2B_ca + Z C_ca)
 //	              + Σ_{c<c′} m_c m_c′ (2Φ_cc′ + Σ_a m_a ψ_cc′a) + Σ_{a<a′} m_a m_a′ (2Φ_aa′ + Σ_c m_c ψ_aa′c)
+//	              + 2 Σ_n Σ_i m_n m_i λ_ni
 //
 // It exists to check Eval (the two are independent codings of the
-// model) and is not on any hot path.
+// model, sharing only the parameter lists) and is not on any hot path.
 func (mx *Mixture) ExcessGibbs(m []float64) float64 {
 	var iStr, zSum float64
 	for i, mi := range m {
@@ -290,33 +522,24 @@ func (mx *Mixture) ExcessGibbs(m []float64) float64 {
 	}
 	s := math.Sqrt(iStr)
 	g := -mx.aphi * 4 * iStr / pitzerB * math.Log1p(pitzerB*s)
-	for ci, c := range mx.cat {
-		for ai, a := range mx.an {
-			p := &mx.pair[ci][ai]
-			if !p.set {
-				continue
-			}
-			bb := p.b0 + p.b1*gFun(p.a1*s)
-			if p.b2 != 0 {
-				bb += p.b2 * gFun(p.a2*s)
-			}
-			cc := p.cphi / (2 * math.Sqrt(math.Abs(mx.z[c]*mx.z[a])))
-			g += m[c] * m[a] * (2*bb + zSum*cc)
+	for _, p := range mx.pairs {
+		bb := p.b0 + p.b1*gFun(mx.alpha[p.ia1]*s)
+		if p.ia2 >= 0 {
+			bb += p.b2 * gFun(mx.alpha[p.ia2]*s)
 		}
+		cc := p.cc
+		g += m[p.c] * m[p.a] * (2*bb + zSum*cc)
 	}
-	for _, group := range [2][2][]int{{mx.cat, mx.an}, {mx.an, mx.cat}} {
-		ions, other := group[0], group[1]
-		for x := 0; x < len(ions); x++ {
-			for y := x + 1; y < len(ions); y++ {
-				i, j := ions[x], ions[y]
-				et, _ := mx.etheta(mx.z[i], mx.z[j], iStr, s)
-				sumPsi := 0.0
-				for _, k := range other {
-					sumPsi += m[k] * mx.psi[i][j][k]
-				}
-				g += m[i] * m[j] * (2*(mx.theta[i][j]+et) + sumPsi)
-			}
+	for _, l := range mx.like {
+		et, _ := mx.etheta(mx.z[l.i], mx.z[l.j], iStr, s)
+		sumPsi := 0.0
+		for _, ps := range l.psi {
+			sumPsi += m[ps.k] * ps.v
 		}
+		g += m[l.i] * m[l.j] * (2*(l.theta+et) + sumPsi)
+	}
+	for _, t := range mx.lams {
+		g += 2 * m[t.n] * m[t.i] * t.l
 	}
 	return g
 }

@@ -74,7 +74,7 @@ func TestMixtureSingleSaltLimit(t *testing.T) {
 
 // Thermodynamic consistency of the mixture, ᴱθ and ᴱθ′ included: each ln γᵢ
 // is ∂(Gᴱˣ/w_wRT)/∂mᵢ and φ − 1 = (Σmᵢ ln γᵢ − Gᴱˣ/w_wRT)/Σmᵢ (Pitzer 1991
-// eq. 3-59). Eval and ExcessGibbs transcribe the model independently, so a
+// eq. 3-59). Eval and ExcessGibbs code the model independently, so a
 // slip in either (a missing ᴱθ′ in F, a wrong ψ or C factor) breaks this.
 // The composition is seawater-like (Na⁺, K⁺, Mg²⁺, Ca²⁺, Cl⁻, SO₄²⁻), with
 // ions of unlike charge on both sides, at 1× and 3× the concentration.
