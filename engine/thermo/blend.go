@@ -131,13 +131,10 @@ func (x *Solution) prepareMixture() error {
 	switch {
 	case len(mm.parts) == 0: // an ion composition (seawater)
 		mm.path = PathPitzerMixture
-		x.Warnings = append(x.Warnings, mm.mx.Warnings...)
-		if len(missing) > 0 {
-			x.warn(warn.ModelNote, "%s: no like-ion mixing parameters for %s; only the unsymmetrical-mixing terms are included", s.ID, strings.Join(missing, ", "))
-		}
+		x.mixtureWarnings(shares)
 	case allPitzer && len(missing) == 0:
 		mm.path = PathPitzerMixture
-		x.Warnings = append(x.Warnings, mm.mx.Warnings...)
+		x.mixtureWarnings(shares)
 	default:
 		mm.path = PathZSR
 		why := "a part is not a Pitzer salt"
@@ -209,6 +206,58 @@ func (x *Solution) mixDensity(rhoW, tC float64) (density, error) {
 
 // mixViscosity is the mixture's viscosity at solute mass fraction w.
 func (x *Solution) mixViscosity(w float64) float64 { return x.mix.props.ViscosityPaS(w) }
+
+// traceShare is the share of a formula unit's particles below which an
+// ion counts as a trace in warnings about missing parameters (its terms
+// move φ by far less than the model's accuracy).
+const traceShare = 1e-3
+
+// mixtureWarnings copies the mixture model's warnings to x, naming the
+// pairs without binary or like-ion mixing parameters only where both ions
+// are more than traces (and saying how many trace pairs were left out).
+func (x *Solution) mixtureWarnings(shares []library.IonShare) {
+	mx := x.mix.mx
+	major := map[string]bool{}
+	for _, sh := range shares {
+		if sh.PerUnit >= traceShare*x.mix.sPer {
+			major[sh.Symbol] = true
+		}
+	}
+	split := func(pairs []string, sep string) (shown []string, trace int) {
+		for _, p := range pairs {
+			a, b, _ := strings.Cut(p, sep)
+			if major[a] && major[b] {
+				shown = append(shown, p)
+			} else {
+				trace++
+			}
+		}
+		return shown, trace
+	}
+	note := func(what string, pairs []string, trace int, consequence string) {
+		if len(pairs) == 0 && trace == 0 {
+			return
+		}
+		list := strings.Join(pairs, ", ")
+		if trace > 0 {
+			if list != "" {
+				list += "; "
+			}
+			list += fmt.Sprintf("%d pairs of trace ions (under %g %% of the particles)", trace, 100*traceShare)
+		}
+		x.warn(warn.ModelNote, "%s: no %s for %s; %s", x.Solute.ID, what, list, consequence)
+	}
+	for _, w := range mx.Warnings {
+		if w.Code == warn.ModelNote && w.Subject == "mixture" {
+			continue // restated below
+		}
+		x.Warnings = append(x.Warnings, w)
+	}
+	bin, binTrace := split(mx.MissingPairs(), "–")
+	note("binary Pitzer parameters", bin, binTrace, "taken as zero (Debye–Hückel and mixing terms only)")
+	like, likeTrace := split(mx.MissingMixing(), "/")
+	note("like-ion mixing parameters", like, likeTrace, "only the unsymmetrical-mixing terms are included")
+}
 
 // ionicStrengthPerMolal returns ½ Σ ν_i z_i² of a salt: its ionic strength
 // at 1 mol/kg.
@@ -559,5 +608,22 @@ func KnownIonSymbols() []string {
 		out = append(out, s)
 	}
 	sort.Strings(out)
+	return out
+}
+// pairTableIons lists the ions of the pair and mixing tables.
+func pairTableIons() []string {
+	var out []string
+	for k := range pairTable {
+		out = append(out, k[0], k[1])
+	}
+	for k := range mixTheta {
+		out = append(out, k[0], k[1])
+	}
+	for k := range mixPsi {
+		out = append(out, k[0], k[1], k[2])
+	}
+	for k := range lambdaNeutral {
+		out = append(out, k[0], k[1])
+	}
 	return out
 }

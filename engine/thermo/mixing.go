@@ -84,6 +84,18 @@ func lookTheta(key [2]string) (float64, bool) {
 	return 0, false
 }
 
+// psiListed reports whether any ψ of the like pair key is tabulated.
+func psiListed(key [2]string) bool {
+	for _, t := range []map[[3]string]float64{mixPsi, mixPsiHMW, mixPsiOther} {
+		for k := range t {
+			if k[0] == key[0] && k[1] == key[1] {
+				return true
+			}
+		}
+	}
+	return false
+}
+
 func lookPsi(key [3]string) (float64, bool) {
 	for _, t := range []map[[3]string]float64{mixPsi, mixPsiHMW, mixPsiOther} {
 		if v, ok := t[key]; ok {
@@ -108,7 +120,9 @@ func (mx *Mixture) fillMixing() bool {
 				if th, ok := lookTheta(key); ok {
 					l.theta = th
 					set = true
-				} else {
+				} else if !psiListed(key) {
+					// A pair with ψ values but no θ was fitted with θ = 0
+					// (e.g. K⁺–Mg²⁺ in HMW 1984 Table 2): data, not a gap.
 					mx.missingTheta = append(mx.missingTheta, key[0]+"/"+key[1])
 				}
 				for _, k := range other {

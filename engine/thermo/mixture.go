@@ -95,8 +95,9 @@ type Mixture struct {
 	lams  []lambdaTerm
 	alpha []float64
 	aphi  float64
-	// missingTheta: like-charged pairs without a tabulated θ.
-	missingTheta []string
+	// missingTheta: like-charged pairs without a tabulated θ;
+	// missingPairs: cation–anion pairs without binary parameters.
+	missingTheta, missingPairs []string
 	// minerals whose ions are all present, prepared on first use by
 	// SaturationIndices.
 	mineralsOnce sync.Once
@@ -270,6 +271,7 @@ func newMixture(ions []MixIon, given map[[2]string]binary, tK float64) (*Mixture
 			mx.pairs = append(mx.pairs, t)
 		}
 	}
+	mx.missingPairs = missing
 	if len(missing) > 0 {
 		mx.Warnings = append(mx.Warnings, warn.New(warn.ModelNote, "mixture",
 			"mixture: no binary Pitzer parameters for %s; taken as zero (Debye–Hückel and mixing terms only)", strings.Join(missing, ", ")))
@@ -328,6 +330,10 @@ func (mx *Mixture) IonicStrength(m []float64) float64 {
 // fall back to a mixing rule (Zdanovskii–Stokes–Robinson) and say so. ᴱθ
 // is still applied to them where the charges differ.
 func (mx *Mixture) MissingMixing() []string { return mx.missingTheta }
+
+// MissingPairs lists the cation–anion pairs ("Na+–F-") without binary
+// parameters, taken as zero (also reported in Warnings).
+func (mx *Mixture) MissingPairs() []string { return mx.missingPairs }
 
 // WaterActivity returns the activity of water at the molalities m:
 //
