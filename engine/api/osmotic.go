@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"drawsift/engine/errs"
+	"drawsift/engine/limits"
 
 	"drawsift/engine/library"
 	"drawsift/engine/scenario"
@@ -23,6 +24,9 @@ type OsmoticRequest struct {
 	Unit          string        `json:"unit,omitempty"`
 	Mixture       []MixturePart `json:"mixture,omitempty"`
 	TemperatureC  *float64      `json:"temperature_c,omitempty"` // default 25 °C
+	// PH speciates the carbonate system when the solution holds HCO3- or
+	// CO3-2 (omitted: the composition's own pH, or a closed system).
+	PH *float64 `json:"ph,omitempty"`
 }
 
 // IonResult is one ion of the solution.
@@ -68,6 +72,9 @@ type OsmoticResponse struct {
 	// coefficient, the ionic strength, and log10(IAP/Ksp) of each mineral
 	// whose ions are present, keyed by lower-case mineral name.
 	IonicStrengthMolPerKg float64            `json:"ionic_strength_mol_per_kg"`
+	// PH of the carbonate system where the solution holds carbonate (the
+	// request's, the composition's, or the closed system's).
+	PH *float64 `json:"ph,omitempty"`
 	Ions                  []IonResult        `json:"ions"`
 	SaturationIndices     map[string]float64 `json:"saturation_indices"`
 	// Components lists a blend's parts (omitted for a single solute).
@@ -115,7 +122,14 @@ func Osmotic(req *OsmoticRequest) (*OsmoticResponse, *Error) {
 	if err != nil {
 		return nil, fromEngine("", err)
 	}
-	ionic, err := x.IonsAt(m)
+	pH := math.NaN()
+	if req.PH != nil {
+		if err := limits.FeedPH.CheckAt("ph", *req.PH); err != nil {
+			return nil, fromEngine("", err)
+		}
+		pH = *req.PH
+	}
+	ionic, err := x.IonsAt(m, pH)
 	if err != nil {
 		return nil, fromEngine("", err)
 	}
@@ -189,6 +203,10 @@ func osmoticResponse(s *library.Solute, x *thermo.Solution, st thermo.State, ion
 			ir.ActivityCoefficient = &g
 		}
 		r.Ions = append(r.Ions, ir)
+	}
+	if ionic.HasPH {
+		ph := ionic.PH
+		r.PH = &ph
 	}
 	for _, sat := range ionic.Saturation {
 		r.SaturationIndices[sat.Mineral] = sat.SI

@@ -41,6 +41,11 @@ type mixModel struct {
 	parts []*Solution
 	x     []float64
 	props *MixBlend // density and viscosity
+	// The ion-level model for IonsAt (with the carbonate species), built
+	// on first use.
+	ionsOnce sync.Once
+	ions     *ionModel
+	ionsErr  error
 }
 
 // MixturePath reports which model computes a mixture Solution's osmotic
@@ -472,7 +477,11 @@ type IonicState struct {
 	Ions                  []IonState
 	IonicStrengthMolPerKg float64
 	Saturation            []Saturation
-	Warnings              []warn.Warning
+	// PH is the pH of the closed carbonate system (free-H⁺ activity
+	// scale of the model) when the solution holds carbonate; HasPH.
+	PH       float64
+	HasPH    bool
+	Warnings []warn.Warning
 }
 
 // IonsAt returns the ion-level state of the solution at molality m: every
@@ -483,41 +492,74 @@ type IonicState struct {
 // equations (TestMixtureSingleSaltLimit). A non-electrolyte has no ions.
 // Saturation indices of a ZSR blend use the mixed-electrolyte model's
 // activities (flagged).
-func (x *Solution) IonsAt(m float64) (IonicState, error) {
+//
+// Carbonate: with HCO₃⁻ or CO₃²⁻ present the carbonate system is
+// speciated at pH (when it is a number in 0–14), else at the pH of the
+// composition's own water record (seawater: its preset's), else as a
+// closed system of the given DIC and alkalinity (the pH follows). The
+// model has no carbonate ion pairs (CaCO₃°, MgCO₃°), so a closed-system pH
+// from a composition whose carbonate was apportioned with them runs high;
+// a measured pH is the better input.
+func (x *Solution) IonsAt(m, pH float64) (IonicState, error) {
 	var st IonicState
 	shares := x.Solute.IonShares()
 	if len(shares) == 0 {
 		return st, nil
 	}
-	mx, per := (*Mixture)(nil), []float64(nil)
+	var im *ionModel
+	var err error
 	if x.mix != nil {
-		mx, per = x.mix.mx, x.mix.per
+		x.mix.ionsOnce.Do(func() { x.mix.ions, x.mix.ionsErr = newIonModel(shares, x.TK) })
+		im, err = x.mix.ions, x.mix.ionsErr
 	} else {
-		ions := make([]MixIon, len(shares))
-		for k, sh := range shares {
-			ions[k] = MixIon{Symbol: sh.Symbol, Charge: sh.Charge}
-		}
-		var err error
-		if mx, err = NewIonMixture(ions, x.TK); err != nil {
-			return st, err
-		}
-		if per, err = ionVector(mx, shares); err != nil {
-			return st, err
-		}
+		im, err = newIonModel(shares, x.TK)
 	}
-	mi := make([]float64, len(per))
-	for i, p := range per {
+	if err != nil {
+		return st, err
+	}
+	mx := im.mx
+	mi := make([]float64, len(im.per))
+	for i, p := range im.per {
 		mi[i] = p * m
 	}
-	lng := make([]float64, len(per))
+	if !(pH >= 0 && pH <= 14) {
+		if f, ok := library.LookupFeed(x.Solute.Osmotic.CompositionFeed); ok && x.Solute.Osmotic.CompositionFeed != "" {
+			pH = f.PH
+		}
+	}
+	if im.carbonate && m > 0 {
+		var sp []float64
+		var err error
+		if pH >= 0 && pH <= 14 {
+			sp, err = mx.SpeciateCarbonate(mi, pH)
+		} else {
+			// Closed system: the HCO₃⁻ and CO₃²⁻ give DIC and alkalinity.
+			ix, _ := mx.Index("HCO3-")
+			jx, _ := mx.Index("CO3-2")
+			sp, pH, err = mx.SpeciateAlkalinity(mi, mi[ix]+mi[jx], mi[ix]+2*mi[jx])
+		}
+		if err == nil {
+			mi, st.PH, st.HasPH = sp, pH, true
+		} else {
+			st.Warnings = append(st.Warnings, warn.New(warn.ModelNote, x.Solute.ID,
+				"%s: carbonate speciation did not converge (%v); carbonate ions taken as given", x.Solute.ID, err))
+		}
+	}
+	lng := make([]float64, len(mi))
 	mx.Eval(mi, lng)
 	gammaOK := x.kind == library.ModelPitzer || x.mix != nil
 	for i, ion := range mx.Ions() {
+		if mi[i] == 0 && im.added[i] {
+			continue // a carbonate species absent at this pH
+		}
 		st.Ions = append(st.Ions, IonState{Symbol: ion.Symbol, Charge: ion.Charge, MolalityMolPerKg: mi[i],
 			LnGamma: lng[i], HasGamma: gammaOK && !math.IsNaN(lng[i]) && !math.IsInf(lng[i], 0)})
 	}
 	st.IonicStrengthMolPerKg = mx.IonicStrength(mi)
 	st.Saturation = mx.SaturationIndices(mi)
+	for _, s := range st.Saturation {
+		st.Warnings = append(st.Warnings, s.Warnings...)
+	}
 	if x.mix != nil && x.mix.path == PathZSR && len(st.Saturation) > 0 {
 		st.Warnings = append(st.Warnings, warn.New(warn.ModelNote, x.Solute.ID,
 			"%s: saturation indices use the mixed-electrolyte model's activities, though the osmotic pressure comes from the ZSR rule", x.Solute.ID))
@@ -527,6 +569,48 @@ func (x *Solution) IonsAt(m float64) (IonicState, error) {
 			"%s: ion activity coefficients are not reported, the solute's osmotic model is not a Pitzer one", x.Solute.ID))
 	}
 	return st, nil
+}
+
+// ionModel is the mixed-electrolyte model over a solution's ions (and the
+// carbonate species when it holds HCO₃⁻ or CO₃²⁻), for IonsAt.
+type ionModel struct {
+	mx        *Mixture
+	per       []float64 // ion molality per unit molality
+	added     []bool    // species added for the carbonate system
+	carbonate bool
+}
+
+func newIonModel(shares []library.IonShare, tK float64) (*ionModel, error) {
+	im := &ionModel{}
+	ions := make([]MixIon, 0, len(shares)+5)
+	have := map[string]bool{}
+	for _, sh := range shares {
+		ions = append(ions, MixIon{Symbol: sh.Symbol, Charge: sh.Charge})
+		have[sh.Symbol] = true
+	}
+	im.carbonate = have["HCO3-"] || have["CO3-2"]
+	if im.carbonate {
+		for _, c := range CarbonateIons() {
+			if !have[c.Symbol] {
+				ions = append(ions, c)
+				have[c.Symbol] = true
+			}
+		}
+	}
+	mx, err := NewIonMixture(ions, tK)
+	if err != nil {
+		return nil, err
+	}
+	per, err := ionVector(mx, shares)
+	if err != nil {
+		return nil, err
+	}
+	im.mx, im.per = mx, per
+	im.added = make([]bool, len(per))
+	for i, p := range per {
+		im.added[i] = p == 0
+	}
+	return im, nil
 }
 
 // mixDiffusivity returns a blend's effective diffusivity at molality m:
