@@ -18,6 +18,9 @@ type OsmoticRequest struct {
 	Concentration *float64 `json:"concentration"`
 	Unit          string   `json:"unit"`
 	TemperatureC  *float64 `json:"temperature_c,omitempty"` // default 25 °C
+	// AllowExtrapolation computes past the osmotic model's data (flagged);
+	// default false: refused with the limit (scenario.CheckDataRange).
+	AllowExtrapolation bool `json:"allow_extrapolation,omitempty"`
 }
 
 // OsmoticResponse holds every property of the solution.
@@ -88,6 +91,9 @@ func Osmotic(req *OsmoticRequest) (*OsmoticResponse, *Error) {
 	}
 	st, err := x.StateAt(m, u)
 	if err != nil {
+		return nil, fromEngine("", err)
+	}
+	if err := scenario.CheckDataRange("", x, m, u, req.AllowExtrapolation); err != nil {
 		return nil, fromEngine("", err)
 	}
 	return osmoticResponse(s, x, st, tK), nil

@@ -34,6 +34,22 @@ type FluxSpec struct {
 	BFeedLMH     *float64 `json:"b_feed_lmh,omitempty"`
 	OsmoticModel string   `json:"osmotic_model,omitempty"` // "real" (default) or "van-t-hoff"
 	DeltaPBar    *float64 `json:"delta_p_bar,omitempty"`   // hydraulic pressure on the draw side
+	// AllowExtrapolation computes a draw or feed past its osmotic model's
+	// data (flagged), as the scenario's switch of the same name keeps such
+	// candidates; default false: refused with the limit (CheckDataRange).
+	AllowExtrapolation bool `json:"allow_extrapolation,omitempty"`
+}
+
+// CheckDataRange refuses molality m of solution x when it lies past the
+// osmotic model's data limit and past any bridge to a measured saturated
+// solution (thermo.Solution.CheckSupported), unless allow is set: the
+// error names prefix's concentration field and gives the limit in unit u.
+// The osmotic and flux requests call it for their bulk concentrations.
+func CheckDataRange(prefix string, x *thermo.Solution, m float64, u thermo.Unit, allow bool) error {
+	if allow {
+		return nil
+	}
+	return prefixed(prefix, x.CheckSupported(m, u))
 }
 
 // Side is one prepared stream: its solute, its solution at the
@@ -44,6 +60,7 @@ type Side struct {
 	M      float64 // molality, mol/kg
 	CSI    float64 // molarity, mol/m³
 	State  thermo.State
+	Unit   thermo.Unit // the request's unit
 }
 
 // PrepareSide checks one stream's solute and concentration (fields under
@@ -69,7 +86,7 @@ func PrepareSide(prefix string, c *Concentration, tK float64) (*Side, error) {
 	if err != nil {
 		return nil, prefixed(prefix, err)
 	}
-	return &Side{Solute: s, X: x, M: m, CSI: st.MolarityMolPerM3, State: st}, nil
+	return &Side{Solute: s, X: x, M: m, CSI: st.MolarityMolPerM3, State: st, Unit: u}, nil
 }
 
 // Fluid is the side's bulk solution as the Sherwood correlations see it,
@@ -141,6 +158,16 @@ func ResolveFlux(req *FluxSpec) (*Flux, error) {
 	feed, err := PrepareSide("feed", feedSpec, tK)
 	if err != nil {
 		return nil, err
+	}
+	if model != VantHoff {
+		for _, sd := range []struct {
+			prefix string
+			side   *Side
+		}{{"draw", draw}, {"feed", feed}} {
+			if err := CheckDataRange(sd.prefix, sd.side.X, sd.side.M, sd.side.Unit, req.AllowExtrapolation); err != nil {
+				return nil, err
+			}
+		}
 	}
 	deltaP, err := limits.DeltaP.Or(req.DeltaPBar)
 	if err != nil {
