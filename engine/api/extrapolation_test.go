@@ -101,3 +101,32 @@ func anyContains(list any, sub string) bool {
 	}
 	return false
 }
+
+// The screen's allow_extrapolation has the same meaning: a candidate
+// needed on the bridge to its measured saturated solution is ranked
+// (flagged) without the switch; one needed past its data with no
+// measurement is excluded for validity.
+func TestScreenBridge(t *testing.T) {
+	m, e := dispatch(t, OpScreen, `{"feed":{"solute":"NaCl","concentration":0.1,"unit":"mol/L"},"candidates":["LiCl","NaHCO3"],
+		"basis":{"kind":"concentration","value":1.1,"unit":"mol/kg"}}`)
+	if e != nil {
+		t.Fatal(e)
+	}
+	cs, _ := m["candidates"].([]any)
+	ex, _ := m["excluded"].([]any)
+	if len(cs) != 1 || cs[0].(map[string]any)["solute"] != "LiCl" || len(ex) != 1 || ex[0].(map[string]any)["solute"] != "NaHCO3" {
+		t.Fatalf("candidates %v, excluded %v: want LiCl ranked (within its data) and NaHCO3 excluded", cs, ex)
+	}
+	m, e = dispatch(t, OpScreen, `{"feed":{"solute":"NaCl","concentration":0.1,"unit":"mol/L"},"candidates":["LiCl"],
+		"basis":{"kind":"concentration","value":12,"unit":"mol/kg"}}`)
+	if e != nil {
+		t.Fatal(e)
+	}
+	cs, _ = m["candidates"].([]any)
+	if len(cs) != 1 {
+		t.Fatalf("LiCl at 12 mol/kg (on the bridge): candidates %v, excluded %v", cs, m["excluded"])
+	}
+	if !anyContains(cs[0].(map[string]any)["warnings"], "measured saturated solution") && !anyContains(m["warnings"], "measured saturated solution") {
+		t.Errorf("LiCl on the bridge not flagged: %v / %v", cs[0].(map[string]any)["warnings"], m["warnings"])
+	}
+}

@@ -267,8 +267,10 @@ func (f *Flux) ResultWarnings(res *transport.Result) []warn.Warning {
 		m, ok := x.MolalityFromMolarity(cSI)
 		if !ok || m > x.SolubilityMolPerKg() {
 			w = append(w, warn.New(warn.Solubility, id, "%s at the %s (%.3g mol/L) exceeds its solubility: precipitation or scaling is possible", id, where, cSI/1000))
-		} else if m > x.ValidMolPerKg() {
+		} else if m > x.SupportedMolPerKg() {
 			w = append(w, warn.New(warn.Extrapolated, id, "%s at the %s (%.3g mol/kg) is above the osmotic model's data limit; π there is extrapolated", id, where, m))
+		} else if m > x.ValidMolPerKg() {
+			w = append(w, warn.New(warn.Bridged, id, "%s at the %s (%.3g mol/kg) is above the osmotic model's data limit; π there is interpolated to the measured saturated solution", id, where, m))
 		}
 	}
 	sp := res.Species[0]
