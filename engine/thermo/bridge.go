@@ -22,11 +22,11 @@ import (
 //	g′(m1) = δ·max(2 − α, 1),  α = g′(m0)/δ,  δ = (g(m1) − g(m0))/(m1 − m0)
 //
 // For α ≤ 1 this is the quadratic through both ends with the model's
-// slope (no inflection); for 1 < α < 4 the end slope is the secant δ,
-// which lies inside the region where a cubic Hermite is monotone
-// (Fritsch & Carlson 1980, SIAM J. Numer. Anal. 17:238, the region
-// bounded by α² + αβ + β² − 6α − 6β + 9 = 0: with β = 1 its value is
-// (4 − α)/3 ≥ 0 off the ellipse's inside, see TestBridgeMonotone). We
+// slope (α + β = 2: monotone, no inflection); for 1 < α < 4 the end slope
+// is the secant δ (β = 1), inside the region where a cubic Hermite is
+// monotone (Fritsch & Carlson 1980, SIAM J. Numer. Anal. 17:238: for
+// α + β > 2 it is monotone if α − (2α + β − 3)²/(3(α + β − 2)) ≥ 0, which
+// at β = 1 reads (4 − α)/3 ≥ 0; TestBridgeMonotone checks it). We
 // interpolate g (equivalently ln a_w) rather than φ because π is linear
 // in g, so the monotonicity of the interpolant is the monotonicity of π.
 // If the model rises more than 4× faster than the secant (α ≥ 4) no
