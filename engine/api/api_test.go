@@ -82,20 +82,27 @@ func TestOsmoticErrors(t *testing.T) {
 
 // No response may carry NaN or Inf: JSON cannot encode them, so a
 // successful Marshal is the check; every library solute is run near its
-// solubility at the ends of the temperature range.
+// solubility at the ends of the temperature range, with allow_extrapolation
+// (past the model's data the result is computed and flagged) and without
+// it (then a concentration past the data is refused, naming the field and
+// the limit).
 func TestOsmoticEverySoluteFinite(t *testing.T) {
 	resp, _ := Solutes()
 	for _, s := range resp.Solutes {
 		for _, tC := range []float64{0, 25, 100} {
 			for _, frac := range []float64{0, 0.5, 0.999} {
-				b, e := dispatch(t, OpOsmotic, fmt.Sprintf(`{"solute":%q,"concentration":%g,"unit":"mol/kg","temperature_c":%g}`,
-					s.ID, frac*soluteTop(s.ID, tC), tC))
-				if e != nil {
-					t.Errorf("%s %g °C: %v", s.ID, tC, e)
-					continue
-				}
-				if w, ok := b["warnings"]; !ok || w == nil {
-					t.Errorf("%s: warnings must be a list, even empty", s.ID)
+				for _, allow := range []bool{true, false} {
+					b, e := dispatch(t, OpOsmotic, fmt.Sprintf(`{"solute":%q,"concentration":%g,"unit":"mol/kg","temperature_c":%g,"allow_extrapolation":%v}`,
+						s.ID, frac*soluteTop(s.ID, tC), tC, allow))
+					if e != nil {
+						if allow || e.Field != "concentration" || e.Kind != KindInvalid || e.Limit == nil {
+							t.Errorf("%s %g °C allow_extrapolation=%v: %v", s.ID, tC, allow, e)
+						}
+						continue
+					}
+					if w, ok := b["warnings"]; !ok || w == nil {
+						t.Errorf("%s: warnings must be a list, even empty", s.ID)
+					}
 				}
 			}
 		}

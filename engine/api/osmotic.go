@@ -27,6 +27,9 @@ type OsmoticRequest struct {
 	// PH speciates the carbonate system when the solution holds HCO3- or
 	// CO3-2 (omitted: the composition's own pH, or a closed system).
 	PH *float64 `json:"ph,omitempty"`
+	// AllowExtrapolation computes past the osmotic model's data (flagged);
+	// default false: refused with the limit (scenario.CheckDataRange).
+	AllowExtrapolation bool `json:"allow_extrapolation,omitempty"`
 }
 
 // IonResult is one ion of the solution.
@@ -120,6 +123,9 @@ func Osmotic(req *OsmoticRequest) (*OsmoticResponse, *Error) {
 	}
 	st, err := x.StateAt(m, u)
 	if err != nil {
+		return nil, fromEngine("", err)
+	}
+	if err := scenario.CheckDataRange("", x, m, u, req.AllowExtrapolation); err != nil {
 		return nil, fromEngine("", err)
 	}
 	pH := math.NaN()

@@ -245,6 +245,19 @@ func (s *Solute) Validate() error {
 			return bad("solubility.points", "temperatures must increase")
 		}
 	}
+	if a := s.Solubility.SaturatedWaterActivity; a != nil {
+		if s.Solubility.Miscible || len(s.Solubility.Points) == 0 {
+			return bad("solubility.saturated_water_activity", "needs solubility points: it is the water activity at saturation")
+		}
+		if !(a.MinC >= 0 && a.MaxC <= 100 && a.MinC <= a.MaxC) || !(a.UncertaintyPercentRH > 0 && a.UncertaintyPercentRH < 100) {
+			return bad("solubility.saturated_water_activity", "needs 0 ≤ min_c ≤ max_c ≤ 100 °C and 0 < uncertainty_percent_rh < 100")
+		}
+		for _, tC := range []float64{a.MinC, a.MaxC} {
+			if aw, _ := a.At(tC); !(aw > 0 && aw < 1) {
+				return bad("solubility.saturated_water_activity", "a_percent·exp(b_k/T)/100 must lie in (0, 1) over %g–%g °C, got %v at %g °C", a.MinC, a.MaxC, aw, tC)
+			}
+		}
+	}
 	if !(s.Diffusivity.D0M2PerS > 0 && s.Diffusivity.D0M2PerS < 1e-8) {
 		return bad("diffusivity.d0_m2_per_s", "must be in (0, 1e-8) m²/s, got %v", s.Diffusivity.D0M2PerS)
 	}

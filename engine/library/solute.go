@@ -7,7 +7,15 @@
 // published source, "common practice" or "from memory".
 package library
 
-import "strings"
+import (
+	"math"
+	"strings"
+)
+
+// zeroCelsiusK is 0 °C in kelvin (exact, by the definition of the
+// Celsius scale); thermo.ZeroCelsiusK is the same constant above this
+// package.
+const zeroCelsiusK = 273.15
 
 // Solute is one draw (or feed) solute as stored in data/solutes.json.
 type Solute struct {
@@ -230,6 +238,34 @@ type Solubility struct {
 	Points     []SolubilityPoint `json:"points"`
 	// Miscible marks solutes with no solubility limit in the range (glycerol).
 	Miscible bool `json:"miscible,omitempty"`
+	// SaturatedWaterActivity is the measured water activity of the
+	// saturated solution against temperature, where it is published.
+	SaturatedWaterActivity *SaturatedWaterActivity `json:"saturated_water_activity,omitempty"`
+}
+
+// SaturatedWaterActivity is the equilibrium relative humidity over the
+// saturated solution (its water activity) in the form of the CRC
+// Handbook's table of constant-humidity solutions (A. Wexler, after
+// Greenspan 1977 and Wexler & Seinfeld 1991):
+//
+//	a_w,sat(T) = (A/100) · exp(B/T),   T in kelvin, MinC ≤ T − 273.15 ≤ MaxC
+//
+// UncertaintyPercentRH is the stated accuracy in percent relative humidity.
+type SaturatedWaterActivity struct {
+	APercent             float64 `json:"a_percent"`
+	BK                   float64 `json:"b_k"`
+	MinC                 float64 `json:"min_c"`
+	MaxC                 float64 `json:"max_c"`
+	UncertaintyPercentRH float64 `json:"uncertainty_percent_rh"`
+}
+
+// At returns the saturated solution's water activity at tC °C, and false
+// outside the measured temperature range.
+func (a *SaturatedWaterActivity) At(tC float64) (float64, bool) {
+	if a == nil || tC < a.MinC || tC > a.MaxC {
+		return 0, false
+	}
+	return a.APercent / 100 * math.Exp(a.BK/(tC+zeroCelsiusK)), true
 }
 
 // SolubilityPoint is the saturation molality at one temperature.

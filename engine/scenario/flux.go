@@ -37,6 +37,22 @@ type FluxSpec struct {
 	BFeedLMH     *float64 `json:"b_feed_lmh,omitempty"`
 	OsmoticModel string   `json:"osmotic_model,omitempty"` // "real" (default) or "van-t-hoff"
 	DeltaPBar    *float64 `json:"delta_p_bar,omitempty"`   // hydraulic pressure on the draw side
+	// AllowExtrapolation computes a draw or feed past its osmotic model's
+	// data (flagged), as the scenario's switch of the same name keeps such
+	// candidates; default false: refused with the limit (CheckDataRange).
+	AllowExtrapolation bool `json:"allow_extrapolation,omitempty"`
+}
+
+// CheckDataRange refuses molality m of solution x when it lies past the
+// osmotic model's data limit and past any bridge to a measured saturated
+// solution (thermo.Solution.CheckSupported), unless allow is set: the
+// error names prefix's concentration field and gives the limit in unit u.
+// The osmotic and flux requests call it for their bulk concentrations.
+func CheckDataRange(prefix string, x *thermo.Solution, m float64, u thermo.Unit, allow bool) error {
+	if allow {
+		return nil
+	}
+	return prefixed(prefix, x.CheckSupported(m, u))
 }
 
 // Side is one prepared stream: its solute, its solution at the
@@ -47,6 +63,7 @@ type Side struct {
 	M      float64 // molality, mol/kg
 	CSI    float64 // molarity, mol/m³
 	State  thermo.State
+	Unit   thermo.Unit // the request's unit
 }
 
 // PrepareSide checks one stream's solute and concentration (fields under
@@ -65,7 +82,7 @@ func sideAt(prefix string, x *thermo.Solution, m float64, u thermo.Unit) (*Side,
 	if err != nil {
 		return nil, prefixed(prefix, err)
 	}
-	return &Side{Solute: x.Solute, X: x, M: m, CSI: st.MolarityMolPerM3, State: st}, nil
+	return &Side{Solute: x.Solute, X: x, M: m, CSI: st.MolarityMolPerM3, State: st, Unit: u}, nil
 }
 
 // prepareSolution reads one stream (fields under prefix): a solute at a
@@ -167,6 +184,16 @@ func ResolveFlux(req *FluxSpec) (*Flux, error) {
 	if err != nil {
 		return nil, err
 	}
+	if model != VantHoff {
+		for _, sd := range []struct {
+			prefix string
+			side   *Side
+		}{{"draw", draw}, {"feed", feed}} {
+			if err := CheckDataRange(sd.prefix, sd.side.X, sd.side.M, sd.side.Unit, req.AllowExtrapolation); err != nil {
+				return nil, err
+			}
+		}
+	}
 	deltaP, err := limits.DeltaP.Or(req.DeltaPBar)
 	if err != nil {
 		return nil, err
@@ -265,8 +292,10 @@ func (f *Flux) ResultWarnings(res *transport.Result) []warn.Warning {
 		m, ok := x.MolalityFromMolarity(cSI)
 		if !ok || m > x.SolubilityMolPerKg() {
 			w = append(w, warn.New(warn.Solubility, id, "%s at the %s (%.3g mol/L) exceeds its solubility: precipitation or scaling is possible", id, where, cSI/1000))
-		} else if m > x.ValidMolPerKg() {
+		} else if m > x.SupportedMolPerKg() {
 			w = append(w, warn.New(warn.Extrapolated, id, "%s at the %s (%.3g mol/kg) is above the osmotic model's data limit; π there is extrapolated", id, where, m))
+		} else if m > x.ValidMolPerKg() {
+			w = append(w, warn.New(warn.Bridged, id, "%s at the %s (%.3g mol/kg) is above the osmotic model's data limit; π there is interpolated to the measured saturated solution", id, where, m))
 		}
 	}
 	sp := res.Species[0]

@@ -496,10 +496,11 @@ func (e *env) metricsAt(c *candidate, ori transport.Orientation, m float64, p *p
 	if m > sol*(1+1e-9) {
 		return &exclusion{ReasonInsoluble, fmt.Sprintf("%s: %.4g mol/kg is beyond its solubility of %.4g mol/kg", c.sol.ID, m, sol)}
 	}
-	// The osmotic model's data limit matters only when that model gives π.
-	if !sc.AllowExtrapolation && !sc.VantHoff && m > x.ValidMolPerKg()*(1+1e-9) {
+	// The osmotic model's data limit matters only when that model gives π;
+	// a bridge to the measured saturated solution carries it to solubility.
+	if !sc.AllowExtrapolation && !sc.VantHoff && m > x.SupportedMolPerKg()*(1+1e-9) {
 		return &exclusion{ReasonValidity, fmt.Sprintf("%s: %.4g mol/kg is above the %s model's data limit of %.4g mol/kg (set allow_extrapolation to keep it, flagged)",
-			c.sol.ID, m, c.sol.Osmotic.Kind, x.ValidMolPerKg())}
+			c.sol.ID, m, c.sol.Osmotic.Kind, x.SupportedMolPerKg())}
 	}
 	if err := e.solve(c, ori, m, p, scratch); err != nil {
 		return &exclusion{ReasonNotEvaluated, err.Error()}

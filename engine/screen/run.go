@@ -171,7 +171,10 @@ func metricWarnings(c *candidate, m *Metrics) []warn.Warning {
 	var w []warn.Warning
 	id := c.sol.ID
 	x := c.x
-	if m.MolalityMolPerKg > x.ValidMolPerKg()*(1+1e-9) {
+	if from, _, ok := x.BridgeMolPerKg(); ok && m.MolalityMolPerKg > from*(1+1e-9) {
+		w = append(w, warn.New(warn.Bridged, id, "%s: %.4g mol/kg is above the osmotic model's data limit of %.4g mol/kg; π is interpolated to the measured saturated solution",
+			c.sol.ID, m.MolalityMolPerKg, from))
+	} else if m.MolalityMolPerKg > x.ValidMolPerKg()*(1+1e-9) {
 		w = append(w, warn.New(warn.Extrapolated, id, "%s: %.4g mol/kg is above the osmotic model's data limit of %.4g mol/kg (extrapolated)",
 			c.sol.ID, m.MolalityMolPerKg, x.ValidMolPerKg()))
 	}

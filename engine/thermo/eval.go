@@ -31,10 +31,15 @@ func (x *Solution) Kind() string { return x.kind }
 
 // mPhi returns g = m·φ(m) and dg/dm for the solute's model (ν·g is the
 // total osmolality in osmol/kg). It is the kernel of every osmotic
-// quantity; callers keep m within [0, capMolal].
+// quantity; callers keep m within [0, capMolal]. Between the model's data
+// limit and the solubility it is the bridge to the measured saturated
+// solution where there is one (bridge.go).
 func (x *Solution) mPhi(m float64) (g, dg float64) {
 	if m <= 0 {
 		return 0, 1
+	}
+	if x.br != nil && m > x.br.m0 {
+		return x.br.eval(m)
 	}
 	switch x.kind {
 	case library.ModelPitzer:
@@ -111,17 +116,22 @@ func (x *Solution) OsmoticCoefficient(m float64) float64 {
 	if m <= 0 {
 		return 1
 	}
-	if x.kind == library.ModelPitzer {
+	if x.kind == library.ModelPitzer && !x.bridged(m) {
 		return x.pz.phi(m)
 	}
 	g, _ := x.mPhi(m)
 	return g / m
 }
 
+// bridged reports whether m lies on the bridge to the measured saturated
+// solution.
+func (x *Solution) bridged(m float64) bool { return x.br != nil && m > x.br.m0 }
+
 // LnActivityCoefficient returns ln γ±, the mean molal activity
-// coefficient's logarithm, where the model defines it (Pitzer salts).
+// coefficient's logarithm, where the model defines it (Pitzer salts, within
+// the model's range: the bridge gives the water activity only).
 func (x *Solution) LnActivityCoefficient(m float64) (float64, bool) {
-	if x.kind != library.ModelPitzer {
+	if x.kind != library.ModelPitzer || x.bridged(m) {
 		return 0, false
 	}
 	return x.pz.lnGamma(m), true

@@ -21,6 +21,11 @@ type fastPi struct {
 	h, invH float64   // grid step in s
 	sTop    float64   // √capC
 	p, dps  []float64 // π and dπ/ds at the nodes
+	// bridgeI is the interval where a bridge to a measured saturated
+	// solution starts (bridge.go): π is C¹ but not C² there and the bridge
+	// can bend sharply over a short range, so from this interval up it is
+	// evaluated exactly. Past the table without a bridge.
+	bridgeI int
 }
 
 // FastOsmoticFunc returns a function with the contract of OsmoticFunc —
@@ -32,7 +37,8 @@ type fastPi struct {
 // error in π is below 1e-8 of π plus 1e-10 of π at the top of the range,
 // and dπ/dc is within 1e-4 relative (solvers use it for Newton steps
 // only). Beyond the range it is exact (the same linear extension), and in
-// the lowest intervals OsmoticFunc itself is called.
+// the lowest intervals and on a bridge to a measured saturated solution
+// (bridge.go) OsmoticFunc itself is called.
 func (x *Solution) FastOsmoticFunc() func(c float64) (float64, float64) {
 	x.fastOnce.Do(x.buildFastPi)
 	f := x.fast
@@ -43,9 +49,9 @@ func (x *Solution) FastOsmoticFunc() func(c float64) (float64, float64) {
 		s := math.Sqrt(c)
 		t := s * f.invH
 		i := int(t)
-		if i < fastPiExact {
+		if i < fastPiExact || i >= f.bridgeI {
 			// First intervals: dπ/dc = (dπ/ds)/(2s) is ill-conditioned
-			// near s = 0; evaluate the model directly.
+			// near s = 0; and the bridge's start: evaluate the model directly.
 			return x.OsmoticFunc(c)
 		}
 		if i >= fastPiIntervals {
@@ -66,9 +72,12 @@ func (x *Solution) FastOsmoticFunc() func(c float64) (float64, float64) {
 
 // buildFastPi fills the table; run once through fastOnce.
 func (x *Solution) buildFastPi() {
-	f := &fastPi{sTop: math.Sqrt(x.capC)}
+	f := &fastPi{sTop: math.Sqrt(x.capC), bridgeI: fastPiIntervals + 1}
 	f.h = f.sTop / fastPiIntervals
 	f.invH = 1 / f.h
+	if x.br != nil {
+		f.bridgeI = int(math.Sqrt(x.molarityFromMolality(x.br.m0)) * f.invH)
+	}
 	f.p = make([]float64, fastPiIntervals+1)
 	f.dps = make([]float64, fastPiIntervals+1)
 	for i := 0; i <= fastPiIntervals; i++ {

@@ -44,6 +44,8 @@ type Solution struct {
 	muW   float64 // pure-water viscosity, Pa·s
 	etaRT *interp.PiecewiseLinear
 
+	br *bridge // model → measured saturated solution, between validMolal and solMolal; nil if none
+
 	solMolal   float64 // solubility at T, mol/kg (+Inf if miscible)
 	validMolal float64 // upper limit of the model's data, mol/kg
 	capMolal   float64 // top of the solver's working range (monotone extension beyond)
@@ -131,6 +133,7 @@ func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 		// up to the solid's saturation.
 		x.validMolal = x.solMolal
 	}
+	x.prepareBridge()
 	x.prepareCap()
 	x.topMolal = x.solMolal
 	if math.IsInf(x.topMolal, 0) {

@@ -63,7 +63,9 @@ func (x *Solution) StateAt(m float64, u Unit) (State, error) {
 	}
 	st := State{MolalityMolPerKg: m, SolubilityMolPerKg: x.solMolal}
 	st.Warnings = append(st.Warnings, x.Warnings...)
-	if m > x.validMolal*(1+1e-9) {
+	if x.bridged(m) {
+		st.Warnings = append(st.Warnings, x.bridgeWarning(m))
+	} else if m > x.validMolal*(1+1e-9) {
 		st.Warnings = append(st.Warnings, warn.New(warn.Extrapolated, x.Solute.ID, "%s: %s mol/kg is above the %s model's data limit of %s mol/kg (extrapolated)",
 			x.Solute.ID, trimFloat(m), x.kind, trimFloat(x.validMolal)))
 	}

@@ -16,6 +16,7 @@ type Code string
 const (
 	// Model validity.
 	Extrapolated   Code = "extrapolated"    // past a model's data or fit range
+	Bridged        Code = "bridged"         // between a model's data limit and a measured saturated solution
 	Temperature25C Code = "temperature-25c" // 25 °C data used at another temperature
 	NoModel        Code = "no-model"        // van 't Hoff only: no non-ideal model
 	Solubility     Code = "solubility"      // at or past solubility

@@ -52,7 +52,12 @@
     for (let i = 1; i <= 24; i++) grid.push(cmax * i / 24);
     const batch = [];
     const lib = ids.filter(id => state.library.some(s => s.id === id));
-    for (const id of lib) for (const c of grid) batch.push({ op: "osmotic", body: { solute: id, concentration: c, unit: "mol/L", temperature_c: tC } });
+    // The scenario's allow_extrapolation reaches the osmotic requests too, so
+    // the curve covers what the ranking used: without it the engine refuses
+    // points past a model's data (and its bridge to the measured saturated
+    // solution), and those points are left out.
+    const extrap = state.scenario.allow_extrapolation ? { allow_extrapolation: true } : {};
+    for (const id of lib) for (const c of grid) batch.push({ op: "osmotic", body: Object.assign({ solute: id, concentration: c, unit: "mol/L", temperature_c: tC }, extrap) });
     const br = await state.engine.call("batch", batch);
     if (seq !== state.runSeq) return;
     const series = [], legendItems = [];
