@@ -238,6 +238,11 @@ type Solubility struct {
 	Points     []SolubilityPoint `json:"points"`
 	// Miscible marks solutes with no solubility limit in the range (glycerol).
 	Miscible bool `json:"miscible,omitempty"`
+	// Minerals names the solids (lower-case mineral names of the
+	// mixed-electrolyte model's set) whose saturation limits this solute
+	// in a mixture: a blend or an ion composition reaches its solubility
+	// where the first of them does.
+	Minerals []string `json:"minerals,omitempty"`
 	// SaturatedWaterActivity is the measured water activity of the
 	// saturated solution against temperature, where it is published.
 	SaturatedWaterActivity *SaturatedWaterActivity `json:"saturated_water_activity,omitempty"`

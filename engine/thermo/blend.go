@@ -274,18 +274,86 @@ func ionicStrengthPerMolal(s *library.Solute) float64 {
 	return v
 }
 
-// mixSolubility returns min_k m_sat,k / x_k for a blend (see
-// prepareMixture), or the record's own solubility.
-func (x *Solution) mixSolubility(tC float64) float64 {
+// mixSolubility returns the molality at which the mixture first reaches
+// a solid's saturation: for each part (or for an ion composition, the
+// record) that names its minerals (library Solubility.Minerals), the
+// molality where the first of them reaches SI = 0 in this mixture, from
+// the mixed-electrolyte model's activities (so the common-ion effect is
+// included); a part without minerals is held within its own binary
+// solubility, x_k·m ≤ m_sat,k. An ion composition without minerals
+// falls back on its record's points (ok false).
+func (x *Solution) mixSolubility(tC float64) (float64, bool) {
 	mm := x.mix
-	if len(mm.parts) == 0 {
-		return math.NaN() // caller uses the record's points
-	}
 	sol := math.Inf(1)
-	for k, p := range mm.parts {
-		sol = math.Min(sol, p.solMolal/mm.x[k])
+	if len(mm.parts) == 0 {
+		if len(x.Solute.Solubility.Minerals) == 0 || mm.mx == nil {
+			return 0, false
+		}
+		for _, name := range x.Solute.Solubility.Minerals {
+			sol = math.Min(sol, mm.onset(name))
+		}
+		if math.IsInf(sol, 0) {
+			return 0, false
+		}
+		return sol, true
 	}
-	return sol
+	for k, p := range mm.parts {
+		own := p.solMolal / mm.x[k]
+		if names := p.Solute.Solubility.Minerals; len(names) > 0 && mm.mx != nil {
+			on := math.Inf(1)
+			for _, name := range names {
+				on = math.Min(on, mm.onset(name))
+			}
+			if !math.IsInf(on, 0) {
+				own = on
+			}
+		}
+		sol = math.Min(sol, own)
+	}
+	return sol, true
+}
+
+// onsetMaxMolal bounds the search for a mineral's onset (mol/kg of the
+// formula unit): past it the mineral is taken as never saturating.
+const onsetMaxMolal = 60
+
+// onset returns the molality of the formula unit at which mineral reaches
+// SI = 0 in the mixture (Brent's method on SI(m), which rises with m for
+// a mineral made of the mixture's own ions), or +Inf if it does not below
+// onsetMaxMolal or the mineral's ions are not all present.
+func (mm *mixModel) onset(mineral string) float64 {
+	ion := make([]float64, len(mm.per))
+	si := func(m float64) float64 {
+		for i, p := range mm.per {
+			ion[i] = p * m
+		}
+		for _, s := range mm.mx.SaturationIndices(ion) {
+			if s.Mineral == mineral {
+				return s.SI
+			}
+		}
+		return math.NaN()
+	}
+	lo, hi := 1e-3, 1.0
+	flo := si(lo)
+	if math.IsNaN(flo) {
+		return math.Inf(1)
+	}
+	fhi := si(hi)
+	for fhi < 0 && hi < onsetMaxMolal {
+		lo, flo = hi, fhi
+		hi = math.Min(2*hi, onsetMaxMolal)
+		fhi = si(hi)
+	}
+	if !(fhi >= 0) || flo >= 0 {
+		if flo >= 0 {
+			return lo
+		}
+		return math.Inf(1)
+	}
+	r, _ := roots.Brent(si, roots.Bracket{Lo: lo, Hi: hi, FLo: flo, FHi: fhi},
+		&roots.Settings{Solver: mineral + " saturation onset", XRelTol: 1e-10, FAbsTol: 1e-10})
+	return r.X
 }
 
 // mixPhi returns g = m·(Σper/ν)·φ and dg/dm for the mixture (ν·g is the

@@ -190,8 +190,10 @@ func (x *Solution) prepareTable() error {
 // solubilityAt interpolates the saturation molality linearly in
 // temperature; outside the tabulated range it holds the end value and warns.
 func (x *Solution) solubilityAt(tC float64) float64 {
-	if x.mix != nil && len(x.mix.parts) > 0 {
-		return x.mixSolubility(tC)
+	if x.mix != nil {
+		if sol, ok := x.mixSolubility(tC); ok {
+			return sol
+		}
 	}
 	sol := x.Solute.Solubility
 	if sol.Miscible || len(sol.Points) == 0 {
