@@ -74,12 +74,12 @@ type OsmoticResponse struct {
 	// Ion-level results: every ion with its molality and activity
 	// coefficient, the ionic strength, and log10(IAP/Ksp) of each mineral
 	// whose ions are present, keyed by lower-case mineral name.
-	IonicStrengthMolPerKg float64            `json:"ionic_strength_mol_per_kg"`
+	IonicStrengthMolPerKg float64 `json:"ionic_strength_mol_per_kg"`
 	// PH of the carbonate system where the solution holds carbonate (the
 	// request's, the composition's, or the closed system's).
-	PH *float64 `json:"ph,omitempty"`
-	Ions                  []IonResult        `json:"ions"`
-	SaturationIndices     map[string]float64 `json:"saturation_indices"`
+	PH                *float64           `json:"ph,omitempty"`
+	Ions              []IonResult        `json:"ions"`
+	SaturationIndices map[string]float64 `json:"saturation_indices"`
 	// Components lists a blend's parts (omitted for a single solute).
 	Components []ComponentResult `json:"components,omitempty"`
 	// SolubilityMolPerKg is omitted for a miscible solute.

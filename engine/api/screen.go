@@ -18,17 +18,20 @@ import (
 
 // ScreenResponse is the ranked screen.
 type ScreenResponse struct {
-	Candidates             []ScreenCandidate  `json:"candidates"`
-	Excluded               []ScreenExcluded   `json:"excluded"`
-	Orientation            string             `json:"orientation"`
-	Basis                  BasisReport        `json:"basis"`
-	FeedOsmoticPressureBar float64            `json:"feed_osmotic_pressure_bar"`
-	Weights                map[string]float64 `json:"weights"`
-	ParetoObjectives       []string           `json:"pareto_objectives"`
-	Robustness             *RobustnessReport  `json:"robustness,omitempty"`
-	Sweep                  []SweepSeries      `json:"sweep,omitempty"`
-	Warnings               []string           `json:"warnings"`
-	Cautions               []string           `json:"cautions"`
+	Candidates             []ScreenCandidate `json:"candidates"`
+	Excluded               []ScreenExcluded  `json:"excluded"`
+	Orientation            string            `json:"orientation"`
+	Basis                  BasisReport       `json:"basis"`
+	FeedOsmoticPressureBar float64           `json:"feed_osmotic_pressure_bar"`
+	// FeedSaturationIndices: log10(IAP/Ksp) of each mineral in the bulk
+	// feed, keyed by lower-case mineral name.
+	FeedSaturationIndices map[string]float64 `json:"feed_saturation_indices"`
+	Weights               map[string]float64 `json:"weights"`
+	ParetoObjectives      []string           `json:"pareto_objectives"`
+	Robustness            *RobustnessReport  `json:"robustness,omitempty"`
+	Sweep                 []SweepSeries      `json:"sweep,omitempty"`
+	Warnings              []string           `json:"warnings"`
+	Cautions              []string           `json:"cautions"`
 	// What reproduces the run.
 	Scenario      *ScreenRequest    `json:"scenario"`
 	ModelChoices  map[string]string `json:"model_choices"`
@@ -286,6 +289,7 @@ func buildScreenResponse(req *ScreenRequest, sc *screen.Scenario, info *scenario
 	resp := &ScreenResponse{
 		Orientation:            sc.Orientations[0].String(),
 		FeedOsmoticPressureBar: res.FeedPiPa / thermo.PascalPerBar,
+		FeedSaturationIndices:  map[string]float64{},
 		Weights:                map[string]float64{},
 		Warnings:               warn.Strings(res.Warnings),
 		Cautions:               ScreenCautions,
@@ -293,6 +297,11 @@ func buildScreenResponse(req *ScreenRequest, sc *screen.Scenario, info *scenario
 		EngineVersion:          EngineVersion,
 		Candidates:             []ScreenCandidate{},
 		Excluded:               []ScreenExcluded{},
+	}
+	for k := screen.Mineral(0); k < screen.NumMinerals; k++ {
+		if res.FeedScaling.Has[k] {
+			resp.FeedSaturationIndices[k.Name()] = res.FeedScaling.SI[k]
+		}
 	}
 	for o := screen.Objective(0); o < screen.NumObjectives; o++ {
 		resp.Weights[o.Key()] = sc.Weights[o]

@@ -209,7 +209,7 @@ func (s *Solute) setComposition(f *Feed) error {
 
 // NewComposition builds a mixture record from a water's ion list (each
 // ion's concentration in mg per unit of water, any unit, since only the
-// proportions matter): one formula unit is one mole of dissolved
+// proportions matter; the diffusivity is NaCl's): one formula unit is one mole of dissolved
 // particles, its molar mass Σ mass / Σ mol. Its osmotic pressure comes
 // from the mixed-electrolyte model over those ions; no solid limits it
 // (the saturation indices report each mineral), so it is recorded as
@@ -229,7 +229,13 @@ func NewComposition(id, name string, ions []FeedIon) (*Solute, error) {
 	s := &Solute{ID: id, Name: name, Family: "water", Formula: "ion mixture", MolarMassGPerMol: mass / mol,
 		Osmotic:    OsmoticModel{Kind: ModelMixture, VantHoffNu: 1},
 		Solubility: Solubility{Miscible: true},
-		Sources:    map[string]string{"osmotic_model": "mixed-electrolyte model over the water's ion list"}}
+		Sources: map[string]string{"osmotic_model": "mixed-electrolyte model over the water's ion list",
+			"diffusivity": "NaCl's record: a mixed water taken to diffuse as sodium chloride (common practice, as for seawater)"}}
+	if lib, err := Default(); err == nil {
+		if nacl, ok := lib.Lookup("NaCl"); ok {
+			s.Diffusivity = Diffusivity{D0M2PerS: nacl.Diffusivity.D0M2PerS, Points: nacl.Diffusivity.Points}
+		}
+	}
 	for _, ion := range ions {
 		if ion.Concentration > 0 {
 			s.composition = append(s.composition, IonShare{Symbol: ion.Symbol, Charge: ion.Charge,

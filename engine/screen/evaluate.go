@@ -147,6 +147,7 @@ type candidate struct {
 	piFn       transport.OsmoticFunc
 	basisM     float64 // concentration basis: molality
 	ions       []ionCount
+	ionIdx     []int // each ion's place in the scaling mixture (−1 none)
 	warnings   []warn.Warning
 	excl       *exclusion // set at preparation (hazard, bad temperature)
 	osmRelSD   float64
@@ -175,8 +176,11 @@ type env struct {
 	kFeed    float64   // nominal, +Inf for none
 	targetPi float64   // Pa, osmotic-pressure basis
 	davies   float64   // Davies A at T (log10 units)
-	cands    []candidate
-	warnings []warn.Warning
+	scale    *scaleModel
+	// feedScaling: the saturation indices of the bulk feed.
+	feedScaling Scaling
+	cands       []candidate
+	warnings    []warn.Warning
 	// kWarn holds the last solve's Sherwood-correlation warnings, draw side
 	// then feed side (nil where k was given), for the nominal run.
 	kWarn [2][]warn.Warning
@@ -318,6 +322,7 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 			c.basisM = m
 		}
 	}
+	e.prepareScaling()
 	return e, nil
 }
 

@@ -65,6 +65,8 @@ type Result struct {
 	// Samples is the number of Monte Carlo samples run (0 without a
 	// robustness run).
 	Samples int
+	// FeedScaling holds the saturation indices of the bulk feed.
+	FeedScaling Scaling
 }
 
 // ErrNoCandidate means no candidate could be ranked: every one failed a
@@ -85,9 +87,8 @@ func Run(ctx context.Context, sc *Scenario, lib *library.Library, progress func(
 	if err != nil {
 		return nil, err
 	}
-	res := &Result{FeedPiPa: e.feedPiPa, TargetPiPa: e.targetPi}
+	res := &Result{FeedPiPa: e.feedPiPa, TargetPiPa: e.targetPi, FeedScaling: e.feedScaling}
 	res.Warnings = append(res.Warnings, e.warnings...)
-	res.Warnings = append(res.Warnings, scalingWarnings(e.tK)...)
 	ori := sc.Orientations[0]
 	var scratch transport.Result
 	for i := range e.cands {
@@ -188,8 +189,8 @@ func metricWarnings(c *candidate, m *Metrics) []warn.Warning {
 			}
 		}
 	}
-	if m.Scaling.IonicStrengthMolPerL > 0.5 {
-		w = append(w, warn.New(warn.Extrapolated, id, "%s: ionic strength %.2g mol/L at the feed-side surface is beyond the Davies equation's range; saturation indices are indicative", c.sol.ID, m.Scaling.IonicStrengthMolPerL))
+	if m.Scaling.Has[Hydroxyapatite] && m.Scaling.IonicStrengthMolPerL > 0.5 {
+		w = append(w, warn.New(warn.Extrapolated, id, "%s: ionic strength %.2g mol/L at the feed-side surface is beyond the Davies equation's range; the hydroxyapatite index is indicative", c.sol.ID, m.Scaling.IonicStrengthMolPerL))
 	}
 	if m.SolubilityMargin < 0.1 && !math.IsInf(m.SolubilityMolPerKg, 1) {
 		w = append(w, warn.New(warn.Solubility, id, "%s: within 10 %% of its solubility", c.sol.ID))

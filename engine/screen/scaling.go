@@ -2,6 +2,7 @@ package screen
 
 import (
 	"math"
+	"strings"
 
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
@@ -9,74 +10,300 @@ import (
 	"drawsift/engine/water"
 )
 
-// Mineral is a common scalant checked at the feed-side membrane surface.
+// Mineral is a scalant checked at the feed-side membrane surface: the
+// minerals of the mixed-electrolyte model (thermo.MineralName, in its
+// order), then hydroxyapatite.
 type Mineral int
 
-// Minerals checked.
-const (
-	Gypsum         Mineral = iota // CaSO4·2H2O
-	Calcite                       // CaCO3
-	Brucite                       // Mg(OH)2
-	Hydroxyapatite                // Ca5(PO4)3OH
-	NumMinerals
+// maxMinerals bounds the mineral list (the arrays of Scaling).
+const maxMinerals = 24
+
+// NumMinerals is the number of minerals checked; Hydroxyapatite is the
+// last.
+var (
+	NumMinerals    = Mineral(thermo.MineralCount() + 1)
+	Hydroxyapatite = Mineral(thermo.MineralCount())
 )
 
-type mineralInfo struct {
-	Name, Formula string
-	LogK          float64 // at 25 °C, for the reaction in Reaction
-	Reaction      string
-	Source        string
+func init() {
+	if NumMinerals > maxMinerals {
+		panic("screen: more minerals than Scaling holds")
+	}
 }
 
-// minerals: log K at 25 °C from the WATEQ4F thermodynamic data set (Ball &
-// Nordstrom 1991, USGS Open-File Report 91-183) as carried by the
-// phreeqc.dat and wateq4f.dat databases of PHREEQC (Parkhurst & Appelo
-// 2013).
-var minerals = [NumMinerals]mineralInfo{
-	Gypsum: {"gypsum", "CaSO4·2H2O", -4.58, "CaSO4:2H2O = Ca+2 + SO4-2 + 2 H2O",
-		"phreeqc.dat, log_k −4.58 (verified as printed in the database)"},
-	Calcite: {"calcite", "CaCO3", -8.48, "CaCO3 = Ca+2 + CO3-2",
-		"phreeqc.dat, log_k −8.48 (from memory)"},
-	Brucite: {"brucite", "Mg(OH)2", 16.84, "Mg(OH)2 + 2 H+ = Mg+2 + 2 H2O",
-		"wateq4f.dat, log_k 16.84 (value seen quoted from the database; from memory)"},
-	Hydroxyapatite: {"hydroxyapatite", "Ca5(PO4)3OH", -3.421, "Ca5(PO4)3OH + 4 H+ = H2O + 3 HPO4-2 + 5 Ca+2",
-		"phreeqc.dat, log_k −3.421 (from memory)"},
+// Name returns the mineral's lower-case name.
+func (m Mineral) Name() string {
+	if m == Hydroxyapatite {
+		return "hydroxyapatite"
+	}
+	n, _ := thermo.MineralName(int(m))
+	return n
 }
-
-// Acid–base constants at 25 °C used to speciate carbonate and phosphate at
-// the surface pH (phreeqc.dat; from memory).
-const (
-	logK2Carbonate = -10.329 // HCO3- = CO3-2 + H+
-	logK2Phosphate = -7.20   // H2PO4- = HPO4-2 + H+
-)
-
-// Name returns the mineral's name.
-func (m Mineral) Name() string { return minerals[m].Name }
 
 // Formula returns the mineral's formula.
-func (m Mineral) Formula() string { return minerals[m].Formula }
+func (m Mineral) Formula() string {
+	if m == Hydroxyapatite {
+		return "Ca5(PO4)3OH"
+	}
+	_, f := thermo.MineralName(int(m))
+	return f
+}
+
+// MineralByName finds a mineral by its lower-case name.
+func MineralByName(name string) (Mineral, bool) {
+	for k := Mineral(0); k < NumMinerals; k++ {
+		if k.Name() == name {
+			return k, true
+		}
+	}
+	return 0, false
+}
 
 // Source names the solubility product used.
-func (m Mineral) Source() string { return minerals[m].Source }
+func (m Mineral) Source() string {
+	if m == Hydroxyapatite {
+		return "phreeqc.dat, log_k −3.421 (from memory)"
+	}
+	return thermo.MineralSource(int(m))
+}
+
+// Hydroxyapatite lies outside the mixed-electrolyte model (no phosphate
+// parameters): its index keeps the Davies (1962) activities, log K at 25 °C
+// from the WATEQ4F data set as carried by PHREEQC's phreeqc.dat (Ball &
+// Nordstrom 1991; Parkhurst & Appelo 2013; from memory), the phosphate
+// speciated at the surface pH.
+const (
+	logKHydroxyapatite = -3.421 // Ca5(PO4)3OH + 4 H+ = H2O + 3 HPO4-2 + 5 Ca+2
+	logK2Phosphate     = -7.20  // H2PO4- = HPO4-2 + H+
+)
 
 // ScalingMethod names the method of the scaling check.
-const ScalingMethod = "Saturation index SI = log10(IAP/Ksp) at the feed-side face of the active layer. " +
-	"Ion concentrations there: the feed's ions times the feed-side concentration-polarization factor (the feed solute's face/bulk ratio " +
-	"from the flux model, or exp(Jw·R) on the feed side), plus the reverse-fluxed draw ions at the draw solute's feed-face concentration. " +
-	"Free-ion activities from the Davies equation (Davies 1962; A from water's dielectric constant), no ion pairing; molarity taken as molality. " +
-	"pH held at the feed's bulk value; carbonate and phosphate speciated at that pH (pK2 10.329 and 7.20). " +
-	"log Ksp at 25 °C from the WATEQ4F data set as carried by PHREEQC's phreeqc.dat/wateq4f.dat (Ball & Nordstrom 1991; Parkhurst & Appelo 2013): " +
-	"gypsum −4.58 (verified), calcite −8.48, brucite 16.84 (proton form), hydroxyapatite −3.421 (from memory). " +
-	"Above I ≈ 0.5 mol/L the Davies equation and the neglect of ion pairs overstate supersaturation (e.g. gypsum in seawater): a screening flag, not a design check."
+const ScalingMethod = "Saturation index SI = log10(IAP/Ksp) at the feed-side face of the active layer and in the bulk feed. " +
+	"Ion molalities at the face: the feed's ions times the feed-side concentration-polarization factor (the feed solute's face/bulk ratio " +
+	"from the flux model, or exp(Jw·R) on the feed side), plus the reverse-fluxed draw ions at the draw solute's feed-face concentration, " +
+	"per kg of water as in the bulk feed. Activities from the mixed-electrolyte Pitzer model (Harvie, Møller & Weare 1984) with the " +
+	"carbonate system speciated at the feed's pH (Plummer & Busenberg 1982 constants; no carbonate ion pairs); solubility products " +
+	"as each mineral's source names (HMW 1984 Table 3 at 25 °C with temperature functions where compiled; Plummer & Busenberg 1982 for " +
+	"calcite and aragonite). Hydroxyapatite, outside the model, uses Davies (1962) activities and log K −3.421 (phreeqc.dat, from memory). " +
+	"A screening flag, not a design check: no kinetics, no antiscalant."
 
 // Scaling holds the saturation indices at the feed-side surface.
 type Scaling struct {
-	SI  [NumMinerals]float64
-	Has [NumMinerals]bool // the ions of that mineral are present
+	SI  [maxMinerals]float64
+	Has [maxMinerals]bool // the ions of that mineral are present
 	Any bool
 	// Max is the highest SI among the minerals present.
 	Max                  float64
 	IonicStrengthMolPerL float64
+}
+
+// scaleModel is the scenario's scaling model: one mixture over every ion
+// the feed and the candidates bring (with the carbonate species), the
+// feed's ions in mol per kg of water, and scratch for the evaluation (an
+// env runs on one goroutine).
+type scaleModel struct {
+	mx        *thermo.Mixture
+	feed      []ionAt // bulk feed, mol per kg of water
+	waterPerL float64 // kg of water per litre at the feed
+	pH        float64
+	carbonate bool
+	phosphate [3]int // HPO4-2, H2PO4-, PO4-3 indices (−1 absent)
+	ca        int
+	m, work   []float64
+	si        []float64
+	has       []bool
+}
+
+type ionAt struct {
+	i int
+	m float64
+}
+
+// prepareScaling builds e.scale from the feed's ions and the candidates'.
+func (e *env) prepareScaling() {
+	f := &e.sc.Feed
+	index := map[string]int{}
+	var ions []thermo.MixIon
+	add := func(sym string, z int) int {
+		if i, ok := index[sym]; ok {
+			return i
+		}
+		index[sym] = len(ions)
+		ions = append(ions, thermo.MixIon{Symbol: sym, Charge: z})
+		return len(ions) - 1
+	}
+	for _, ion := range f.Ions {
+		add(ion.Symbol, ion.Charge)
+	}
+	for i := range e.cands {
+		for _, ion := range e.cands[i].ions {
+			add(ion.symbol, ion.charge)
+		}
+	}
+	if len(ions) == 0 {
+		return
+	}
+	for _, c := range thermo.CarbonateIons() {
+		add(c.Symbol, c.Charge)
+	}
+	mx, err := thermo.NewIonMixture(ions, e.tK)
+	if err != nil {
+		e.warnings = append(e.warnings, warn.New(warn.ModelNote, "scaling", "scaling: no mixed-electrolyte model for these ions (%v); saturation indices are not computed", err))
+		return
+	}
+	s := &scaleModel{mx: mx, pH: f.PH, ca: -1, phosphate: [3]int{-1, -1, -1}}
+	n := len(mx.Ions())
+	s.m, s.work = make([]float64, n), make([]float64, n)
+	s.si, s.has = make([]float64, thermo.MineralCount()), make([]bool, thermo.MineralCount())
+	// Feed ions per kg of water: per litre of feed divided by the kg of
+	// water in a litre; per kg of feed divided by the water's mass fraction.
+	s.waterPerL = water.Density(e.tK) / 1000
+	wWater := 1.0
+	if e.feedX != nil {
+		rho := e.feedX.DensityKgPerM3(e.feedM)
+		wWater = 1 - e.feedX.MassFraction(e.feedM)
+		s.waterPerL = rho * wWater / 1000
+	}
+	for _, ion := range f.Ions {
+		i, ok := mx.Index(ion.Symbol)
+		if !ok {
+			continue
+		}
+		m := ion.Mol / s.waterPerL
+		if f.IonsPerKg {
+			m = ion.Mol / wWater
+		}
+		s.feed = append(s.feed, ionAt{i, m})
+		if ion.Symbol == "HCO3-" || ion.Symbol == "CO3-2" {
+			s.carbonate = true
+		}
+	}
+	for k, sym := range [3]string{"HPO4-2", "H2PO4-", "PO4-3"} {
+		if i, ok := mx.Index(sym); ok {
+			s.phosphate[k] = i
+		}
+	}
+	if i, ok := mx.Index("Ca+2"); ok {
+		s.ca = i
+	}
+	for i := range e.cands {
+		c := &e.cands[i]
+		c.ionIdx = c.ionIdx[:0]
+		for _, ion := range c.ions {
+			j, ok := mx.Index(ion.symbol)
+			if !ok {
+				j = -1
+			}
+			c.ionIdx = append(c.ionIdx, j)
+		}
+	}
+	e.scale = s
+	// The model's notes once per scenario: missing parameters (named only
+	// for the ions present in more than traces would need the amounts;
+	// the count is enough here) and 25 °C data.
+	if miss := mx.MissingPairs(); len(miss) > 0 {
+		e.warnings = append(e.warnings, warn.New(warn.ModelNote, "scaling",
+			"scaling: %d ion pairs have no Pitzer parameters and are taken as zero (%s)", len(miss), strings.Join(miss, ", ")))
+	}
+	seen := map[string]bool{}
+	for k := 0; k < thermo.MineralCount(); k++ {
+		for _, w := range mx.MineralWarnings(k) {
+			if !seen[w.Text] {
+				seen[w.Text] = true
+				e.warnings = append(e.warnings, w.About("scaling"))
+			}
+		}
+	}
+	e.evalScaling(1, nil, 0, &e.feedScaling)
+}
+
+// scaling fills s from the converged flux result r of candidate c.
+func (e *env) scaling(c *candidate, ori transport.Orientation, r *transport.Result, s *Scaling) {
+	if e.scale == nil {
+		*s = Scaling{}
+		return
+	}
+	// Feed-side polarization factor of the feed's ions.
+	cf := 1.0
+	if e.feedSol != nil && e.feedC > 0 {
+		if e.feedSol != c.sol && len(r.Species) > 1 {
+			cf = r.Species[1].FeedFaceMolPerM3 / e.feedC
+		} else {
+			rf := 0.0
+			if !math.IsInf(e.kFeed, 1) && e.kFeed > 0 {
+				rf = 1 / e.kFeed
+			}
+			if ori == transport.ALDS {
+				rf += e.sc.Membrane.SM / e.feedD
+			}
+			cf = math.Exp(math.Min(r.JwMPerS*rf, 50))
+		}
+	}
+	// Draw solute at the feed face beyond what the feed itself brings.
+	drawFace := r.Species[0].FeedFaceMolPerM3
+	if e.feedSol == c.sol && !e.sc.Feed.Surrogate {
+		drawFace -= e.feedC * cf
+	}
+	drawFace = math.Max(0, drawFace) / 1000 / e.scale.waterPerL // mol per kg of water
+	e.evalScaling(cf, c, drawFace, s)
+}
+
+// evalScaling computes the indices with the feed's ions times cf and
+// candidate c's ions (nil: none) at drawMolal formula units per kg water.
+func (e *env) evalScaling(cf float64, c *candidate, drawMolal float64, s *Scaling) {
+	*s = Scaling{}
+	sm := e.scale
+	for i := range sm.m {
+		sm.m[i] = 0
+	}
+	for _, f := range sm.feed {
+		sm.m[f.i] += f.m * cf
+	}
+	if c != nil {
+		for k, ion := range c.ions {
+			if j := c.ionIdx[k]; j >= 0 {
+				sm.m[j] += ion.count * drawMolal
+			}
+		}
+	}
+	if err := sm.mx.SpeciateCarbonateInto(sm.m, sm.work, sm.pH); err != nil {
+		return
+	}
+	sm.mx.SaturationInto(sm.m, sm.work, sm.si, sm.has)
+	set := func(k Mineral, si float64) {
+		if math.IsNaN(si) || math.IsInf(si, 0) {
+			return
+		}
+		s.SI[k], s.Has[k] = si, true
+		if !s.Any || si > s.Max {
+			s.Max = si
+		}
+		s.Any = true
+	}
+	for k := range sm.si {
+		if sm.has[k] {
+			set(Mineral(k), sm.si[k])
+		}
+	}
+	iMolal := sm.mx.IonicStrength(sm.m)
+	s.IonicStrengthMolPerL = iMolal * sm.waterPerL
+	// Hydroxyapatite by the Davies equation at the molar ionic strength.
+	pt := 0.0
+	for _, i := range sm.phosphate {
+		if i >= 0 {
+			pt += sm.m[i]
+		}
+	}
+	if sm.ca >= 0 && sm.m[sm.ca] > 0 && pt > 0 {
+		is := s.IonicStrengthMolPerL
+		g1 := math.Pow(10, daviesLogGamma(e.davies, 1, is))
+		g2 := math.Pow(10, daviesLogGamma(e.davies, 2, is))
+		aH := math.Pow(10, -sm.pH)
+		rr := math.Pow(10, logK2Phosphate) * g1 / (g2 * aH) // [HPO4]/[H2PO4]
+		hpo4 := pt * sm.waterPerL * rr / (1 + rr)
+		logCa := math.Log10(g2 * sm.m[sm.ca] * sm.waterPerL)
+		set(Hydroxyapatite, 5*logCa+3*math.Log10(g2*hpo4)+4*sm.pH-logKHydroxyapatite)
+	}
 }
 
 // daviesA returns the Davies/Debye–Hückel constant A (log10 units, kg^½
@@ -101,125 +328,4 @@ func daviesA(tK float64) float64 {
 func daviesLogGamma(a float64, z int, i float64) float64 {
 	s := math.Sqrt(i)
 	return -a * float64(z*z) * (s/(1+s) - 0.3*i)
-}
-
-// Slots of the ions the minerals need.
-const (
-	slotCa = iota
-	slotMg
-	slotSO4
-	slotHCO3
-	slotCO3
-	slotHPO4
-	slotH2PO4
-	slotPO4
-	numSlots
-)
-
-func slotOf(symbol string) int {
-	switch symbol {
-	case "Ca+2":
-		return slotCa
-	case "Mg+2":
-		return slotMg
-	case "SO4-2":
-		return slotSO4
-	case "HCO3-":
-		return slotHCO3
-	case "CO3-2":
-		return slotCO3
-	case "HPO4-2":
-		return slotHPO4
-	case "H2PO4-":
-		return slotH2PO4
-	case "PO4-3":
-		return slotPO4
-	}
-	return -1
-}
-
-// scaling fills s from the converged flux result r of candidate c.
-func (e *env) scaling(c *candidate, ori transport.Orientation, r *transport.Result, s *Scaling) {
-	*s = Scaling{}
-	// Feed-side polarization factor of the feed's ions.
-	cf := 1.0
-	if e.feedSol != nil && e.feedC > 0 {
-		if e.feedSol != c.sol && len(r.Species) > 1 {
-			cf = r.Species[1].FeedFaceMolPerM3 / e.feedC
-		} else {
-			rf := 0.0
-			if !math.IsInf(e.kFeed, 1) && e.kFeed > 0 {
-				rf = 1 / e.kFeed
-			}
-			if ori == transport.ALDS {
-				rf += e.sc.Membrane.SM / e.feedD
-			}
-			cf = math.Exp(math.Min(r.JwMPerS*rf, 50))
-		}
-	}
-	// Draw solute at the feed face beyond what the feed itself brings.
-	drawFace := r.Species[0].FeedFaceMolPerM3
-	if e.feedSol == c.sol && !e.sc.Feed.Surrogate {
-		drawFace -= e.feedC * cf
-	}
-	drawFace = math.Max(0, drawFace) / 1000 // mol/L
-
-	var conc [numSlots]float64
-	i2 := 0.0 // Σ c z²
-	for _, ion := range e.feedIons {
-		v := ion.molPerL * cf
-		i2 += v * float64(ion.charge*ion.charge)
-		if k := slotOf(ion.symbol); k >= 0 {
-			conc[k] += v
-		}
-	}
-	for _, ion := range c.ions {
-		v := ion.count * drawFace
-		i2 += v * float64(ion.charge*ion.charge)
-		if k := slotOf(ion.symbol); k >= 0 {
-			conc[k] += v
-		}
-	}
-	is := 0.5 * i2
-	s.IonicStrengthMolPerL = is
-	a := e.davies
-	g1 := math.Pow(10, daviesLogGamma(a, 1, is))
-	g2 := math.Pow(10, daviesLogGamma(a, 2, is))
-	ph := e.sc.Feed.PH
-	aH := math.Pow(10, -ph)
-	logCa := math.Log10(g2 * conc[slotCa])
-	set := func(m Mineral, si float64) {
-		if math.IsNaN(si) || math.IsInf(si, 0) {
-			return
-		}
-		s.SI[m], s.Has[m] = si, true
-		if !s.Any || si > s.Max {
-			s.Max = si
-		}
-		s.Any = true
-	}
-	if conc[slotCa] > 0 && conc[slotSO4] > 0 {
-		set(Gypsum, logCa+math.Log10(g2*conc[slotSO4])-minerals[Gypsum].LogK)
-	}
-	if ct := conc[slotHCO3] + conc[slotCO3]; conc[slotCa] > 0 && ct > 0 {
-		rr := math.Pow(10, logK2Carbonate) * g1 / (g2 * aH) // [CO3]/[HCO3]
-		co3 := ct * rr / (1 + rr)
-		set(Calcite, logCa+math.Log10(g2*co3)-minerals[Calcite].LogK)
-	}
-	if conc[slotMg] > 0 {
-		set(Brucite, math.Log10(g2*conc[slotMg])+2*ph-minerals[Brucite].LogK)
-	}
-	if pt := conc[slotHPO4] + conc[slotH2PO4] + conc[slotPO4]; conc[slotCa] > 0 && pt > 0 {
-		rr := math.Pow(10, logK2Phosphate) * g1 / (g2 * aH) // [HPO4]/[H2PO4]
-		hpo4 := pt * rr / (1 + rr)
-		set(Hydroxyapatite, 5*logCa+3*math.Log10(g2*hpo4)+4*ph-minerals[Hydroxyapatite].LogK)
-	}
-}
-
-// scalingWarnings are the scenario-level caveats of the scaling check.
-func scalingWarnings(tK float64) []warn.Warning {
-	if math.Abs(tK-thermo.ReferenceK) > 5 {
-		return []warn.Warning{warn.New(warn.Temperature25C, "scaling", "scaling: solubility products are 25 °C values, used unchanged at this temperature")}
-	}
-	return nil
 }

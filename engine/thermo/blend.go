@@ -762,6 +762,7 @@ func KnownIonSymbols() []string {
 	sort.Strings(out)
 	return out
 }
+
 // pairTableIons lists the ions of the pair and mixing tables.
 func pairTableIons() []string {
 	var out []string

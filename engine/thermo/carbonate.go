@@ -251,3 +251,18 @@ func (mx *Mixture) SpeciateAlkalinity(m []float64, dicMolPerKg, alkMolPerKg floa
 	}
 	return out, r.X, nil
 }
+
+// SpeciateCarbonateInto is SpeciateCarbonate in place and without
+// allocation, for hot loops: m is overwritten with the speciated
+// molalities; work needs len(Ions()). The caller guarantees the carbonate
+// species are in the mixture, molalities are finite and not negative,
+// and pH is within 0–14 (checked by SpeciateCarbonate, not here).
+func (mx *Mixture) SpeciateCarbonateInto(m, work []float64, pH float64) error {
+	ix, err := mx.carbonateIndex()
+	if err != nil {
+		return err
+	}
+	dic := m[ix.co2] + m[ix.hco3] + m[ix.co3]
+	_, err = mx.speciateAt(m, work[:len(m)], ix, dic, math.Pow(10, -pH))
+	return err
+}

@@ -181,6 +181,7 @@ func (mx *Mixture) SaturationIndices(m []float64) []Saturation {
 // mineralAt is a mineral whose ions are all in a mixture: their
 // positions and log K_sp at the mixture's temperature.
 type mineralAt struct {
+	k    int // index in minerals
 	mn   *mineral
 	idx  []int
 	logK float64
@@ -191,7 +192,7 @@ type mineralAt struct {
 func (mx *Mixture) prepareMinerals() {
 	for k := range minerals {
 		mn := &minerals[k]
-		ma := mineralAt{mn: mn}
+		ma := mineralAt{k: k, mn: mn}
 		for _, st := range mn.ions {
 			i, ok := mx.Index(st.symbol)
 			if !ok {
@@ -205,4 +206,78 @@ func (mx *Mixture) prepareMinerals() {
 			mx.minerals = append(mx.minerals, ma)
 		}
 	}
+}
+
+// mineralFormulas are the minerals' formulas, by name.
+var mineralFormulas = map[string]string{
+	"gypsum": "CaSO4·2H2O", "anhydrite": "CaSO4", "halite": "NaCl", "sylvite": "KCl",
+	"mirabilite": "Na2SO4·10H2O", "epsomite": "MgSO4·7H2O", "hexahydrite": "MgSO4·6H2O",
+	"kieserite": "MgSO4·H2O", "bischofite": "MgCl2·6H2O", "carnallite": "KMgCl3·6H2O",
+	"glauberite": "Na2Ca(SO4)2", "polyhalite": "K2Ca2Mg(SO4)4·2H2O", "arcanite": "K2SO4",
+	"celestite": "SrSO4", "brucite": "Mg(OH)2", "portlandite": "Ca(OH)2",
+	"calcite": "CaCO3", "aragonite": "CaCO3",
+}
+
+// MineralCount is the number of minerals SaturationInto reports on.
+func MineralCount() int { return len(minerals) }
+
+// MineralName returns mineral k's lower-case name and its formula.
+func MineralName(k int) (name, formula string) {
+	return minerals[k].name, mineralFormulas[minerals[k].name]
+}
+
+// MineralSource names mineral k's solubility product.
+func MineralSource(k int) string { return minerals[k].src }
+
+// MineralWarnings returns the warnings of mineral k's solubility product
+// at the mixture's temperature (25 °C data used elsewhere), or nil if the
+// mixture lacks its ions.
+func (mx *Mixture) MineralWarnings(k int) []warn.Warning {
+	mx.mineralsOnce.Do(mx.prepareMinerals)
+	for i := range mx.minerals {
+		if mx.minerals[i].k == k {
+			return mx.minerals[i].ws
+		}
+	}
+	return nil
+}
+
+// SaturationInto is SaturationIndices without allocation, for hot loops:
+// si[k] and has[k] (len MineralCount()) receive mineral k's index and
+// whether it is defined at m; work needs len(Ions()) and is overwritten.
+// It returns the mixture's φ.
+func (mx *Mixture) SaturationInto(m, work, si []float64, has []bool) float64 {
+	mx.mineralsOnce.Do(mx.prepareMinerals)
+	for k := range has {
+		has[k], si[k] = false, 0
+	}
+	lg := work[:len(mx.ions)]
+	phi := mx.Eval(m, lg)
+	sum := 0.0
+	for _, mi := range m {
+		sum += mi
+	}
+	log10aw := -water.MolarMassKgPerMol * phi * sum / math.Ln10
+	for i := range lg {
+		if m[i] > 0 {
+			lg[i] = math.Log10(m[i]) + lg[i]/math.Ln10
+		}
+	}
+	for k := range mx.minerals {
+		ma := &mx.minerals[k]
+		logIAP := ma.mn.water * log10aw
+		ok := true
+		for j, st := range ma.mn.ions {
+			i := ma.idx[j]
+			if !(m[i] > 0) {
+				ok = false
+				break
+			}
+			logIAP += st.n * lg[i]
+		}
+		if v := logIAP - ma.logK; ok && !math.IsNaN(v) && !math.IsInf(v, 0) {
+			si[ma.k], has[ma.k] = v, true
+		}
+	}
+	return phi
 }
