@@ -4,6 +4,7 @@ import (
 	"context"
 	"testing"
 
+	"drawsift/engine/library"
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
 )
@@ -35,6 +36,25 @@ func BenchmarkScreen(b *testing.B) {
 	sc := baseScenario(b)
 	sc.Feed = seawaterFeed(b)
 	sc.Basis = Basis{Kind: BasisOsmoticPressure, MultipleOfFeed: 2}
+	benchRun(b, sc)
+}
+
+// BenchmarkScreenBlends: BenchmarkScreen with three blends added
+// (issue #10's budget: < 50 ms native).
+func BenchmarkScreenBlends(b *testing.B) {
+	sc := baseScenario(b)
+	sc.Feed = seawaterFeed(b)
+	sc.Basis = Basis{Kind: BasisOsmoticPressure, MultipleOfFeed: 2}
+	for _, bl := range []struct {
+		ids []string
+		x   []float64
+	}{{[]string{"NaCl", "MgCl2"}, []float64{0.9, 0.1}}, {[]string{"KCl", "NH4NO3"}, []float64{0.5, 0.5}}, {[]string{"NaCl", "glucose", "KCl"}, []float64{0.6, 0.2, 0.2}}} {
+		blend, err := library.NewBlend(library.BlendID(bl.ids, bl.x), solutes(b, bl.ids...), bl.x)
+		if err != nil {
+			b.Fatal(err)
+		}
+		sc.Candidates = append(sc.Candidates, blend)
+	}
 	benchRun(b, sc)
 }
 

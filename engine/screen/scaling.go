@@ -97,6 +97,11 @@ type Scaling struct {
 	IonicStrengthMolPerL float64
 }
 
+// scalingSpeciateTol: the carbonate speciation of the scaling check stops
+// at 1e-7 relative change (its error in SI is of that order, far below the
+// solubility products' own uncertainty).
+const scalingSpeciateTol = 1e-7
+
 // scaleModel is the scenario's scaling model: one mixture over every ion
 // the feed and the candidates bring (with the carbonate species), the
 // feed's ions in mol per kg of water, and scratch for the evaluation (an
@@ -266,7 +271,7 @@ func (e *env) evalScaling(cf float64, c *candidate, drawMolal float64, s *Scalin
 			}
 		}
 	}
-	if err := sm.mx.SpeciateCarbonateInto(sm.m, sm.work, sm.pH); err != nil {
+	if err := sm.mx.SpeciateCarbonateInto(sm.m, sm.work, sm.pH, scalingSpeciateTol); err != nil {
 		return
 	}
 	sm.mx.SaturationInto(sm.m, sm.work, sm.si, sm.has)

@@ -102,10 +102,13 @@ func checkMolalities(m []float64, n int) error {
 // converge to 1e-13 in under 10 for seawater-like and brine compositions.
 const carbonateMaxIter = 60
 
+// speciateTol is the relative change at which the exact speciations stop.
+const speciateTol = 1e-13
+
 // speciateAt sets out's carbonate species for the given DIC and a_H, by
 // successive substitution of the activity coefficients (each step solves
 // the mass-action laws exactly for fixed γ). lg is work space.
-func (mx *Mixture) speciateAt(out, lg []float64, ix carbonateIdx, dic, aH float64) (int, error) {
+func (mx *Mixture) speciateAt(out, lg []float64, ix carbonateIdx, dic, aH, tol float64) (int, error) {
 	k1 := math.Pow(10, LogK1Carbonic(mx.tK))
 	k2 := math.Pow(10, LogK2Carbonic(mx.tK))
 	kw := math.Pow(10, LogKw(mx.tK))
@@ -135,7 +138,7 @@ func (mx *Mixture) speciateAt(out, lg []float64, ix carbonateIdx, dic, aH float6
 				change = math.Max(change, math.Abs(next[k]-prev[k])/next[k])
 			}
 		}
-		if change < 1e-13 {
+		if change < tol {
 			return it, nil
 		}
 		if it == carbonateMaxIter {
@@ -179,7 +182,7 @@ func (mx *Mixture) SpeciateCarbonate(m []float64, pH float64) ([]float64, error)
 	out := append([]float64(nil), m...)
 	dic := m[ix.co2] + m[ix.hco3] + m[ix.co3]
 	lg := make([]float64, len(m))
-	if _, err := mx.speciateAt(out, lg, ix, dic, math.Pow(10, -pH)); err != nil {
+	if _, err := mx.speciateAt(out, lg, ix, dic, math.Pow(10, -pH), speciateTol); err != nil {
 		return nil, err
 	}
 	return out, nil
@@ -229,7 +232,7 @@ func (mx *Mixture) SpeciateAlkalinity(m []float64, dicMolPerKg, alkMolPerKg floa
 	lg := make([]float64, len(m))
 	var inner error
 	f := func(pH float64) float64 {
-		if _, err := mx.speciateAt(out, lg, ix, dicMolPerKg, math.Pow(10, -pH)); err != nil && inner == nil {
+		if _, err := mx.speciateAt(out, lg, ix, dicMolPerKg, math.Pow(10, -pH), speciateTol); err != nil && inner == nil {
 			inner = err
 		}
 		return out[ix.hco3] + 2*out[ix.co3] + out[ix.oh] - out[ix.h] - alkMolPerKg
@@ -256,13 +259,16 @@ func (mx *Mixture) SpeciateAlkalinity(m []float64, dicMolPerKg, alkMolPerKg floa
 // allocation, for hot loops: m is overwritten with the speciated
 // molalities; work needs len(Ions()). The caller guarantees the carbonate
 // species are in the mixture, molalities are finite and not negative,
-// and pH is within 0–14 (checked by SpeciateCarbonate, not here).
-func (mx *Mixture) SpeciateCarbonateInto(m, work []float64, pH float64) error {
+// and pH is within 0–14 (checked by SpeciateCarbonate, not here). The
+// iteration stops when no species changes by more than tol relative (each
+// step is exact for the activity coefficients of the step before, so a
+// loose tol costs an error of about tol in the carbonate molalities).
+func (mx *Mixture) SpeciateCarbonateInto(m, work []float64, pH, tol float64) error {
 	ix, err := mx.carbonateIndex()
 	if err != nil {
 		return err
 	}
 	dic := m[ix.co2] + m[ix.hco3] + m[ix.co3]
-	_, err = mx.speciateAt(m, work[:len(m)], ix, dic, math.Pow(10, -pH))
+	_, err = mx.speciateAt(m, work[:len(m)], ix, dic, math.Pow(10, -pH), tol)
 	return err
 }
