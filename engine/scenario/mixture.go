@@ -112,6 +112,7 @@ func ResolveMixture(prefix string, parts []MixturePart, tK float64) (*thermo.Sol
 	}
 	sols := make([]*library.Solute, len(parts))
 	vals := make([]float64, len(parts))
+	units := make([]thermo.Unit, len(parts))
 	var unit thermo.Unit
 	seen := map[*library.Solute]int{}
 	for k, p := range parts {
@@ -137,7 +138,10 @@ func ResolveMixture(prefix string, parts []MixturePart, tK float64) (*thermo.Sol
 		if k > 0 && unitBasis(u) != unitBasis(unit) {
 			return nil, 0, 0, errs.InvalidText(f+".unit", p.Unit, unitBasis(unit), "every part of a mixture is given on one basis: part 0 is %s, this part %s", unitBasis(unit), unitBasis(u))
 		}
-		sols[k], vals[k], unit = s, v, u
+		sols[k], vals[k], units[k] = s, v, u
+		if k == 0 {
+			unit = u
+		}
 	}
 	if len(parts) == 1 {
 		x, err := thermo.NewSolution(sols[0], tK)
@@ -154,7 +158,7 @@ func ResolveMixture(prefix string, parts []MixturePart, tK float64) (*thermo.Sol
 	amount := make([]float64, len(parts))
 	total, massSum := 0.0, 0.0
 	for k, s := range sols {
-		switch unit {
+		switch units[k] {
 		case thermo.MolPerKg, thermo.MolPerL:
 			amount[k] = vals[k]
 		case thermo.GPerL:
@@ -194,29 +198,16 @@ func ResolveMixture(prefix string, parts []MixturePart, tK float64) (*thermo.Sol
 		if err != nil {
 			return nil, 0, 0, prefixed(field, err)
 		}
-	default: // mol per kg of mixture → per kg of water
+	case thermo.GPerKg, thermo.WtPercent: // mol per kg of mixture → per kg of water
 		m = total / (1 - massSum)
 	}
 	if sol := x.SolubilityMolPerKg(); m > sol*(1+1e-9) {
-		k := limitingPart(x, m)
+		k := x.LimitingPart()
 		return nil, 0, 0, errs.Invalid(fmt.Sprintf("%s[%d].concentration", field, k), vals[k],
-			trimLimit(vals[k]*sol/m)+" "+unit.String(),
+			trimLimit(vals[k]*sol/m)+" "+units[k].String(),
 			"%s is beyond its solubility in this mixture at %.4g °C (each part within its own solubility; limit at this mixture's ratio)", sols[k].ID, tK-thermo.ZeroCelsiusK)
 	}
 	return x, m, unit, nil
-}
-
-// limitingPart returns the index of the blend part that first reaches its
-// own solubility as the blend's molality rises.
-func limitingPart(x *thermo.Solution, m float64) int {
-	parts, fr := x.Parts()
-	best, bestM := 0, math.Inf(1)
-	for k, p := range parts {
-		if v := p.SolubilityMolPerKg() / fr[k]; v < bestM {
-			best, bestM = k, v
-		}
-	}
-	return best
 }
 
 // trimLimit formats a limit with 4 significant figures.

@@ -41,6 +41,7 @@ type mixModel struct {
 	parts []*Solution
 	x     []float64
 	props *MixBlend // density and viscosity
+	limit int       // the part that saturates first (mixSolubility)
 	// The ion-level model for IonsAt (with the carbonate species), built
 	// on first use.
 	ionsOnce sync.Once
@@ -55,6 +56,15 @@ func (x *Solution) MixturePath() string {
 		return ""
 	}
 	return x.mix.path
+}
+
+// LimitingPart returns the index of the blend's part that saturates first
+// as its molality rises (0 for a single solute or an ion composition).
+func (x *Solution) LimitingPart() int {
+	if x.mix == nil {
+		return 0
+	}
+	return x.mix.limit
 }
 
 // Parts returns a blend's prepared parts and their mole fractions (nil
@@ -308,7 +318,9 @@ func (x *Solution) mixSolubility(tC float64) (float64, bool) {
 				own = on
 			}
 		}
-		sol = math.Min(sol, own)
+		if own < sol {
+			sol, mm.limit = own, k
+		}
 	}
 	return sol, true
 }
