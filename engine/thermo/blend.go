@@ -11,6 +11,7 @@ import (
 	"drawsift/engine/internal/roots"
 	"drawsift/engine/library"
 	"drawsift/engine/warn"
+	"drawsift/engine/water"
 )
 
 // Paths of a mixture Solution's osmotic model (MixturePath).
@@ -496,11 +497,21 @@ func (mm *mixModel) zsrValidMolal() float64 {
 }
 
 // osmolalityMono returns a single solute's total osmolality Ω = ν·m·φ
-// and dΩ/dm at any m ≥ 0: the model inside the working range, the
-// monotone π extension beyond (π = piPerG·Ω).
+// and dΩ/dm at any m ≥ 0, as the ZSR rule uses it: the model inside the
+// working range and, beyond it, a straight line in molality with the
+// slope at the top of the range (positive there by construction), so the
+// inverse is defined for every Ω. Results past the parts' data carry the
+// blend's data-limit warning.
 func (x *Solution) osmolalityMono(m float64) (om, dom float64) {
-	pi, dp := x.piMono(m)
-	return pi / x.piPerG, dp / x.piPerG
+	if m <= x.capMolal {
+		pi, dp := x.piM(m)
+		return pi / x.piPerG, dp / x.piPerG
+	}
+	pi, dp := x.piM(x.capMolal)
+	if !(dp > 0) {
+		dp = x.nu * x.piPerG
+	}
+	return (pi + dp*(m-x.capMolal)) / x.piPerG, dp / x.piPerG
 }
 
 // molalityForOsmolality inverts osmolalityMono (safeguarded Newton in a
@@ -791,4 +802,38 @@ func pairTableIons() []string {
 		out = append(out, k[0], k[1])
 	}
 	return out
+}
+
+// OsmoticPressureGradient sets grad[i] = ∂π/∂mᵢ (Pa·kg/mol) at the
+// molalities m, with π = (RT M_w/V̄_w)·Ω and Ω = φ Σⱼ mⱼ the osmolality.
+// From Ω = Σm + Σⱼ mⱼ ln γⱼ − Gᴱˣ/(w_w RT) and ln γᵢ = ∂(Gᴱˣ/w_w RT)/∂mᵢ
+// (Pitzer 1991 eq. 3-59) with the symmetry of the second derivatives,
+//
+//	∂Ω/∂mᵢ = 1 + Σⱼ mⱼ ∂ln γᵢ/∂mⱼ = 1 + d ln γᵢ(t·m)/dt |_{t=1}
+//
+// one directional derivative for the whole gradient, taken by the
+// five-point central difference in t (step 10⁻³; checked against finite
+// differences of Ω in TestOsmoticPressureGradient). grad needs len(m).
+func (mx *Mixture) OsmoticPressureGradient(m, grad []float64) {
+	n := len(m)
+	mt := make([]float64, n)
+	lg := make([]float64, n)
+	for i := range grad {
+		grad[i] = 0
+	}
+	const h = 1e-3
+	for _, st := range [4]struct{ t, w float64 }{{1 - 2*h, 1}, {1 - h, -8}, {1 + h, 8}, {1 + 2*h, -1}} {
+		for i := range m {
+			mt[i] = st.t * m[i]
+		}
+		mx.Eval(mt, lg)
+		for i := range grad {
+			grad[i] += st.w * lg[i]
+		}
+	}
+	tK := mx.TemperatureK()
+	k := GasConstant * tK * water.MolarMassKgPerMol / water.MolarVolume(tK)
+	for i := range grad {
+		grad[i] = k * (1 + grad[i]/(12*h))
+	}
 }
