@@ -23,8 +23,11 @@ func render(w io.Writer, op, format string, resp []byte) error {
 		_, err := w.Write(buf.Bytes())
 		return err
 	case "csv", "table":
-		if op == "screen" {
+		switch op {
+		case "screen":
 			return renderScreen(w, format, resp)
+		case "osmotic":
+			return renderOsmotic(w, format, resp)
 		}
 		kv, err := flatten(resp)
 		if err != nil {

@@ -56,6 +56,8 @@ var screenColumns = []struct {
 	{"viscosity (mPa s)", func(c *api.ScreenCandidate) string { return num(c.ViscosityMPaS) }},
 	{"min regeneration energy (kWh/m3)", func(c *api.ScreenCandidate) string { return num(c.MinRegenerationEnergyKWhPerM3) }},
 	{"max saturation index (log10)", func(c *api.ScreenCandidate) string { return optNum(c.MaxSaturationIndex) }},
+	{"max saturation index mineral", func(c *api.ScreenCandidate) string { return maxMineral(c.Scaling) }},
+	{"feed-face saturation indices (mineral=log10 SI)", func(c *api.ScreenCandidate) string { return scalingText(c.Scaling, "=") }},
 	{"B (LMH)", func(c *api.ScreenCandidate) string { return num(c.BLMH) }},
 	{"B estimated", func(c *api.ScreenCandidate) string { return strconv.FormatBool(c.BEstimated) }},
 	{"hazard flags", func(c *api.ScreenCandidate) string { return strings.Join(c.HazardFlags, "; ") }},
@@ -97,13 +99,56 @@ func renderScreen(w io.Writer, format string, resp []byte) error {
 	if err := json.Unmarshal(resp, &r); err != nil {
 		return err
 	}
-	if format == "csv" {
-		return screenCSV(w, &r)
+	// The bulk feed's saturation indices, when the engine reports them.
+	var bulk struct {
+		FeedSaturationIndices map[string]float64 `json:"feed_saturation_indices"`
 	}
-	return screenTable(w, &r)
+	if err := json.Unmarshal(resp, &bulk); err != nil {
+		return err
+	}
+	if format == "csv" {
+		return screenCSV(w, &r, bulk.FeedSaturationIndices)
+	}
+	return screenTable(w, &r, bulk.FeedSaturationIndices)
 }
 
-func screenCSV(w io.Writer, r *api.ScreenResponse) error {
+// maxMineral names the mineral with the highest saturation index.
+func maxMineral(sc []api.ScalingIndex) string {
+	best := -1
+	for i, s := range sc {
+		if best < 0 || s.SaturationIndex > sc[best].SaturationIndex {
+			best = i
+		}
+	}
+	if best < 0 {
+		return ""
+	}
+	return sc[best].Mineral
+}
+
+// scalingText lists the saturation indices, highest first, as
+// "mineral<sep>SI" joined by "; ".
+func scalingText(sc []api.ScalingIndex, sep string) string {
+	m := make(map[string]float64, len(sc))
+	for _, s := range sc {
+		m[s.Mineral] = s.SaturationIndex
+	}
+	return siList(m, sep)
+}
+
+func siList(si map[string]float64, sep string) string {
+	var parts []string
+	for _, k := range minerals(si) {
+		parts = append(parts, k+sep+strconv.FormatFloat(si[k], 'f', 2, 64))
+	}
+	return strings.Join(parts, "; ")
+}
+
+// tableIDLen is the longest candidate ID the terminal table prints in
+// full; a longer one (a blend's, say) is cut and footnoted with its full ID.
+const tableIDLen = 22
+
+func screenCSV(w io.Writer, r *api.ScreenResponse, bulk map[string]float64) error {
 	cw := csv.NewWriter(w)
 	head := make([]string, len(screenColumns))
 	for i, c := range screenColumns {
@@ -129,6 +174,9 @@ func screenCSV(w io.Writer, r *api.ScreenResponse) error {
 	cw.Write([]string{})
 	scen, _ := json.Marshal(r.Scenario)
 	cw.Write([]string{"engine_version", r.EngineVersion})
+	for _, k := range minerals(bulk) {
+		cw.Write([]string{"feed (bulk) saturation index: " + k, num(bulk[k])})
+	}
 	cw.Write([]string{"scenario (JSON)", string(scen)})
 	keys := make([]string, 0, len(r.ModelChoices))
 	for k := range r.ModelChoices {
@@ -156,13 +204,17 @@ func screenCSV(w io.Writer, r *api.ScreenResponse) error {
 	return cw.Error()
 }
 
-func screenTable(w io.Writer, r *api.ScreenResponse) error {
+func screenTable(w io.Writer, r *api.ScreenResponse, bulk map[string]float64) error {
 	var b bytes.Buffer
 	fmt.Fprintf(&b, "Drawsift screen — %s, basis %s", r.Orientation, basisText(&r.Basis))
 	fmt.Fprintf(&b, ", feed π %.3g bar\n", r.FeedOsmoticPressureBar)
+	if len(bulk) > 0 {
+		fmt.Fprintf(&b, "feed (bulk) saturation indices, log10 IAP/Ksp: %s\n", siList(bulk, " "))
+	}
 	tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)
 	rob := r.Robustness != nil
-	head := "#\tsolute\tscore\tc mol/L\tJw LMH\tSRSF g/L\tcost USD/m³\tE kWh/m³\tη mPa·s\tmax SI\tPareto\t"
+	head := "#\tsolute\tscore\tc mol/L\tJw LMH\tSRSF g/L\tcost USD/m³\tE kWh/m³\tη mPa·s\tmax SI (feed face)\tPareto\t"
+	var notes []string
 	if rob {
 		head += "P(1st)\tP(top3)\trank 5–95 %\t"
 	}
@@ -173,12 +225,20 @@ func screenTable(w io.Writer, r *api.ScreenResponse) error {
 			cost = fmt.Sprintf("%.3g", *c.ReplenishmentCostUSDPerM3)
 		}
 		if c.MaxSaturationIndex != nil {
-			si = fmt.Sprintf("%.2f", *c.MaxSaturationIndex)
+			si = fmt.Sprintf("%s %.2f", maxMineral(c.Scaling), *c.MaxSaturationIndex)
+			if *c.MaxSaturationIndex > 0 {
+				si += " over"
+			}
 		}
 		if c.ParetoOptimal {
 			par = "*"
 		}
-		line := fmt.Sprintf("%d\t%s\t%.3f\t%.3f\t%.2f\t%.3g\t%s\t%.3f\t%.2f\t%s\t%s\t", c.Rank, c.Solute, c.Score,
+		id := c.Solute
+		if r := []rune(id); len(r) > tableIDLen {
+			notes = append(notes, id)
+			id = fmt.Sprintf("%s… [%d]", string(r[:tableIDLen-5]), len(notes))
+		}
+		line := fmt.Sprintf("%d\t%s\t%.3f\t%.3f\t%.2f\t%.3g\t%s\t%.3f\t%.2f\t%s\t%s\t", c.Rank, id, c.Score,
 			c.ConcentrationMolPerL, c.WaterFluxLMH, c.SpecificReverseSoluteFluxGPerL, cost, c.MinRegenerationEnergyKWhPerM3, c.ViscosityMPaS, si, par)
 		if rob && c.Robustness != nil {
 			line += fmt.Sprintf("%.2f\t%.2f\t%d–%d\t", c.Robustness.ProbabilityFirst, c.Robustness.ProbabilityTop3, c.Robustness.RankP05, c.Robustness.RankP95)
@@ -188,6 +248,10 @@ func screenTable(w io.Writer, r *api.ScreenResponse) error {
 	if err := tw.Flush(); err != nil {
 		return err
 	}
+	for i, id := range notes {
+		fmt.Fprintf(&b, "[%d] %s\n", i+1, id)
+	}
+	fmt.Fprintln(&b, "max SI: the highest saturation index (log10 IAP/Ksp) at the feed-side membrane face and its mineral; \"over\": supersaturated, may scale")
 	if rob {
 		fmt.Fprintf(&b, "robustness: %d Monte Carlo samples, seed %d\n", r.Robustness.Samples, r.Robustness.Seed)
 	}
