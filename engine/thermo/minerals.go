@@ -138,42 +138,16 @@ func (mn *mineral) logKAt(tK float64) (float64, []warn.Warning) {
 //
 // Special cases: a mineral with any ion absent or at zero (or negative)
 // molality is omitted, so the result is never NaN; an empty mixture gives
-// none. SaturationIndices allocates its result and one work slice.
+// none. SaturationIndices allocates its result and its work slices (SaturationInto does not).
 func (mx *Mixture) SaturationIndices(m []float64) []Saturation {
-	mx.mineralsOnce.Do(mx.prepareMinerals)
-	lg := make([]float64, len(mx.ions))
-	phi := mx.Eval(m, lg)
-	sum := 0.0
-	for _, mi := range m {
-		sum += mi
-	}
-	log10aw := -water.MolarMassKgPerMol * phi * sum / math.Ln10
-	for i := range lg { // lg becomes log₁₀ aᵢ
-		if m[i] > 0 {
-			lg[i] = math.Log10(m[i]) + lg[i]/math.Ln10
-		}
-	}
+	si, has := make([]float64, len(minerals)), make([]bool, len(minerals))
+	mx.SaturationInto(m, make([]float64, len(mx.ions)), si, has)
 	var out []Saturation
 	for k := range mx.minerals {
 		ma := &mx.minerals[k]
-		logIAP := ma.mn.water * log10aw
-		ok := true
-		for j, st := range ma.mn.ions {
-			i := ma.idx[j]
-			if !(m[i] > 0) {
-				ok = false
-				break
-			}
-			logIAP += st.n * lg[i]
+		if has[ma.k] {
+			out = append(out, Saturation{Mineral: ma.mn.name, SI: si[ma.k], LogKsp: ma.logK, Source: ma.mn.src, Warnings: ma.ws})
 		}
-		if !ok {
-			continue
-		}
-		si := logIAP - ma.logK
-		if math.IsNaN(si) || math.IsInf(si, 0) {
-			continue
-		}
-		out = append(out, Saturation{Mineral: ma.mn.name, SI: si, LogKsp: ma.logK, Source: ma.mn.src, Warnings: ma.ws})
 	}
 	return out
 }
