@@ -475,21 +475,28 @@ func (mm *mixModel) zsrValidMolal() float64 {
 	if math.IsInf(lim, 0) {
 		return lim
 	}
-	// Ω(m) increases; bracket [0, hi] with hi doubling.
-	hi := 1.0
-	for k := 0; k < 60; k++ {
-		if o, _ := mm.zsrOsmolality(hi); o >= lim {
+	return invertIncreasing(mm.zsrOsmolality, lim, 1, 0.5, "ZSR data limit")
+}
+
+// invertIncreasing returns the m ≥ 0 at which the increasing f (value and
+// slope, f(0) = 0) reaches target > 0: the bracket [0, hi] doubles from
+// hi0 until it holds the target, then a safeguarded Newton iteration
+// (internal/roots) from guess·hi.
+func invertIncreasing(f func(float64) (float64, float64), target, hi0, guess float64, solver string) float64 {
+	hi := hi0
+	for k := 0; k < 80; k++ {
+		if v, _ := f(hi); v >= target {
 			break
 		}
 		hi *= 2
 	}
-	f := func(m float64) (float64, float64) {
-		o, d := mm.zsrOsmolality(m)
-		return o - lim, d
+	g := func(m float64) (float64, float64) {
+		v, d := f(m)
+		return v - target, d
 	}
-	fhi, _ := f(hi)
-	r, err := roots.Newton(f, roots.Bracket{Lo: 0, Hi: hi, FLo: -lim, FHi: fhi}, hi/2,
-		&roots.Settings{Solver: "ZSR data limit", XRelTol: 1e-12, FAbsTol: 1e-12 * lim})
+	fhi, _ := g(hi)
+	r, err := roots.Newton(g, roots.Bracket{Lo: 0, Hi: hi, FLo: -target, FHi: fhi}, guess*hi,
+		&roots.Settings{Solver: solver, XRelTol: 1e-15, FAbsTol: 1e-14 * target, Scale: target})
 	if err != nil && !(r.X > 0) {
 		return hi
 	}
@@ -520,21 +527,7 @@ func (x *Solution) molalityForOsmolality(om float64) float64 {
 	if om <= 0 {
 		return 0
 	}
-	hi := om / x.nu * 2
-	for k := 0; k < 80; k++ {
-		if o, _ := x.osmolalityMono(hi); o >= om {
-			break
-		}
-		hi *= 2
-	}
-	f := func(m float64) (float64, float64) {
-		o, d := x.osmolalityMono(m)
-		return o - om, d
-	}
-	fhi, _ := f(hi)
-	r, _ := roots.Newton(f, roots.Bracket{Lo: 0, Hi: hi, FLo: -om, FHi: fhi}, math.Min(om/x.nu, hi),
-		&roots.Settings{Solver: "binary molality at a water activity", XRelTol: 1e-15, FAbsTol: 1e-14 * om, Scale: om})
-	return r.X
+	return invertIncreasing(x.osmolalityMono, om, om/x.nu*2, 0.5, "binary molality at a water activity")
 }
 
 // ionVector places the ions per formula unit in the mixture's order.
