@@ -93,24 +93,20 @@ func osmoticTable(w io.Writer, props []pair, r *api.OsmoticResponse) error {
 		return err
 	}
 	if len(r.Ions) > 0 {
-		fmt.Fprintln(&b, "\nions:")
-		tw = tabwriter.NewWriter(&b, 0, 0, 2, ' ', 0)
-		fmt.Fprintln(tw, "  ion\tcharge\tmolality (mol/kg)\tactivity coefficient γ")
-		for _, ion := range r.Ions {
-			fmt.Fprintf(tw, "  %s\t%+d\t%s\t%s\n", ion.Ion, ion.Charge, num(ion.MolalityMolPerKg), gamma(ion.ActivityCoefficient))
+		rows := make([][]string, len(r.Ions))
+		for i, ion := range r.Ions {
+			rows[i] = []string{ion.Ion, fmt.Sprintf("%+d", ion.Charge), num(ion.MolalityMolPerKg), gamma(ion.ActivityCoefficient)}
 		}
-		if err := tw.Flush(); err != nil {
+		if err := tableSection(&b, "ions", []string{"ion", "charge", "molality (mol/kg)", "activity coefficient γ"}, rows); err != nil {
 			return err
 		}
 	}
 	if len(r.Components) > 0 {
-		fmt.Fprintln(&b, "\ncomponents:")
-		tw = tabwriter.NewWriter(&b, 0, 0, 2, ' ', 0)
-		fmt.Fprintln(tw, "  solute\tmole fraction\tmolality (mol/kg)\tmolarity (mol/L)\tmass concentration (g/L)")
-		for _, c := range r.Components {
-			fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t%s\n", c.Solute, num(c.MoleFraction), num(c.MolalityMolPerKg), num(c.MolarityMolPerL), num(c.MassConcentrationGPerL))
+		rows := make([][]string, len(r.Components))
+		for i, c := range r.Components {
+			rows[i] = []string{c.Solute, num(c.MoleFraction), num(c.MolalityMolPerKg), num(c.MolarityMolPerL), num(c.MassConcentrationGPerL)}
 		}
-		if err := tw.Flush(); err != nil {
+		if err := tableSection(&b, "components", []string{"solute", "mole fraction", "molality (mol/kg)", "molarity (mol/L)", "mass concentration (g/L)"}, rows); err != nil {
 			return err
 		}
 	}
@@ -140,13 +136,7 @@ func osmoticTable(w io.Writer, props []pair, r *api.OsmoticResponse) error {
 
 func osmoticCSV(w io.Writer, props []pair, r *api.OsmoticResponse) error {
 	cw := csv.NewWriter(w)
-	var keys, vals []string
-	for _, p := range props {
-		keys = append(keys, p.key)
-		vals = append(vals, p.val)
-	}
-	cw.Write(keys)
-	cw.Write(vals)
+	writeKV(cw, props)
 	cw.Write([]string{})
 	cw.Write([]string{"ion", "charge", "molality (mol/kg)", "activity coefficient"})
 	for _, ion := range r.Ions {
@@ -176,4 +166,15 @@ func osmoticCSV(w io.Writer, props []pair, r *api.OsmoticResponse) error {
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// tableSection writes a titled, indented, aligned table to b.
+func tableSection(b *bytes.Buffer, title string, header []string, rows [][]string) error {
+	fmt.Fprintf(b, "\n%s:\n", title)
+	tw := tabwriter.NewWriter(b, 0, 0, 2, ' ', 0)
+	fmt.Fprintf(tw, "  %s\n", strings.Join(header, "\t"))
+	for _, r := range rows {
+		fmt.Fprintf(tw, "  %s\n", strings.Join(r, "\t"))
+	}
+	return tw.Flush()
 }

@@ -141,15 +141,19 @@ func scalar(tok json.Token) string {
 // value row.
 func writeCSV(w io.Writer, kv []pair) error {
 	cw := csv.NewWriter(w)
-	var keys, vals []string
-	for _, p := range kv {
-		keys = append(keys, p.key)
-		vals = append(vals, p.val)
+	writeKV(cw, kv)
+	cw.Flush()
+	return cw.Error()
+}
+
+// writeKV writes the header row of kv's keys and the row of its values.
+func writeKV(cw *csv.Writer, kv []pair) {
+	keys, vals := make([]string, len(kv)), make([]string, len(kv))
+	for i, p := range kv {
+		keys[i], vals[i] = p.key, p.val
 	}
 	cw.Write(keys)
 	cw.Write(vals)
-	cw.Flush()
-	return cw.Error()
 }
 
 // writeTable writes aligned "field  value" lines, sources last.

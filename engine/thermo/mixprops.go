@@ -198,20 +198,9 @@ func (p *MixProps) prepare(s *library.Solute) mixComp {
 			c.lnSMax = c.lnEtaS(math.Log(c.vMax))
 		}
 	case library.ViscosityRelativeTable:
-		// As prepareViscosity: η_r(0) = 1, strictly increasing mass fractions.
-		xs, ys := []float64{0}, []float64{1}
-		for _, pt := range v.Points {
-			if pt.MassFraction > xs[len(xs)-1] {
-				xs = append(xs, pt.MassFraction)
-				ys = append(ys, pt.RelativeViscosity)
-			}
-		}
-		if len(xs) >= 2 {
-			var f interp.PiecewiseLinear
-			if f.Fit(xs, ys) == nil {
-				c.visc = viscTable
-				c.table = &f
-			}
+		if f := relViscosityTable(v); f != nil {
+			c.visc = viscTable
+			c.table = f
 		}
 	}
 	return c

@@ -24,21 +24,30 @@ func (x *Solution) prepareViscosity() {
 	if x.tC < v.MinC || x.tC > v.MaxC {
 		x.warn(warn.Extrapolated, "%s: viscosity model fitted %g–%g °C; extrapolated to %g °C", x.Solute.ID, v.MinC, v.MaxC, x.tC)
 	}
-	if v.Kind == library.ViscosityRelativeTable && len(v.Points) > 0 {
-		xs, ys := []float64{0}, []float64{1}
-		for _, p := range v.Points {
-			if p.MassFraction > xs[len(xs)-1] {
-				xs = append(xs, p.MassFraction)
-				ys = append(ys, p.RelativeViscosity)
-			}
-		}
-		if len(xs) >= 2 {
-			var f interp.PiecewiseLinear
-			if f.Fit(xs, ys) == nil {
-				x.etaRT = &f
-			}
+	if v.Kind == library.ViscosityRelativeTable {
+		x.etaRT = relViscosityTable(v)
+	}
+}
+
+// relViscosityTable fits a relative-viscosity record: η_r(0) = 1 and the
+// points with strictly increasing mass fractions, linearly; nil if fewer
+// than one point remains.
+func relViscosityTable(v *library.ViscosityModel) *interp.PiecewiseLinear {
+	xs, ys := []float64{0}, []float64{1}
+	for _, p := range v.Points {
+		if p.MassFraction > xs[len(xs)-1] {
+			xs = append(xs, p.MassFraction)
+			ys = append(ys, p.RelativeViscosity)
 		}
 	}
+	if len(xs) < 2 {
+		return nil
+	}
+	var f interp.PiecewiseLinear
+	if f.Fit(xs, ys) != nil {
+		return nil
+	}
+	return &f
 }
 
 // ViscosityPaS returns the solution's dynamic viscosity at m mol/kg.
