@@ -232,3 +232,62 @@ func TestFeedByIons(t *testing.T) {
 		}
 	}
 }
+
+// A blend at a total concentration is the mixture of its parts at their
+// shares of it: by mole, x_k·c of each part in mol/L; by mass, w_k·c of
+// each in g/L (the definition of the fractions; common practice). The
+// blend's π equals the mixture's to rounding, in the osmotic operation and
+// as a flux draw; bad blends name the field.
+func TestOsmoticBlendAtTotal(t *testing.T) {
+	for _, c := range []struct{ blend, mixture string }{
+		{`"blend":[{"solute":"NaCl","mole_fraction":0.9},{"solute":"MgCl2","mole_fraction":0.1}],"concentration":1.2,"unit":"mol/L"`,
+			`"mixture":[{"solute":"NaCl","concentration":1.08,"unit":"mol/L"},{"solute":"MgCl2","concentration":0.12,"unit":"mol/L"}]`},
+		{`"blend":[{"solute":"KCl","mass_fraction":0.25},{"solute":"NaCl","mass_fraction":0.75}],"concentration":80,"unit":"g/L"`,
+			`"mixture":[{"solute":"KCl","concentration":20,"unit":"g/L"},{"solute":"NaCl","concentration":60,"unit":"g/L"}]`},
+	} {
+		b, e := dispatch(t, OpOsmotic, "{"+c.blend+"}")
+		if e != nil {
+			t.Fatalf("%s: %+v", c.blend, e)
+		}
+		m, e := dispatch(t, OpOsmotic, "{"+c.mixture+"}")
+		if e != nil {
+			t.Fatal(e)
+		}
+		for _, k := range []string{"osmotic_pressure_bar", "water_activity", "molality_mol_per_kg", "ionic_strength_mol_per_kg", "density_kg_per_m3"} {
+			if g, w := num(t, b, k), num(t, m, k); math.Abs(g-w) > 1e-9*math.Abs(w) {
+				t.Errorf("%s: blend %s = %.12g, mixture %.12g", c.blend, k, g, w)
+			}
+		}
+		f, e := dispatch(t, OpFlux, `{"membrane":{"preset":"tfc-standard"},"orientation":"AL-FS","draw":{`+c.blend+`}}`)
+		if e != nil {
+			t.Fatal(e)
+		}
+		fm, e := dispatch(t, OpFlux, `{"membrane":{"preset":"tfc-standard"},"orientation":"AL-FS","draw":{`+c.mixture+`}}`)
+		if e != nil {
+			t.Fatal(e)
+		}
+		if g, w := num(t, f, "water_flux_lmh"), num(t, fm, "water_flux_lmh"); math.Abs(g-w) > 1e-9*w {
+			t.Errorf("flux of the blend draw %.12g LMH, of the mixture %.12g", g, w)
+		}
+	}
+	named, e := dispatch(t, OpOsmotic, `{"id":"my blend","blend":[{"solute":"NaCl","mole_fraction":0.5},{"solute":"KCl","mole_fraction":0.5}],"concentration":1,"unit":"mol/kg"}`)
+	if e != nil || named["solute"] != "my blend" {
+		t.Errorf("named blend: %v %+v", named["solute"], e)
+	}
+	for _, c := range []struct{ body, field string }{
+		{`{"blend":[{"solute":"NaCl","mole_fraction":0.9},{"solute":"MgCl2","mole_fraction":0.2}],"concentration":1,"unit":"mol/L"}`, "blend"},
+		{`{"blend":[{"solute":"NaCl","mole_fraction":1}],"concentration":1,"unit":"mol/L"}`, "blend"},
+		{`{"blend":[{"solute":"NaCl","mole_fraction":0.5},{"solute":"nope","mole_fraction":0.5}],"concentration":1,"unit":"mol/L"}`, "blend[1].solute"},
+		{`{"solute":"NaCl","blend":[{"solute":"NaCl","mole_fraction":0.5},{"solute":"KCl","mole_fraction":0.5}],"concentration":1,"unit":"mol/L"}`, "blend"},
+		{`{"blend":[{"solute":"NaCl","mole_fraction":0.5},{"solute":"KCl","mole_fraction":0.5}],"mixture":[{"solute":"KCl","concentration":1,"unit":"mol/kg"}]}`, "mixture"},
+		{`{"blend":[{"solute":"NaCl","mole_fraction":0.5},{"solute":"KCl","mole_fraction":0.5}],"concentration":-1,"unit":"mol/L"}`, "concentration"},
+	} {
+		_, e := dispatch(t, OpOsmotic, c.body)
+		if e == nil || e.Kind != KindInvalid || e.Field != c.field {
+			t.Errorf("%s: %+v, want an invalid-input error on %s", c.body, e, c.field)
+		}
+	}
+	if _, e := dispatch(t, OpFlux, `{"membrane":{"preset":"tfc-standard"},"orientation":"AL-FS","draw":{"blend":[{"solute":"NaCl","mole_fraction":0.5},{"solute":"KCl","mole_fraction":0.6}],"concentration":1,"unit":"mol/L"}}`); e == nil || e.Field != "draw.blend" {
+		t.Errorf("flux draw blend summing to 1.1: %+v, want draw.blend", e)
+	}
+}

@@ -3,7 +3,6 @@ package api
 import (
 	"math"
 
-	"drawsift/engine/errs"
 	"drawsift/engine/limits"
 
 	"drawsift/engine/library"
@@ -23,7 +22,11 @@ type OsmoticRequest struct {
 	Concentration *float64      `json:"concentration,omitempty"`
 	Unit          string        `json:"unit,omitempty"`
 	Mixture       []MixturePart `json:"mixture,omitempty"`
-	TemperatureC  *float64      `json:"temperature_c,omitempty"` // default 25 °C
+	// Blend takes the solute's place: parts at fixed fractions at the total
+	// concentration given; ID names it.
+	ID           string      `json:"id,omitempty"`
+	Blend        []BlendPart `json:"blend,omitempty"`
+	TemperatureC *float64    `json:"temperature_c,omitempty"` // default 25 °C
 	// PH speciates the carbonate system when the solution holds HCO3- or
 	// CO3-2 (omitted: the composition's own pH, or a closed system).
 	PH *float64 `json:"ph,omitempty"`
@@ -142,32 +145,11 @@ func Osmotic(req *OsmoticRequest) (*OsmoticResponse, *Error) {
 	return osmoticResponse(x.Solute, x, st, ionic, tK), nil
 }
 
-// osmoticSolution prepares the request's solution: a solute at a
-// concentration, or a mixture.
+// osmoticSolution prepares the request's solution: a solute or a blend at
+// a concentration, or a mixture.
 func osmoticSolution(req *OsmoticRequest, tK float64) (*thermo.Solution, float64, thermo.Unit, error) {
-	if len(req.Mixture) > 0 {
-		if req.Solute != "" || req.Concentration != nil {
-			return nil, 0, 0, errs.InvalidText("mixture", "", nil, "give either a solute with its concentration or a mixture, not both")
-		}
-		return scenario.ResolveMixture("", req.Mixture, tK)
-	}
-	s, err := scenario.LookupSolute("solute", req.Solute)
-	if err != nil {
-		return nil, 0, 0, err
-	}
-	v, u, err := scenario.ParseConcentration("", req.Concentration, req.Unit)
-	if err != nil {
-		return nil, 0, 0, err
-	}
-	x, err := thermo.NewSolution(s, tK)
-	if err != nil {
-		return nil, 0, 0, err
-	}
-	m, err := x.ToMolality(v, u)
-	if err != nil {
-		return nil, 0, 0, err
-	}
-	return x, m, u, nil
+	return scenario.PrepareSolution("", &Concentration{Solute: req.Solute, Concentration: req.Concentration, Unit: req.Unit,
+		Mixture: req.Mixture, ID: req.ID, Blend: req.Blend}, tK)
 }
 
 // modelName is the response's model: the osmotic path of a mixture, else

@@ -17,6 +17,11 @@ type Concentration struct {
 	Concentration *float64      `json:"concentration,omitempty"`
 	Unit          string        `json:"unit,omitempty"`
 	Mixture       []MixturePart `json:"mixture,omitempty"`
+	// Blend takes the solute's place: parts at fixed mole or mass
+	// fractions, at the total concentration given (ID names it; omitted,
+	// the parts and fractions do).
+	ID    string      `json:"id,omitempty"`
+	Blend []BlendPart `json:"blend,omitempty"`
 }
 
 // FluxSpec is a flux request as the contract gives it (engine/api
@@ -69,7 +74,7 @@ type Side struct {
 // PrepareSide checks one stream's solute and concentration (fields under
 // prefix) and evaluates its bulk state at tK.
 func PrepareSide(prefix string, c *Concentration, tK float64) (*Side, error) {
-	x, m, u, err := prepareSolution(prefix, c, tK)
+	x, m, u, err := PrepareSolution(prefix, c, tK)
 	if err != nil {
 		return nil, err
 	}
@@ -85,16 +90,26 @@ func sideAt(prefix string, x *thermo.Solution, m float64, u thermo.Unit) (*Side,
 	return &Side{Solute: x.Solute, X: x, M: m, CSI: st.MolarityMolPerM3, State: st, Unit: u}, nil
 }
 
-// prepareSolution reads one stream (fields under prefix): a solute at a
-// concentration, or a mixture (ResolveMixture).
-func prepareSolution(prefix string, c *Concentration, tK float64) (*thermo.Solution, float64, thermo.Unit, error) {
+// PrepareSolution reads one solution (fields under prefix): a solute at
+// a concentration, a blend at a total concentration (ResolveBlend), or a
+// mixture of parts each at its own concentration (ResolveMixture).
+func PrepareSolution(prefix string, c *Concentration, tK float64) (*thermo.Solution, float64, thermo.Unit, error) {
 	if len(c.Mixture) > 0 {
-		if c.Solute != "" || c.Concentration != nil {
-			return nil, 0, 0, invalid(errs.Join(prefix, "mixture"), nil, "give either a solute with its concentration or a mixture, not both")
+		if c.Solute != "" || c.Concentration != nil || c.Blend != nil {
+			return nil, 0, 0, invalid(errs.Join(prefix, "mixture"), nil, "give a solute or a blend with its concentration, or a mixture, not two of them")
 		}
 		return ResolveMixture(prefix, c.Mixture, tK)
 	}
-	s, err := LookupSolute(errs.Join(prefix, "solute"), c.Solute)
+	var s *library.Solute
+	var err error
+	if c.Blend != nil {
+		if c.Solute != "" {
+			return nil, 0, 0, invalid(errs.Join(prefix, "blend"), nil, "give either a solute or a blend, not both")
+		}
+		s, err = ResolveBlend(prefix, &Candidate{ID: c.ID, Blend: c.Blend}, nil)
+	} else {
+		s, err = LookupSolute(errs.Join(prefix, "solute"), c.Solute)
+	}
 	if err != nil {
 		return nil, 0, 0, err
 	}

@@ -222,18 +222,18 @@ func trimLimit(v float64) string {
 // x_k ∝ w_k/M_k).
 func ResolveBlend(field string, c *Candidate, extra map[string]*library.Solute) (*library.Solute, error) {
 	if len(c.Blend) < 2 {
-		return nil, errs.InvalidText(field+".blend", "", nil, "a blend needs two or more parts: [{\"solute\", \"mole_fraction\"}, …]")
+		return nil, errs.InvalidText(errs.Join(field, "blend"), "", nil, "a blend needs two or more parts: [{\"solute\", \"mole_fraction\"}, …]")
 	}
 	const maxParts = 12
 	if len(c.Blend) > maxParts {
-		return nil, errs.Invalid(field+".blend", float64(len(c.Blend)), fmt.Sprintf("at most %d parts", maxParts), "a blend has at most %d parts (got %d)", maxParts, len(c.Blend))
+		return nil, errs.Invalid(errs.Join(field, "blend"), float64(len(c.Blend)), fmt.Sprintf("at most %d parts", maxParts), "a blend has at most %d parts (got %d)", maxParts, len(c.Blend))
 	}
 	sols := make([]*library.Solute, len(c.Blend))
 	fr := make([]float64, len(c.Blend))
 	byMass := c.Blend[0].MassFraction != nil
 	sum := 0.0
 	for k, p := range c.Blend {
-		f := fmt.Sprintf("%s.blend[%d]", field, k)
+		f := errs.Join(field, fmt.Sprintf("blend[%d]", k))
 		s, err := lookupPart(f+".solute", p.Solute, extra)
 		if err != nil {
 			return nil, err
@@ -254,7 +254,7 @@ func ResolveBlend(field string, c *Candidate, extra map[string]*library.Solute) 
 		sum += *v
 	}
 	if math.Abs(sum-1) > 1e-6 {
-		return nil, errs.Invalid(field+".blend", sum, "1 (within 1e-6)", "the parts' fractions sum to %.6g, not 1", sum)
+		return nil, errs.Invalid(errs.Join(field, "blend"), sum, "1 (within 1e-6)", "the parts' fractions sum to %.6g, not 1", sum)
 	}
 	if byMass {
 		tot := 0.0
@@ -280,7 +280,7 @@ func ResolveBlend(field string, c *Candidate, extra map[string]*library.Solute) 
 	}
 	b, err := library.NewBlend(id, sols, fr)
 	if err != nil {
-		return nil, errs.InvalidText(field+".blend", "", nil, "%v", err)
+		return nil, errs.InvalidText(errs.Join(field, "blend"), "", nil, "%v", err)
 	}
 	return b, nil
 }
