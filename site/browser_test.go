@@ -712,8 +712,13 @@ func TestPagePrintReport(t *testing.T) {
 	if eval[bool](t, b, `document.getElementById("scenario-form").offsetParent !== null`) {
 		t.Error("the form prints")
 	}
-	if n := eval[int](t, b, `document.querySelectorAll("#rp-results tbody tr").length`); n != len(eval[[]pageRow](t, b, jsRows)) {
+	ranked := len(eval[[]pageRow](t, b, jsRows))
+	if n := eval[int](t, b, `document.querySelectorAll("#rp-results table.ranking tbody tr").length`); n != ranked {
 		t.Errorf("the report's table has %d rows", n)
+	}
+	// The mineral saturation table: the bulk feed and each candidate's face.
+	if n := eval[int](t, b, `document.querySelectorAll("#rp-results table.scaling tbody tr").length`); n != ranked+1 {
+		t.Errorf("the report's saturation table has %d rows, want %d", n, ranked+1)
 	}
 	if n := eval[int](t, b, `document.querySelectorAll("#rp-plots svg").length`); n != 4 {
 		t.Errorf("the report has %d plots, want 4", n)
@@ -735,6 +740,9 @@ func TestPagePrintReport(t *testing.T) {
 	}
 	if !strings.Contains(text, "KCl") || !strings.Contains(text, "NaCl") {
 		t.Error("the PDF's text lacks the ranked solutes")
+	}
+	if !strings.Contains(text, squash("Mineral saturation of the feed")) || !strings.Contains(text, "gypsum") {
+		t.Error("the PDF's text lacks the mineral saturation table")
 	}
 	dir := filepath.Join(moduleRoot(t), "testdata", "artifacts")
 	os.MkdirAll(dir, 0o755)

@@ -10,7 +10,8 @@
 // for time): data-engine ready | failed; data-edit, the count of scenario
 // edits; data-run done- | error- | invalid-<run>, with data-run-edit the
 // edit that run showed; data-plots done-<run> once that run's plots are
-// drawn; data-robust and data-sweep (results.js, plots.js).
+// drawn; data-robust and data-sweep (results.js, plots.js); data-solution
+// (mixtures.js).
 "use strict";
 
 (function () {
@@ -58,6 +59,7 @@
     P.renderResult(r.data, performance.now() - t0);
     if (!document.body.dataset.firstResultMs) document.body.dataset.firstResultMs = String(Math.round(performance.now()));
     finish("done", seq, edit);
+    P.refreshSolution();
     P.renderPlots(seq);
   }
 
@@ -72,6 +74,7 @@
     }
     state.prefs.tab = name;
     S.save(S.KEY_PREFS, state.prefs);
+    if (name === "solution") P.refreshSolution();
   }
 
   // Starting values the form suggests when the basis kind changes to one
@@ -230,11 +233,12 @@
     P.writeForm(init.sc);
     setScenario(P.readForm());
     P.renderLibrary();
+    P.buildSolutionPanel();
     state.ready = true;
     await runScreen();
   }
 
-  Object.assign(P, { setScenario, changed, scheduleRun, runScreen });
+  Object.assign(P, { setScenario, changed, scheduleRun, runScreen, selectTab });
 
   if (document.readyState === "loading") document.addEventListener("DOMContentLoaded", start);
   else start();

@@ -108,6 +108,16 @@
     b.textContent = msg || "";
     b.hidden = !msg;
   }
+  // A screen candidate is a solute ID (a string) or a blend, {id, blend:
+  // [{solute, mole_fraction | mass_fraction}]}; candId is its name.
+  function candId(c) { return typeof c === "string" ? c : c.id; }
+  // candidate is the scenario's entry named id (a blend's object, else id).
+  function candidate(id) {
+    return (state.scenario && state.scenario.candidates || []).find(c => candId(c) === id) || id;
+  }
+  function isBlend(c) { return c !== null && typeof c === "object" && Array.isArray(c.blend); }
+  // candSolutes lists the solute IDs a candidate uses: itself, or a blend's parts.
+  function candSolutes(c) { return isBlend(c) ? c.blend.map(p => p.solute) : [c]; }
   function solute(id) {
     const k = String(id).toLowerCase();
     return state.library.find(s => s.id.toLowerCase() === k) || state.custom.find(s => s.id.toLowerCase() === k);
@@ -193,7 +203,7 @@
 
   window.DrawsiftPage = {
     $, VERSION, state, S: window.DrawsiftStore, C: window.DrawsiftCharts,
-    h, clear, num, fmt, clone, debounce, pct, prune, status, banner, solute,
+    h, clear, num, fmt, clone, debounce, pct, prune, status, banner, solute, candId, candidate, isBlend, candSolutes,
     setDefaults, defaults, limit, dflt, limitText, inLimit, objectiveKeys, objLabel, objColour, objSense,
     hazardFlags, hazardWords, pressureUnits, barTo, gasConstantLBar,
     pUnit, pConv, fConv, fLabel, sfLabel, sfValue,

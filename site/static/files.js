@@ -35,6 +35,11 @@
     },
     required: ["id", "molar_mass_g_per_mol", "diffusivity_m2_per_s"], hint: true,
   };
+  // A blend candidate: {id, blend: [{solute, mole_fraction | mass_fraction}]}.
+  const SHAPE_BLEND = {
+    object: { id: str_, blend: ["array", { object: { solute: str_, mole_fraction: num_, mass_fraction: num_ }, required: ["solute"], hint: true }] },
+    required: ["id", "blend"], hint: true,
+  };
   // oneOf accepts one of the names the engine lists under key of its defaults.
   const oneOf = key => v => P.defaults()[key].includes(v) ? "" : "must be " + P.defaults()[key].map(x => "\"" + x + "\"").join(" or ");
   const SHAPE_SCENARIO = {
@@ -47,7 +52,7 @@
       temperature_c: num_, k_draw_m_per_s: num_, k_feed_m_per_s: num_,
       channel: { object: { height_mm: num_, width_mm: num_, length_mm: num_, crossflow_velocity_m_per_s: num_, spacer: bool_, feed_crossflow_velocity_m_per_s: num_ }, hint: true },
       external_cp: bool_,
-      candidates: ["array", str_],
+      candidates: ["array", { anyOf: [str_, SHAPE_BLEND] }],
       custom_solutes: ["array", SHAPE_CUSTOM],
       basis: { object: { kind: v => ["osmotic-pressure", "concentration", "water-flux"].includes(v) ? "" : "must be osmotic-pressure, concentration or water-flux", value: num_, unit: str_, multiple_of_feed: num_ }, required: ["kind"], hint: true },
       osmotic_model: v => P.defaults().osmotic_models.includes(v) || P.defaults().osmotic_model_aliases[v] ? "" : oneOf("osmotic_models")(v),
@@ -117,6 +122,8 @@
     P.fillPresets();
     P.writeForm(sc);
     P.renderLibrary();
+    P.renderBlends();
+    P.fillPicks();
     state.sort = null;
     await P.runScreen();
   }

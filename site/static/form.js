@@ -362,7 +362,9 @@
     // A field the form does not show (set in an imported or linked file)
     // is kept as it is.
     if (prev.channel && prev.channel.feed_crossflow_velocity_m_per_s !== undefined) sc.channel.feed_crossflow_velocity_m_per_s = prev.channel.feed_crossflow_velocity_m_per_s;
-    const customs = state.custom.filter(c => (sc.candidates || []).some(id => id.toLowerCase() === c.id.toLowerCase()));
+    // The custom solutes the candidates use, alone or as parts of blends.
+    const used = new Set((sc.candidates || []).flatMap(P.candSolutes).map(id => id.toLowerCase()));
+    const customs = state.custom.filter(c => used.has(c.id.toLowerCase()));
     if (customs.length) sc.custom_solutes = clone(customs);
     return prune(sc);
   }

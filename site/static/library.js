@@ -13,7 +13,8 @@
     const all = state.library.concat(state.custom.map(c => Object.assign({ family: "custom", name: c.name || c.id + " (user-defined)", custom: true }, c)));
     const shown = all.filter(s => (!fam || s.family === fam) &&
       (!q || s.id.toLowerCase().includes(q) || (s.name || "").toLowerCase().includes(q) || (s.aliases || []).some(a => a.toLowerCase().includes(q))));
-    const cands = new Set((state.scenario.candidates || []).map(x => x.toLowerCase()));
+    // The library's boxes tick single solutes; blends are listed apart (mixtures.js).
+    const cands = new Set((state.scenario.candidates || []).filter(x => !P.isBlend(x)).map(x => x.toLowerCase()));
     for (const s of shown) {
       const id = "inc-" + s.id.replace(/[^A-Za-z0-9]/g, "_");
       const li = h("li", { class: state.current === s.id ? "current" : null, "data-solute": s.id });
@@ -29,18 +30,22 @@
   }
   function toggleCandidate(id, on) {
     const sc = state.scenario;
-    const list = (sc.candidates || []).filter(x => x.toLowerCase() !== id.toLowerCase());
+    const list = (sc.candidates || []).filter(x => P.isBlend(x) || x.toLowerCase() !== id.toLowerCase());
     if (on) list.push(id);
     sc.candidates = list;
     P.setScenario(P.readForm());
-    $("lib-count").textContent = $("lib-count").textContent.replace(/\d+ included/, list.length + " included");
+    $("lib-count").textContent = $("lib-count").textContent.replace(/\d+ included/, list.filter(x => !P.isBlend(x)).length + " included");
     P.scheduleRun();
   }
   function bulkInclude(on) {
     const ids = Array.from($("lib-list").querySelectorAll("li")).map(li => li.dataset.solute);
     const sc = state.scenario;
-    const set = new Map((sc.candidates || []).map(x => [x.toLowerCase(), x]));
-    for (const id of ids) { if (on) set.set(id.toLowerCase(), id); else set.delete(id.toLowerCase()); }
+    const set = new Map((sc.candidates || []).map(x => [P.candId(x).toLowerCase(), x]));
+    for (const id of ids) {
+      const k = id.toLowerCase();
+      if (on && !set.has(k)) set.set(k, id);
+      else if (!on && !P.isBlend(set.get(k))) set.delete(k);
+    }
     sc.candidates = Array.from(set.values());
     P.setScenario(P.readForm());
     renderLibrary();
@@ -161,6 +166,12 @@
     }
   }
   function removeCustom(id) {
+    // A blend that holds the solute would lose a part: say so instead.
+    const users = (state.scenario.candidates || []).filter(c => P.isBlend(c) && c.blend.some(p => p.solute.toLowerCase() === id.toLowerCase()));
+    if (users.length) {
+      $("lib-detail").appendChild(h("p", { class: "field-error", role: "alert", text: id + " is a part of " + users.map(P.candId).join(", ") + "; remove that blend from the screen first." }));
+      return;
+    }
     state.custom = state.custom.filter(c => c.id !== id);
     S.save(S.KEY_CUSTOM, state.custom);
     toggleCandidate(id, false);

@@ -19,7 +19,9 @@
     return C.PALETTE[(i < 0 ? 0 : i) % C.PALETTE.length];
   }
 
-  function figure(key, svg, note) {
+  // figure wraps a plot with its caption and export buttons; the plots of
+  // the ranking (all but own ones) go into the printed report.
+  function figure(key, svg, note, own) {
     const fig = h("figure", { class: "plot", "data-plot": key });
     fig.appendChild(svg);
     const cap = h("figcaption", {}, h("span", { text: note || "" }));
@@ -31,7 +33,7 @@
       on: { click: () => C.toPNG(svg, 2).then(b => S.download("drawsift-" + key + ".png", b)).catch(e => P.banner(e.message)) } }));
     cap.appendChild(btns);
     fig.appendChild(cap);
-    state.plots[key] = svg;
+    if (!own) state.plots[key] = svg;
     return fig;
   }
 
@@ -51,13 +53,17 @@
     const grid = [];
     for (let i = 1; i <= 24; i++) grid.push(cmax * i / 24);
     const batch = [];
-    const lib = ids.filter(id => state.library.some(s => s.id === id));
+    // Library solutes and blends of library solutes come from the engine;
+    // custom solutes (the osmotic operation does not take them) below.
+    const custom = new Set(state.custom.map(c => c.id));
+    const lib = ids.filter(id => P.candSolutes(P.candidate(id)).every(s => !custom.has(s)) && (P.isBlend(P.candidate(id)) || state.library.some(s => s.id === id)));
     // The scenario's allow_extrapolation reaches the osmotic requests too, so
     // the curve covers what the ranking used: without it the engine refuses
     // points past a model's data (and its bridge to the measured saturated
     // solution), and those points are left out.
     const extrap = state.scenario.allow_extrapolation ? { allow_extrapolation: true } : {};
-    for (const id of lib) for (const c of grid) batch.push({ op: "osmotic", body: Object.assign({ solute: id, concentration: c, unit: "mol/L", temperature_c: tC }, extrap) });
+    const what = id => { const c = P.candidate(id); return P.isBlend(c) ? { id: c.id, blend: c.blend } : { solute: id }; };
+    for (const id of lib) for (const c of grid) batch.push({ op: "osmotic", body: Object.assign(what(id), { concentration: c, unit: "mol/L", temperature_c: tC }, extrap) });
     const br = await state.engine.call("batch", batch);
     if (seq !== state.runSeq) return;
     const series = [], legendItems = [];
@@ -104,8 +110,8 @@
     const base = P.engineScenario(state.scenario, false);
     base.orientations = P.defaults().orientations.filter(o => o !== base.orientation);
     for (const id of ids) {
-      const req = Object.assign(clone(base), { candidates: [id], sweep: { variable: "concentration", unit: "mol/L", from: cmax / 20, to: cmax, points: 20 } });
-      if (!state.custom.some(c => c.id === id)) delete req.custom_solutes;
+      const req = Object.assign(clone(base), { candidates: [P.candidate(id)], sweep: { variable: "concentration", unit: "mol/L", from: cmax / 20, to: cmax, points: 20 } });
+      if (!P.candSolutes(P.candidate(id)).some(s => custom.has(s))) delete req.custom_solutes;
       const r = await state.engine.call("screen", req);
       if (seq !== state.runSeq) return;
       if (!r.ok || !r.data.sweep) continue;
@@ -143,7 +149,7 @@
     const series = [];
     let failed = null;
     for (let i = 0; i < ids.length; i++) {
-      const req = Object.assign(P.engineScenario(state.scenario, false), { candidates: [ids[i]], sweep: { variable: variable, from: from, to: to, points: n } });
+      const req = Object.assign(P.engineScenario(state.scenario, false), { candidates: [P.candidate(ids[i])], sweep: { variable: variable, from: from, to: to, points: n } });
       if (variable === "concentration") req.sweep.unit = "mol/L";
       const r = await state.engine.call("screen", req, { signal: sweepAbort.signal });
       if (sweepAbort.signal.aborted || r.cancelled) break;
@@ -169,5 +175,5 @@
   }
   function cancelSweep() { if (sweepAbort) sweepAbort.abort(); }
 
-  Object.assign(P, { plotted, colourOf, renderPlots, runSweep, cancelSweep });
+  Object.assign(P, { plotted, colourOf, figure, renderPlots, runSweep, cancelSweep });
 })();

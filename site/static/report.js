@@ -49,7 +49,7 @@
     row("Mass transfer", sc.external_cp === false ? "not counted" : sc.k_draw_m_per_s === undefined && sc.k_feed_m_per_s === undefined ? "k from the channel (Sherwood correlation)" :
       "k " + kText(sc.k_draw_m_per_s, "draw side") + "; " + kText(sc.k_feed_m_per_s, "feed side"));
     row("Basis of comparison", $("run-summary").textContent.replace(/^Ranked [^a]+ at /, "").split(";")[0]);
-    row("Candidates", (sc.candidates || []).join(", "));
+    row("Candidates", (sc.candidates || []).map(c => P.isBlend(c) ? c.id + " (" + P.blendText(c) + ")" : c).join(", "));
     row("Weights", Object.keys(res.weights).filter(k => res.weights[k] > 0).map(k => P.objLabel(k) + " " + res.weights[k]).join(", "));
     row("Osmotic model", sc.osmotic_model || P.defaults().osmotic_model);
     row("Solutes excluded by hazard", (sc.exclude_hazards || []).length ? sc.exclude_hazards.join(", ") : "none");
@@ -65,6 +65,11 @@
     for (const b of t.querySelectorAll("thead button")) b.replaceWith(...Array.from(b.childNodes));
     for (const b of t.querySelectorAll(".bar")) b.remove();
     rr.appendChild(t);
+    rr.appendChild(h("h3", { text: "Mineral saturation of the feed" }));
+    const sat = $("scaling-table").cloneNode(true);
+    sat.removeAttribute("id");
+    rr.appendChild(sat);
+    rr.appendChild(h("p", { text: $("scaling-hint").textContent + " " + document.querySelector(".sat-legend").textContent }));
     rr.appendChild(h("h3", { text: "Left out" }));
     const ex = $("excluded").cloneNode(true);
     ex.removeAttribute("id");

@@ -46,6 +46,7 @@
       " candidates at " + basis + "; " + ori + "; feed π " + fmt(pConv(res.feed_osmotic_pressure_bar)) + " " + pUnit() +
       (ms ? "; computed in " + Math.round(ms) + " ms." : ".");
     renderTable();
+    renderScaling(res);
     const ex = clear($("excluded"));
     if (!res.excluded.length) ex.appendChild(h("li", { text: "None: every candidate passed the hard limits." }));
     for (const x of res.excluded) ex.appendChild(h("li", { "data-solute": x.solute }, h("strong", { text: x.solute }), " — ", h("span", { class: "reason", text: x.reason }), x.detail ? ": " + x.detail : ""));
@@ -134,6 +135,37 @@
     if (btn) btn.focus();
   }
 
+  // ---- mineral saturation ---------------------------------------------------------
+  // Minerals within SCALING_SHOWN log units of saturation in the bulk feed
+  // or at any candidate's feed-side face are shown (our own cut: further
+  // below, a mineral cannot form scale however the ranking varies).
+  const SCALING_SHOWN = -2;
+  // renderScaling fills the saturation table: the bulk feed's indices
+  // (feed_saturation_indices) and each ranked candidate's at the feed-side
+  // membrane face (its scaling list), in rank order.
+  function renderScaling(res) {
+    const t = $("scaling-table");
+    const head = clear(t.tHead), body = clear(t.tBodies[0]);
+    const bulk = res.feed_saturation_indices || {};
+    const rows = [{ label: "Feed, bulk", solute: "", si: bulk }].concat(res.candidates.map(c => {
+      const si = {};
+      for (const s of c.scaling || []) si[s.mineral] = s.saturation_index;
+      return { label: c.solute + " — feed-side face", solute: c.solute, si: si };
+    }));
+    const top = {};
+    for (const r of rows) for (const k in r.si) if (isFinite(r.si[k])) top[k] = Math.max(top[k] === undefined ? -Infinity : top[k], r.si[k]);
+    const minerals = Object.keys(top).filter(k => top[k] >= SCALING_SHOWN).sort((a, b) => top[b] - top[a]);
+    if (!minerals.length) {
+      body.appendChild(h("tr", {}, h("td", { text: Object.keys(top).length ? "No mineral comes within " + -SCALING_SHOWN + " log units of saturation." : "The feed and the draws share no mineral's ions." })));
+      return;
+    }
+    head.appendChild(h("tr", {}, h("th", { scope: "col", text: "Where" }), ...minerals.map(k => h("th", { scope: "col", text: k }))));
+    for (const r of rows) {
+      body.appendChild(h("tr", { "data-solute": r.solute || null, "data-where": r.solute ? "face" : "bulk" },
+        h("th", { scope: "row", text: r.label }), ...minerals.map(k => P.siCell(r.si[k]))));
+    }
+  }
+
   // ---- robustness -------------------------------------------------------------
   // body data-robust is running | done | cancelled | error; data-robust-
   // progress counts the progress reports of the current run.
@@ -208,5 +240,5 @@
     $("robust-note").textContent = "Sampling: " + r.robustness.distributions + ".";
   }
 
-  Object.assign(P, { columns, renderResult, renderTable, runRobust, cancelRobust, renderRobust });
+  Object.assign(P, { columns, renderResult, renderTable, renderScaling, runRobust, cancelRobust, renderRobust });
 })();
