@@ -49,6 +49,7 @@ type Solution struct {
 	solMolal   float64 // solubility at T, mol/kg (+Inf if miscible)
 	validMolal float64 // upper limit of the model's data, mol/kg
 	capMolal   float64 // top of the solver's working range (monotone extension beyond)
+	gordon     bool    // D(c) by Gordon's equation (transport_props.go)
 	capC       float64 // molarity at capMolal, mol/m³
 	capPi      float64 // π at capC, Pa
 	capSlope   float64 // dπ/dc at capC, Pa·m³/mol
