@@ -95,6 +95,13 @@ type MembraneReport struct {
 	BLMH       float64 `json:"b_lmh"`
 	SUM        float64 `json:"s_um"`
 	BRule      string  `json:"b_rule,omitempty"`
+	// A and B above are at the operating temperature: measured at
+	// reference_temperature_c (omitted: taken as measured at it) and
+	// multiplied by the factors by temperature_rule.
+	ReferenceTemperatureC *float64 `json:"reference_temperature_c,omitempty"`
+	ATemperatureFactor    float64  `json:"a_temperature_factor"`
+	BTemperatureFactor    float64  `json:"b_temperature_factor"`
+	TemperatureRule       string   `json:"temperature_rule"`
 }
 
 var fluxSources = []Source{
@@ -121,6 +128,12 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 	resp.Membrane = MembraneReport{ALMHPerBar: mem.AMPerSPa / thermo.MPerSPaPerLMHPerBar, BLMH: f.BDrawMPerS / thermo.MPerSPerLMH, SUM: mem.SM / thermo.MPerUM}
 	if mem.Record != nil {
 		resp.Membrane.Preset = mem.Record.ID
+	}
+	tm := mem.Temperature
+	resp.Membrane.ATemperatureFactor, resp.Membrane.BTemperatureFactor, resp.Membrane.TemperatureRule = tm.FactorA, tm.FactorB, tm.Rule
+	if tm.RefK > 0 {
+		refC := tm.RefK - thermo.ZeroCelsiusK
+		resp.Membrane.ReferenceTemperatureC = &refC
 	}
 	if f.BDrawEstimated {
 		resp.Membrane.BRule = library.BEstimateRule

@@ -385,18 +385,19 @@ func buildScreenResponse(req *ScreenRequest, sc *screen.Scenario, info *scenario
 		model = "van 't Hoff (ideal dilute) osmotic pressure, π = ν c R T"
 	}
 	resp.ModelChoices = map[string]string{
-		"osmotic_model":       model,
-		"flux_model":          "water and reverse solute flux with ICP in the support and ECP on both faces (engine/transport); interface concentrations from the exponential profiles, π from the real model",
-		"solute_permeability": info.BRule,
-		"mass_transfer":       info.KRule,
-		"feed_osmotic":        sc.Feed.OsmoticMethod,
-		"scaling":             screen.ScalingMethod,
-		"regeneration_energy": fmt.Sprintf("minimum (reversible) work to recover %.0f %% of the diluted draw's water: W/V = (1/r)∫₀ʳ π dr′, π = −(RT/V̄w) ln aw along the re-concentration", 100*sc.RegenerationRecovery),
-		"replenishment_cost":  "specific reverse solute flux (g/L = kg/m³) × bulk price (USD/kg) = USD per m³ of product water; the price range carried through as min–max, the mid value scored",
-		"normalisation":       "min–max per objective over the ranked candidates, 1 = best; score = Σ weight × normalised value / Σ weights",
-		"pareto":              "non-dominated set on the chosen objectives (unknown values count as worst)",
-		"validity":            map[bool]string{false: "candidates needed above their osmotic model's data limit are excluded", true: "candidates above their osmotic model's data limit are kept and flagged"}[sc.AllowExtrapolation],
-		"json_library":        "see health operation",
+		"osmotic_model":        model,
+		"flux_model":           "water and reverse solute flux with ICP in the support and ECP on both faces (engine/transport); interface concentrations from the exponential profiles, π from the real model",
+		"solute_permeability":  info.BRule,
+		"membrane_temperature": info.MembraneTemperature,
+		"mass_transfer":        info.KRule,
+		"feed_osmotic":         sc.Feed.OsmoticMethod,
+		"scaling":              screen.ScalingMethod,
+		"regeneration_energy":  fmt.Sprintf("minimum (reversible) work to recover %.0f %% of the diluted draw's water: W/V = (1/r)∫₀ʳ π dr′, π = −(RT/V̄w) ln aw along the re-concentration", 100*sc.RegenerationRecovery),
+		"replenishment_cost":   "specific reverse solute flux (g/L = kg/m³) × bulk price (USD/kg) = USD per m³ of product water; the price range carried through as min–max, the mid value scored",
+		"normalisation":        "min–max per objective over the ranked candidates, 1 = best; score = Σ weight × normalised value / Σ weights",
+		"pareto":               "non-dominated set on the chosen objectives (unknown values count as worst)",
+		"validity":             map[bool]string{false: "candidates needed above their osmotic model's data limit are excluded", true: "candidates above their osmotic model's data limit are kept and flagged"}[sc.AllowExtrapolation],
+		"json_library":         "see health operation",
 	}
 	delete(resp.ModelChoices, "json_library")
 	resp.Sources = append(resp.Sources, fluxSources...)

@@ -18,6 +18,10 @@ type Membrane struct {
 	ALMHPerBar float64 `json:"a_lmh_per_bar"`
 	BNaClLMH   float64 `json:"b_nacl_lmh"`
 	SUM        float64 `json:"s_um"`
+	// ReferenceTemperatureC is the temperature of the test behind A and B;
+	// the engine carries them to the operating temperature
+	// (scenario.Membrane.AtTemperature).
+	ReferenceTemperatureC float64 `json:"reference_temperature_c"`
 	// BBySolute holds measured B (LMH) for other solutes, keyed by solute ID.
 	BBySolute map[string]float64 `json:"b_by_solute_lmh,omitempty"`
 	// Uncertainty: relative standard deviations used by robustness runs.
@@ -49,6 +53,9 @@ func (m *Membrane) Validate() error {
 	}
 	if len(m.Sources) == 0 {
 		return fmt.Errorf("membrane %q: sources are required", m.ID)
+	}
+	if !(m.ReferenceTemperatureC >= 0 && m.ReferenceTemperatureC <= 100) || m.Sources["reference_temperature_c"] == "" {
+		return fmt.Errorf("membrane %q: reference_temperature_c (0–100 °C) and its source are required", m.ID)
 	}
 	return nil
 }

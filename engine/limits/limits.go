@@ -142,11 +142,19 @@ var (
 	// MembraneBNaCl is the membrane's NaCl B, the base of estimates.
 	MembraneBNaCl = Range{Field: "membrane.b_nacl_lmh", Unit: "LMH", Min: 0, Max: 100, Why: "unit-slip guard"}
 	MembraneS     = Range{Field: "membrane.s_um", Unit: "µm", Min: 1, Max: 1e5, Why: "unit-slip guard"}
-	FeedB         = Range{Field: "b_feed_lmh", Unit: "LMH", Min: 0, Max: 100, Why: "unit-slip guard"}
-	KDraw         = Range{Field: "k_draw_m_per_s", Unit: "m/s", Min: 1e-8, Max: 1, Why: "unit-slip guard"}
-	KFeed         = Range{Field: "k_feed_m_per_s", Unit: "m/s", Min: 1e-8, Max: 1, Why: "unit-slip guard"}
-	Diffusivity   = Range{Field: "diffusivity_m2_per_s", Unit: "m²/s", Min: 1e-12, Max: 1e-7, Why: "unit-slip guard"}
-	DeltaP        = Range{Field: "delta_p_bar", Unit: "bar", Min: -1000, Max: 1000, HasDefault: true, Why: "unit-slip guard"}
+	// MembraneRefT is the temperature A and B were measured at (omitted for
+	// a custom membrane: the operating temperature, no correction).
+	MembraneRefT = Range{Field: "membrane.reference_temperature_c", Unit: "°C", Min: thermo.MinTemperatureC, Max: thermo.MaxTemperatureC,
+		Why: "the engine's temperature range"}
+	// MembraneEA and MembraneEB are activation energies of water and solute
+	// permeation that replace the default temperature rules.
+	MembraneEA  = Range{Field: "membrane.a_activation_energy_kj_per_mol", Unit: "kJ/mol", Min: 0, Max: 100, Why: "activation energies of permeation through polymer membranes lie far below 100 kJ/mol"}
+	MembraneEB  = Range{Field: "membrane.b_activation_energy_kj_per_mol", Unit: "kJ/mol", Min: 0, Max: 100, Why: "activation energies of permeation through polymer membranes lie far below 100 kJ/mol"}
+	FeedB       = Range{Field: "b_feed_lmh", Unit: "LMH", Min: 0, Max: 100, Why: "unit-slip guard"}
+	KDraw       = Range{Field: "k_draw_m_per_s", Unit: "m/s", Min: 1e-8, Max: 1, Why: "unit-slip guard"}
+	KFeed       = Range{Field: "k_feed_m_per_s", Unit: "m/s", Min: 1e-8, Max: 1, Why: "unit-slip guard"}
+	Diffusivity = Range{Field: "diffusivity_m2_per_s", Unit: "m²/s", Min: 1e-12, Max: 1e-7, Why: "unit-slip guard"}
+	DeltaP      = Range{Field: "delta_p_bar", Unit: "bar", Min: -1000, Max: 1000, HasDefault: true, Why: "unit-slip guard"}
 
 	// The default channel is a bench-scale flat-sheet FO cell with an
 	// empty channel at 0.25 m/s crossflow (common practice for lab FO
@@ -264,7 +272,7 @@ func Lookup(field string) *Range {
 // them.
 func Ranges() []*Range {
 	return []*Range{
-		&TemperatureC, &MembraneA, &MembraneB, &MembraneBNaCl, &MembraneS, &FeedB, &KDraw, &KFeed, &Diffusivity, &DeltaP,
+		&TemperatureC, &MembraneA, &MembraneB, &MembraneBNaCl, &MembraneS, &MembraneRefT, &MembraneEA, &MembraneEB, &FeedB, &KDraw, &KFeed, &Diffusivity, &DeltaP,
 		&ChannelHeight, &ChannelWidth, &ChannelLength, &Crossflow, &FeedCrossflow,
 		&FeedPH, &FeedIonMgPerL, &FeedIonMolarMass, &RegenerationRecovery, &Seed,
 		&BasisValue, &BasisMultiple, &BasisPressure, &BasisFlux, &Weight,

@@ -219,6 +219,9 @@ func ResolveFlux(req *FluxSpec) (*Flux, error) {
 	if !f.SameSolute {
 		f.Warnings = append(f.Warnings, feed.State.Warnings...)
 	}
+	if w := mem.AtTemperature(tK); w != nil {
+		f.Warnings = append(f.Warnings, *w)
+	}
 
 	// Diffusivities: the library's concentration- and temperature-dependent
 	// D at the bulk concentration, or the override.

@@ -1,10 +1,15 @@
 package scenario
 
 import (
+	"fmt"
+	"math"
+
 	"drawsift/engine/errs"
 	"drawsift/engine/library"
 	"drawsift/engine/limits"
 	"drawsift/engine/thermo"
+	"drawsift/engine/warn"
+	"drawsift/engine/water"
 )
 
 // MembraneSpec is a membrane as a request gives it: a preset, custom
@@ -22,6 +27,13 @@ type MembraneSpec struct {
 	// solutes (custom membranes).
 	BNaClLMH *float64 `json:"b_nacl_lmh,omitempty"`
 	SUM      *float64 `json:"s_um,omitempty"`
+	// ReferenceTemperatureC is the temperature A and B were measured at
+	// (omitted: the preset's, or for a custom membrane the operating
+	// temperature). The activation energies replace the default rules of
+	// Membrane.AtTemperature.
+	ReferenceTemperatureC *float64 `json:"reference_temperature_c,omitempty"`
+	AActivationKJPerMol   *float64 `json:"a_activation_energy_kj_per_mol,omitempty"`
+	BActivationKJPerMol   *float64 `json:"b_activation_energy_kj_per_mol,omitempty"`
 }
 
 // Membrane is a resolved membrane, in SI.
@@ -40,6 +52,20 @@ type Membrane struct {
 	// Relative standard deviations for robustness (the preset's, or the
 	// custom-membrane defaults).
 	ARelSD, BRelSD, SRelSD float64
+	// RefK is the temperature A and B hold at (0: the operating
+	// temperature); EA and EB (J/mol, when given) replace the default
+	// temperature rules. AtTemperature sets Temperature.
+	RefK, EA, EB float64
+	HasEA, HasEB bool
+	Temperature  Temperature
+}
+
+// Temperature says how A and B were carried from the temperature of
+// their measurement to the operating one.
+type Temperature struct {
+	RefK, TK         float64
+	FactorA, FactorB float64
+	Rule             string
 }
 
 // ResolveMembrane reads a MembraneSpec: a preset, overridden field by
@@ -93,6 +119,29 @@ func ResolveMembrane(spec *MembraneSpec) (*Membrane, error) {
 		b := *spec.BLMH * thermo.MPerSPerLMH
 		m.BGivenMPerS = &b
 	}
+	if m.Record != nil {
+		m.RefK = m.Record.ReferenceTemperatureC + thermo.ZeroCelsiusK
+	}
+	if v := spec.ReferenceTemperatureC; v != nil {
+		if err := limits.MembraneRefT.Check(*v); err != nil {
+			return nil, err
+		}
+		m.RefK = *v + thermo.ZeroCelsiusK
+	}
+	for _, f := range []struct {
+		r   *limits.Range
+		v   *float64
+		dst *float64
+		has *bool
+	}{{&limits.MembraneEA, spec.AActivationKJPerMol, &m.EA, &m.HasEA}, {&limits.MembraneEB, spec.BActivationKJPerMol, &m.EB, &m.HasEB}} {
+		if f.v == nil {
+			continue
+		}
+		if err := f.r.Check(*f.v); err != nil {
+			return nil, err
+		}
+		*f.dst, *f.has = *f.v*1e3, true
+	}
 	if aLMH == 0 {
 		return nil, errs.InvalidText(limits.MembraneA.Field, "", "> 0", "a_lmh_per_bar is required for a custom membrane")
 	}
@@ -103,6 +152,62 @@ func ResolveMembrane(spec *MembraneSpec) (*Membrane, error) {
 	m.SM = sUM * thermo.MPerUM
 	m.B.NaCl = bNaCl * thermo.MPerSPerLMH
 	return m, nil
+}
+
+// AtTemperature carries A and every B (the NaCl B, the measured ones and
+// a given b_lmh) from the temperature of their measurement, RefK, to tK:
+//
+//	A(T) = A(T_r) · η_w(T_r)/η_w(T)             water's viscosity rule
+//	B(T) = B(T_r) · (T/T_r) · η_w(T_r)/η_w(T)   Stokes–Einstein
+//
+// or, with an activation energy E given, exp(−E/R·(1/T − 1/T_r)) for that
+// parameter. Water permeation through polyamide tracks water's viscosity
+// closely: the non-viscous share of its activation energy is 3.9–6.4
+// kJ/mol for thin-film composite membranes (Sharma, Agrawal & Chellam
+// 2003, J. Membr. Sci. 223:69); normalising permeability by water's
+// viscosity is common practice in RO data normalisation. The B rule
+// treats solute permeation as diffusion in the active layer's water
+// (common practice); measured activation energies of salt permeation are
+// often higher (from memory), which the override takes. Without a
+// reference temperature (a custom membrane that states none) nothing
+// changes. It returns a note of what was done, or nil.
+func (m *Membrane) AtTemperature(tK float64) *warn.Warning {
+	m.Temperature = Temperature{RefK: m.RefK, TK: tK, FactorA: 1, FactorB: 1,
+		Rule: "A and B as given (no reference temperature: taken as measured at the operating temperature)"}
+	if m.RefK == 0 {
+		return nil
+	}
+	fluidity := water.Viscosity(m.RefK) / water.Viscosity(tK)
+	arrhenius := func(e float64) float64 { return math.Exp(-e / thermo.GasConstant * (1/tK - 1/m.RefK)) }
+	fa, ruleA := fluidity, "A by water's viscosity ratio"
+	if m.HasEA {
+		fa, ruleA = arrhenius(m.EA), fmt.Sprintf("A by Arrhenius, %g kJ/mol", m.EA/1e3)
+	}
+	fb, ruleB := tK/m.RefK*fluidity, "B by Stokes–Einstein (T/η_w)"
+	if m.HasEB {
+		fb, ruleB = arrhenius(m.EB), fmt.Sprintf("B by Arrhenius, %g kJ/mol", m.EB/1e3)
+	}
+	m.AMPerSPa *= fa
+	m.B.NaCl *= fb
+	if m.B.Measured != nil {
+		scaled := make(map[string]float64, len(m.B.Measured))
+		for k, v := range m.B.Measured {
+			scaled[k] = v * fb
+		}
+		m.B.Measured = scaled
+	}
+	if m.BGivenMPerS != nil {
+		b := *m.BGivenMPerS * fb
+		m.BGivenMPerS = &b
+	}
+	refC, tC := m.RefK-thermo.ZeroCelsiusK, tK-thermo.ZeroCelsiusK
+	m.Temperature.FactorA, m.Temperature.FactorB = fa, fb
+	m.Temperature.Rule = fmt.Sprintf("A and B measured at %.4g °C, carried to %.4g °C: %s (×%.4g), %s (×%.4g)", refC, tC, ruleA, fa, ruleB, fb)
+	if math.Abs(tK-m.RefK) < 1e-9 {
+		return nil
+	}
+	w := warn.New(warn.ModelNote, "membrane", "%s", m.Temperature.Rule)
+	return &w
 }
 
 // BFor returns B (m/s) of the membrane for solute s and whether it is an

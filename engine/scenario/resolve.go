@@ -157,8 +157,10 @@ type Info struct {
 	Membrane *library.Membrane // the preset, or nil
 	Feed     *library.Feed     // the preset, or nil
 	BRule    string            // how B was found for the candidates
-	KRule    string            // how k was found
-	Custom   map[string]bool   // IDs of the user-defined solutes
+	// MembraneTemperature says how A and B reached the operating temperature.
+	MembraneTemperature string
+	KRule               string          // how k was found
+	Custom              map[string]bool // IDs of the user-defined solutes
 }
 
 // Resolve turns a scenario into what engine/screen runs: presets looked
@@ -222,6 +224,8 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 	if err != nil {
 		return nil, nil, err
 	}
+	mem.AtTemperature(tK) // reported in the model choices
+	info.MembraneTemperature = mem.Temperature.Rule
 	info.Membrane = mem.Record
 	m := screen.Membrane{ID: mem.Preset(), AMPerSPa: mem.AMPerSPa, SM: mem.SM, B: mem.B,
 		ARelSD: mem.ARelSD, BRelSD: mem.BRelSD, SRelSD: mem.SRelSD}
