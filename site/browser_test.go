@@ -1794,3 +1794,31 @@ func recoveryPct(d engineDefaults) string {
 	}
 	return strings.NewReplacer(">=", "≥", "<=", "≤").Replace(lo+pct(l.Min)+" and "+hi+pct(l.Max)) + " %"
 }
+
+// TestPageMembraneTemperature: the temperature of the membrane's A and B
+// is sent as the contract's reference_temperature_c, the ranking follows
+// the engine's, the model choices say how A and B were carried to the
+// operating temperature, and a value past the engine's range is refused
+// beside the field.
+func TestPageMembraneTemperature(t *testing.T) {
+	b, run := openServed(t)
+	if ph := eval[string](t, b, `document.getElementById("mem-reft").placeholder`); ph != "preset: 20 °C" {
+		t.Errorf("placeholder %q, want the preset's test temperature", ph)
+	}
+	set := func(id, v string) {
+		b.do(t, chromedp.Evaluate[chromedp.Void](fmt.Sprintf(`(e => { e.value = %q; e.dispatchEvent(new Event("input", {bubbles: true})); })(document.getElementById(%q))`, v, id)))
+	}
+	set("mem-reft", "30")
+	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).membrane.reference_temperature_c === 30`)
+	b.waitRun(t, run)
+	sc := pageScenario(t, b)
+	sameRanking(t, eval[[]pageRow](t, b, jsRows), native(t, sc))
+	if got := eval[string](t, b, `document.querySelector('#repro').textContent`); !strings.Contains(got, "measured at 30 °C, carried to") {
+		t.Errorf("the model choices do not say how A and B were carried: %q", got)
+	}
+	set("mem-reft", "150")
+	b.settle(t)
+	if msg := eval[string](t, b, `document.querySelector('.field-error[data-field="membrane.reference_temperature_c"]').textContent`); !strings.Contains(msg, "150") || !strings.Contains(msg, "°C") {
+		t.Errorf("reference temperature message %q", msg)
+	}
+}

@@ -105,6 +105,7 @@
       if (ev.target.id === "mem-preset") {
         const m = state.membranes.find(x => x.id === ev.target.value);
         if (m) { $("mem-a").value = m.a_lmh_per_bar; $("mem-b").value = m.b_nacl_lmh; $("mem-s").value = m.s_um; $("unc-a").value = m.a_rel_sd; $("unc-b").value = m.b_rel_sd; $("unc-s").value = m.s_rel_sd; }
+        P.refTPlaceholder();
         $("mem-desc").textContent = m ? m.description + " " + (m.test_conditions || "") : "Your own membrane: A, B (for NaCl) and S as measured in an FO test.";
       }
       if (ev.target.name === "k-mode") P.updateKUI();

@@ -46,7 +46,8 @@
     object: {
       feed: { object: { preset: str_, solute: str_, concentration: num_, unit: str_, ph: num_,
         ions: ["array", { object: { symbol: str_, charge: "integer", molar_mass_g_per_mol: num_, mg_per_l: num_ }, required: ["symbol", "charge", "molar_mass_g_per_mol", "mg_per_l"] }] }, hint: true },
-      membrane: { object: { preset: str_, a_lmh_per_bar: num_, b_lmh: num_, b_nacl_lmh: num_, s_um: num_ }, hint: true },
+      membrane: { object: { preset: str_, a_lmh_per_bar: num_, b_lmh: num_, b_nacl_lmh: num_, s_um: num_, reference_temperature_c: num_,
+        a_activation_energy_kj_per_mol: num_, b_activation_energy_kj_per_mol: num_ }, hint: true },
       orientation: oneOf("orientations"),
       orientations: ["array", oneOf("orientations")],
       temperature_c: num_, k_draw_m_per_s: num_, k_feed_m_per_s: num_,

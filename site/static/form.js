@@ -15,7 +15,7 @@
   const INPUT_LIMITS = {
     "temp": { key: "temperature_c" },
     "mem-a": { key: "membrane.a_lmh_per_bar" }, "mem-b": { key: "membrane.b_nacl_lmh" }, "mem-s": { key: "membrane.s_um" },
-    "mem-bdraw": { key: "membrane.b_lmh" },
+    "mem-bdraw": { key: "membrane.b_lmh" }, "mem-reft": { key: "membrane.reference_temperature_c" },
     "k-draw": { key: "k_draw_m_per_s" }, "k-feed": { key: "k_feed_m_per_s" },
     "ch-h": { key: "channel.height_mm" }, "ch-w": { key: "channel.width_mm" }, "ch-l": { key: "channel.length_mm" },
     "ch-u": { key: "channel.crossflow_velocity_m_per_s" },
@@ -205,6 +205,8 @@
     }
     $("mem-preset").value = mp ? mp.id : "custom";
     $("mem-bdraw").value = drawB !== undefined ? drawB : "";
+    $("mem-reft").value = mem.reference_temperature_c !== undefined ? mem.reference_temperature_c : "";
+    refTPlaceholder();
     $("mem-desc").textContent = mp ? mp.description + " " + (mp.test_conditions || "") : "Your own membrane: A, B (for NaCl) and S as measured in an FO test.";
 
     const o = sc.orientation || D.orientation;
@@ -333,6 +335,12 @@
       const m = state.membranes.find(x => x.id === mp);
       if (drawB !== undefined) { sc.membrane.b_nacl_lmh = m ? m.b_nacl_lmh : undefined; sc.membrane.b_lmh = drawB; }
     }
+    // The temperature of the membrane's values, and activation energies set
+    // in a file (the form does not show them; kept as they are).
+    const refT = num("mem-reft");
+    if (refT !== undefined) sc.membrane.reference_temperature_c = refT;
+    const pm = (state.scenario || {}).membrane || {};
+    for (const k of ["a_activation_energy_kj_per_mol", "b_activation_energy_kj_per_mol"]) if (pm[k] !== undefined) sc.membrane[k] = pm[k];
     const o = document.querySelector('input[name="orientation"]:checked').value;
     sc.orientation = o;
     if ($("both-orient").checked) sc.orientations = P.defaults().orientations.filter(x => x !== o);
@@ -388,6 +396,13 @@
     return r;
   }
 
+  // refTPlaceholder says what a blank reference temperature means for
+  // the chosen membrane.
+  function refTPlaceholder() {
+    const m = state.membranes.find(x => x.id === $("mem-preset").value);
+    $("mem-reft").placeholder = m ? "preset: " + m.reference_temperature_c + " °C" : "the operating temperature";
+  }
+
   // checkForm finds what the engine cannot check for the page before it
   // is asked — empty required numbers, the fields the form shows in its
   // own units or names (the recovery in %, the draw solutes' B, k by
@@ -420,6 +435,7 @@
     check("unc-samples", "uncertainty.samples", "the number of samples", true);
     if (sc.feed && !sc.feed.preset) check("feed-ph", "feed.ph", "the pH", true);
     if (drawB) check("mem-bdraw", "membrane.b_draw", "B of the draw solutes", true);
+    check("mem-reft", "membrane.reference_temperature_c", "the membrane's reference temperature", true);
     if (kMode() === "given") {
       check("k-draw", "k_draw_m_per_s", "k on the draw side", true);
       check("k-feed", "k_feed_m_per_s", "k on the feed side", true);
@@ -498,7 +514,7 @@
   // results names the first.
   function showErrors(list) { for (let i = list.length - 1; i >= 0; i--) showError(list[i]); }
 
-  Object.assign(P, {
+  Object.assign(P, { refTPlaceholder,
     setRange, buildForm, basisDefault, updateBasisLimits, fillPresets, setBasisUnits, writeForm, updateFeedUI, updateKUI, renderIons, readIons, readForm,
     engineScenario, checkForm, clearErrors, showError, showErrors,
   });

@@ -40,6 +40,7 @@
     const drawB = mem.b_nacl_lmh !== undefined ? mem.b_lmh : undefined;
     row("Membrane", m ? m.name + " — A " + m.a_lmh_per_bar + " LMH/bar, B(NaCl) " + m.b_nacl_lmh + " LMH, S " + m.s_um + " µm" :
       "custom — A " + mem.a_lmh_per_bar + " LMH/bar, B(NaCl) " + (mem.b_nacl_lmh !== undefined ? mem.b_nacl_lmh : mem.b_lmh) + " LMH, S " + mem.s_um + " µm");
+    row("Membrane temperature", (res.model_choices || {}).membrane_temperature || "");
     row("B of the draw solutes", drawB !== undefined ? drawB + " LMH, used for every candidate" : "estimated per solute from B(NaCl) (flagged in the results)");
     row("Orientation", res.orientation === "AL-FS" ? "FO mode (AL-FS)" : "PRO mode (AL-DS)");
     row("Temperature", sc.temperature_c + " °C");
