@@ -117,7 +117,7 @@ func PrepareSolution(prefix string, c *Concentration, tK float64) (*thermo.Solut
 	if err != nil {
 		return nil, 0, 0, err
 	}
-	x, err := thermo.NewSolution(s, tK)
+	x, err := thermo.Prepared(s, tK)
 	if err != nil {
 		return nil, 0, 0, prefixed(prefix, err)
 	}

@@ -144,7 +144,7 @@ func ResolveMixture(prefix string, parts []MixturePart, tK float64) (*thermo.Sol
 		}
 	}
 	if len(parts) == 1 {
-		x, err := thermo.NewSolution(sols[0], tK)
+		x, err := thermo.Prepared(sols[0], tK)
 		if err != nil {
 			return nil, 0, 0, prefixed(field+"[0]", err)
 		}

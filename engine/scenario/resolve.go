@@ -591,7 +591,7 @@ func resolveFeed(fs *FeedSpec, tK float64) (screen.Feed, *library.Feed, error) {
 		if fs.Ions == nil && v > 0 {
 			// The solute's own ions at its molarity; seawater: the
 			// Reference Composition scaled to its salinity.
-			x, err := thermo.NewSolution(s, tK)
+			x, err := thermo.Prepared(s, tK)
 			if err != nil {
 				return f, nil, prefixed("feed", err)
 			}

@@ -202,7 +202,7 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 	// Feed.
 	f := sc.Feed
 	if f.Solute != nil && f.Concentration > 0 {
-		x, err := thermo.NewSolution(f.Solute, e.tK)
+		x, err := thermo.Prepared(f.Solute, e.tK)
 		if err != nil {
 			return nil, inputErr("temperature_c", "0–100 °C", "%v", err)
 		}
@@ -280,7 +280,7 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 	for i, s := range sc.Candidates {
 		c := &e.cands[i]
 		c.sol = s
-		x, err := thermo.NewSolution(s, e.tK)
+		x, err := thermo.Prepared(s, e.tK)
 		if err != nil {
 			c.excl = &exclusion{ReasonNotEvaluated, err.Error()}
 			continue

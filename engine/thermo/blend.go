@@ -107,7 +107,7 @@ func (x *Solution) prepareMixture() error {
 		mm.sPer += sh.PerUnit
 	}
 	for _, c := range s.Components {
-		p, err := NewSolution(c.Solute, x.TK)
+		p, err := Prepared(c.Solute, x.TK)
 		if err != nil {
 			return err
 		}

@@ -3,6 +3,7 @@ package thermo
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 
 	"gonum.org/v1/gonum/interp"
@@ -141,6 +142,9 @@ func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 		x.topMolal = x.capMolal
 	}
 	x.topPi, _ = x.piMono(x.topMolal)
+	// Callers append to copies of the warnings; a shared Solution
+	// (Prepared) must never have them write into its array.
+	x.Warnings = slices.Clip(x.Warnings)
 	return x, nil
 }
 

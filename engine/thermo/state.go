@@ -38,7 +38,7 @@ type State struct {
 // the request's unit), "temperature_c" outside 0–100 °C. Between the
 // model's data limit and the solubility the State carries a warning.
 func Evaluate(s *library.Solute, conc float64, u Unit, tK float64) (State, error) {
-	x, err := NewSolution(s, tK)
+	x, err := Prepared(s, tK)
 	if err != nil {
 		return State{}, err
 	}

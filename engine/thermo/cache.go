@@ -1,0 +1,118 @@
+package thermo
+
+import (
+	"math"
+	"strconv"
+	"sync"
+
+	"drawsift/engine/library"
+)
+
+// Prepared returns the Solution of s at tK, shared between callers. For a
+// solute of the embedded library (library.Default), and for a blend of
+// library solutes (keyed by its name, parts and fractions, so one blend
+// asked for again in another request is the same), it is built once per
+// temperature and kept, so that a screen, a flux request or a blend part
+// does not rebuild the same tables (the π table behind FastOsmoticFunc
+// costs about 500 model evaluations); other solutes (custom solutes and
+// blends holding them) get a new Solution every call.
+//
+// A Solution is immutable once built (its lazy tables are guarded by
+// sync.Once), so one value serves concurrent requests. The cache holds at
+// most preparedMax Solutions; past that it starts afresh. A library
+// Solution with its π table takes about 11 KB (measured over the library
+// at ten temperatures), so the cache stays near 11 MB at most.
+func Prepared(s *library.Solute, tK float64) (*Solution, error) {
+	k := preparedKey{tK2: math.Float64bits(tK)}
+	switch {
+	case inLibrary(s):
+		k.s = s
+	case blendOfLibrary(s):
+		k.blend = blendKey(s)
+	default:
+		return NewSolution(s, tK)
+	}
+	prepared.mu.Lock()
+	e, ok := prepared.m[k]
+	if !ok {
+		if len(prepared.m) >= preparedMax {
+			prepared.m = map[preparedKey]*preparedEntry{}
+		}
+		e = &preparedEntry{}
+		prepared.m[k] = e
+	}
+	prepared.mu.Unlock()
+	e.once.Do(func() { e.x, e.err = NewSolution(s, tK) })
+	if e.err != nil {
+		// An error (a temperature out of range) is not kept.
+		prepared.mu.Lock()
+		if prepared.m[k] == e {
+			delete(prepared.m, k)
+		}
+		prepared.mu.Unlock()
+	}
+	return e.x, e.err
+}
+
+// preparedMax bounds the cache: the library's solutes at a few dozen
+// temperatures (a temperature sweep), our own choice.
+const preparedMax = 1024
+
+type preparedKey struct {
+	s     *library.Solute // a library record
+	blend string          // or a blend of records (blendKey)
+	tK2   uint64
+}
+
+type preparedEntry struct {
+	once sync.Once
+	x    *Solution
+	err  error
+}
+
+var prepared = struct {
+	mu sync.Mutex
+	m  map[preparedKey]*preparedEntry
+}{m: map[preparedKey]*preparedEntry{}}
+
+// inLibrary reports whether s is a record of the embedded library (the
+// same pointer, not merely the same ID: a custom solute may reuse no
+// library ID, but a request's blend is always new).
+func inLibrary(s *library.Solute) bool {
+	return libraryRecords()[s]
+}
+
+// blendOfLibrary reports whether s is a blend of library records only.
+func blendOfLibrary(s *library.Solute) bool {
+	if !s.IsBlend() {
+		return false
+	}
+	for _, c := range s.Components {
+		if !inLibrary(c.Solute) {
+			return false
+		}
+	}
+	return true
+}
+
+// blendKey names a blend by everything its Solution depends on: its ID
+// and each part's ID and exact mole fraction.
+func blendKey(s *library.Solute) string {
+	b := []byte(s.ID)
+	for _, c := range s.Components {
+		b = append(b, 0)
+		b = append(b, c.Solute.ID...)
+		b = strconv.AppendUint(append(b, 0), math.Float64bits(c.MoleFraction), 16)
+	}
+	return string(b)
+}
+
+var libraryRecords = sync.OnceValue(func() map[*library.Solute]bool {
+	out := map[*library.Solute]bool{}
+	if lib, err := library.Default(); err == nil {
+		for _, s := range lib.All() {
+			out[s] = true
+		}
+	}
+	return out
+})
