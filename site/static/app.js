@@ -31,10 +31,23 @@
   }
   const scheduleRun = P.debounce(runScreen, 250);
 
-  // finish marks the end of run seq and the edit it ran.
+  // finish marks the end of run seq and the edit it ran. A run that
+  // ended without a ranking leaves the results shown stale: dimmed, marked,
+  // and withheld from exports and the printed report (stale()).
   function finish(kind, seq, edit) {
+    state.stale = kind !== "done" && !!state.result;
+    $("results-area").classList.toggle("stale", state.stale);
+    $("stale-note").hidden = !state.stale;
+    document.body.dataset.stale = String(state.stale);
     document.body.dataset.runEdit = String(edit);
     document.body.dataset.run = kind + "-" + seq;
+  }
+  // stale reports, for an export or print, whether the results shown
+  // belong to an earlier scenario, and says so on the page.
+  function stale(what) {
+    if (!state.stale) return false;
+    P.banner(what + " withheld: the results shown belong to an earlier scenario (the latest edit could not be ranked). Fix the field named in the results first.");
+    return true;
   }
 
   async function runScreen() {
@@ -157,9 +170,9 @@
     $("btn-export-scenario").addEventListener("click", P.exportScenario);
     $("file-import").addEventListener("change", ev => { const f = ev.target.files[0]; ev.target.value = ""; if (f) P.importFile(f); });
     $("btn-share").addEventListener("click", () => P.copyShare().catch(e => P.banner(e.message)));
-    $("btn-print").addEventListener("click", () => { P.renderReport(); window.print(); });
-    $("btn-csv").addEventListener("click", P.exportCSV);
-    $("btn-json").addEventListener("click", P.exportJSON);
+    $("btn-print").addEventListener("click", () => { if (stale("The printed report is")) return; P.renderReport(); window.print(); });
+    $("btn-csv").addEventListener("click", () => { if (!stale("The CSV export is")) P.exportCSV(); });
+    $("btn-json").addEventListener("click", () => { if (!stale("The JSON export is")) P.exportJSON(); });
     window.addEventListener("beforeprint", P.renderReport);
     const tabs = Array.from(document.querySelectorAll('[role="tab"]'));
     tabs.forEach((t, i) => {
@@ -239,7 +252,7 @@
     await runScreen();
   }
 
-  Object.assign(P, { setScenario, changed, scheduleRun, runScreen, selectTab });
+  Object.assign(P, { setScenario, changed, scheduleRun, runScreen, selectTab, stale });
 
   if (document.readyState === "loading") document.addEventListener("DOMContentLoaded", start);
   else start();

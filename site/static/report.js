@@ -23,6 +23,14 @@
   function renderReport() {
     const res = state.result;
     if (!res) return;
+    // Stale results (the latest edit could not be ranked) are not reported.
+    $("report").classList.toggle("stale", !!state.stale);
+    $("rp-meta").textContent = "";
+    if (state.stale) {
+      for (const id of ["rp-inputs", "rp-models", "rp-results", "rp-plots", "rp-sources"]) clear($(id));
+      $("rp-meta").textContent = "No report: the latest scenario could not be ranked, and the results on screen belong to an earlier one. Fix the field the page names, then print again.";
+      return;
+    }
     $("rp-meta").textContent = "Engine " + res.engine_version + " · made " + new Date().toISOString().replace("T", " ").slice(0, 16) + " UTC · every number computed in the browser.";
     const cu = clear($("rp-cautions"));
     for (const li of document.querySelectorAll("#cautions li")) cu.appendChild(h("li", { text: li.textContent }));
@@ -49,7 +57,7 @@
     const kText = (v, side) => side + " " + (v !== undefined ? v + " m/s (given)" : "from the channel");
     row("Mass transfer", sc.external_cp === false ? "not counted" : sc.k_draw_m_per_s === undefined && sc.k_feed_m_per_s === undefined ? "k from the channel (Sherwood correlation)" :
       "k " + kText(sc.k_draw_m_per_s, "draw side") + "; " + kText(sc.k_feed_m_per_s, "feed side"));
-    row("Basis of comparison", $("run-summary").textContent.replace(/^Ranked [^a]+ at /, "").split(";")[0]);
+    row("Basis of comparison", state.basisText || "");
     row("Candidates", (sc.candidates || []).map(c => P.isBlend(c) ? c.id + " (" + P.blendText(c) + ")" : c).join(", "));
     row("Weights", Object.keys(res.weights).filter(k => res.weights[k] > 0).map(k => P.objLabel(k) + " " + res.weights[k]).join(", "));
     row("Osmotic model", sc.osmotic_model || P.defaults().osmotic_model);

@@ -42,6 +42,7 @@
       : b.kind === "concentration" ? "equal concentration " + fmt(b.concentration) + " " + b.unit
         : "equal water flux " + fmt(fConv(b.target_water_flux_lmh)) + " " + fLabel();
     const ori = res.orientation === "AL-FS" ? "FO mode (AL-FS)" : "PRO mode (AL-DS)";
+    state.basisText = basis;
     $("run-summary").textContent = "Ranked " + res.candidates.length + " of " + (res.candidates.length + res.excluded.length) +
       " candidates at " + basis + "; " + ori + "; feed π " + fmt(pConv(res.feed_osmotic_pressure_bar)) + " " + pUnit() +
       (ms ? "; computed in " + Math.round(ms) + " ms." : ".");
