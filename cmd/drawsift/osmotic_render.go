@@ -15,7 +15,7 @@ import (
 
 // osmoticLists are the osmotic response's fields that are lists or maps:
 // printed as their own blocks, not flattened into the property list.
-var osmoticLists = []string{"ions", "components", "saturation_indices", "sources", "warnings"}
+var osmoticLists = []string{"ions", "components", "saturation_indices", "sources", "warnings", "cautions"}
 
 // renderOsmotic writes an osmotic response as a property list (every
 // scalar field, in the response's order) followed by the ions (molality,
@@ -124,10 +124,15 @@ func osmoticTable(w io.Writer, props []pair, r *api.OsmoticResponse) error {
 			return err
 		}
 	}
-	if len(r.Warnings) > 0 {
-		fmt.Fprintln(&b, "\nwarnings:")
-		for _, s := range r.Warnings {
-			fmt.Fprintf(&b, "  %s\n", s)
+	for _, l := range []struct {
+		title string
+		lines []string
+	}{{"warnings", r.Warnings}, {"cautions", r.Cautions}} {
+		if len(l.lines) > 0 {
+			fmt.Fprintf(&b, "\n%s:\n", l.title)
+			for _, s := range l.lines {
+				fmt.Fprintf(&b, "  %s\n", s)
+			}
 		}
 	}
 	_, err := w.Write(b.Bytes())
@@ -158,10 +163,13 @@ func osmoticCSV(w io.Writer, props []pair, r *api.OsmoticResponse) error {
 	for _, m := range minerals(r.SaturationIndices) {
 		cw.Write([]string{m, num(r.SaturationIndices[m])})
 	}
-	if len(r.Warnings) > 0 {
+	if len(r.Warnings)+len(r.Cautions) > 0 {
 		cw.Write([]string{})
 		for _, s := range r.Warnings {
 			cw.Write([]string{"warning", s})
+		}
+		for _, s := range r.Cautions {
+			cw.Write([]string{"caution", s})
 		}
 	}
 	cw.Flush()

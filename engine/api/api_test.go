@@ -188,3 +188,22 @@ func TestDispatchProgress(t *testing.T) {
 		t.Error("a cancelled screen returned no error")
 	}
 }
+
+// The usual cautions travel with every osmotic and flux answer, as with
+// every screen (common practice for screening tools touching drinking
+// water and chemicals).
+func TestCautionsEverywhere(t *testing.T) {
+	for _, c := range []struct{ op, body string }{
+		{OpOsmotic, `{"solute":"NaCl","concentration":1,"unit":"mol/L"}`},
+		{OpFlux, `{"membrane":{"preset":"tfc-standard"},"orientation":"AL-FS","draw":{"solute":"NaCl","concentration":1,"unit":"mol/L"}}`},
+	} {
+		b, e := dispatch(t, c.op, c.body)
+		if e != nil {
+			t.Fatal(e)
+		}
+		cs, _ := b["cautions"].([]any)
+		if len(cs) != len(ScreenCautions) || !strings.Contains(fmt.Sprint(cs), "safety data sheet") {
+			t.Errorf("%s: cautions %v", c.op, b["cautions"])
+		}
+	}
+}

@@ -85,7 +85,9 @@ type FluxResponse struct {
 	Solver                     SolverReport       `json:"solver"`
 	Warnings                   []string           `json:"warnings"`
 	Sources                    []Source           `json:"sources"`
-	EngineVersion              string             `json:"engine_version"`
+	// Cautions are the usual ones (ScreenCautions), with every answer.
+	Cautions      []string `json:"cautions"`
+	EngineVersion string   `json:"engine_version"`
 }
 
 // MembraneReport echoes the membrane parameters used.
@@ -124,7 +126,7 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 	}
 	in, draw, feed, mem, deltaP := &f.Input, f.Draw, f.Feed, f.Membrane, f.DeltaPBar
 	resp := &FluxResponse{Orientation: in.Orientation.String(), OsmoticModel: f.Model.String(), TemperatureC: f.TemperatureK - thermo.ZeroCelsiusK,
-		DeltaPBar: deltaP, EngineVersion: EngineVersion}
+		DeltaPBar: deltaP, Cautions: ScreenCautions, EngineVersion: EngineVersion}
 	resp.Membrane = MembraneReport{ALMHPerBar: mem.AMPerSPa / thermo.MPerSPaPerLMHPerBar, BLMH: f.BDrawMPerS / thermo.MPerSPerLMH, SUM: mem.SM / thermo.MPerUM}
 	if mem.Record != nil {
 		resp.Membrane.Preset = mem.Record.ID

@@ -89,7 +89,9 @@ type OsmoticResponse struct {
 	SolubilityMolPerKg *float64 `json:"solubility_mol_per_kg,omitempty"`
 	Warnings           []string `json:"warnings"`
 	Sources            []Source `json:"sources"`
-	EngineVersion      string   `json:"engine_version"`
+	// Cautions are the usual ones (ScreenCautions), with every answer.
+	Cautions      []string `json:"cautions"`
+	EngineVersion string   `json:"engine_version"`
 }
 
 // modelSources names the published sources of each model kind.
@@ -180,6 +182,7 @@ func osmoticResponse(s *library.Solute, x *thermo.Solution, st thermo.State, ion
 		VantHoffFactor:         x.Nu(),
 		Warnings:               warn.Strings(append(st.Warnings, ionic.Warnings...)),
 		EngineVersion:          EngineVersion,
+		Cautions:               ScreenCautions,
 		IonicStrengthMolPerKg:  ionic.IonicStrengthMolPerKg,
 		Ions:                   []IonResult{},
 		SaturationIndices:      map[string]float64{},

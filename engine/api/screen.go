@@ -155,7 +155,7 @@ type SweepPoint struct {
 	Reason                         string   `json:"reason,omitempty"`
 }
 
-// ScreenCautions are shown with every screen.
+// ScreenCautions are shown with every screen, flux and osmotic answer.
 var ScreenCautions = []string{
 	"Screening estimates, not a design: verify with experiments on the actual membrane and waters.",
 	"FO product water is not potable without post-treatment and must meet local drinking-water and discharge rules.",
