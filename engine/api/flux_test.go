@@ -201,3 +201,45 @@ func TestFluxChannelWarningsReachResponse(t *testing.T) {
 		t.Errorf("regime %v", reg)
 	}
 }
+
+// A flux feed takes the same preset form as a screen's feed: the seawater
+// preset is seawater at its 35 g/kg (with a concentration, at that
+// salinity), deionised water is the omitted feed, an ion preset is its
+// ions; mixing a preset with a solute, or a preset as the draw, names the
+// field.
+func TestFluxFeedPreset(t *testing.T) {
+	flux := func(feed string) map[string]any {
+		t.Helper()
+		b, e := dispatch(t, OpFlux, `{"membrane":{"preset":"tfc-standard"},"orientation":"AL-FS","draw":{"solute":"NaCl","concentration":1.5,"unit":"mol/L"}`+feed+`}`)
+		if e != nil {
+			t.Fatalf("%s: %+v", feed, e)
+		}
+		return b
+	}
+	for _, c := range []struct{ preset, same string }{
+		{`,"feed":{"preset":"seawater"}`, `,"feed":{"solute":"seawater","concentration":35,"unit":"g/kg"}`},
+		{`,"feed":{"preset":"seawater","concentration":50}`, `,"feed":{"solute":"seawater","concentration":50,"unit":"g/kg"}`},
+		{`,"feed":{"preset":"deionised-water"}`, ``},
+	} {
+		a, b := flux(c.preset), flux(c.same)
+		if num(t, a, "water_flux_lmh") != num(t, b, "water_flux_lmh") || num(t, a, "reverse_solute_flux_gmh") != num(t, b, "reverse_solute_flux_gmh") {
+			t.Errorf("%s: Jw %v, as %s: %v", c.preset, a["water_flux_lmh"], c.same, b["water_flux_lmh"])
+		}
+	}
+	if jw := num(t, flux(`,"feed":{"preset":"brackish-groundwater"}`), "water_flux_lmh"); !(jw > 0 && jw < num(t, flux(``), "water_flux_lmh")) {
+		t.Errorf("brackish preset feed: Jw %g, want below the deionised-water feed's", jw)
+	}
+	for _, c := range []struct{ body, field string }{
+		{`,"feed":{"preset":"seawater","solute":"NaCl"}`, "feed.preset"},
+		{`,"feed":{"preset":"no-such-water"}`, "feed.preset"},
+		{`,"feed":{"preset":"brackish-groundwater","concentration":3}`, "feed.concentration"},
+	} {
+		_, e := dispatch(t, OpFlux, `{"membrane":{"preset":"tfc-standard"},"orientation":"AL-FS","draw":{"solute":"NaCl","concentration":1.5,"unit":"mol/L"}`+c.body+`}`)
+		if e == nil || e.Field != c.field {
+			t.Errorf("%s: %+v, want an error on %s", c.body, e, c.field)
+		}
+	}
+	if _, e := dispatch(t, OpFlux, `{"membrane":{"preset":"tfc-standard"},"orientation":"AL-FS","draw":{"preset":"seawater"}}`); e == nil || e.Field != "draw.preset" {
+		t.Errorf("a preset draw: %+v", e)
+	}
+}

@@ -22,6 +22,9 @@ type Concentration struct {
 	// the parts and fractions do).
 	ID    string      `json:"id,omitempty"`
 	Blend []BlendPart `json:"blend,omitempty"`
+	// Preset names a feed preset (a flux feed only), with an optional
+	// concentration in the preset's own unit — as a screen's feed takes it.
+	Preset string `json:"preset,omitempty"`
 }
 
 // FluxSpec is a flux request as the contract gives it (engine/api
@@ -88,6 +91,31 @@ func sideAt(prefix string, x *thermo.Solution, m float64, u thermo.Unit) (*Side,
 		return nil, prefixed(prefix, err)
 	}
 	return &Side{Solute: x.Solute, X: x, M: m, CSI: st.MolarityMolPerM3, State: st, Unit: u}, nil
+}
+
+// presetFeed reads a feed preset as a flux stream: the solution the
+// screen's feed resolution gives it (a library solute at its
+// concentration, or its ions as one composition), or nil for pure water.
+func presetFeed(c *Concentration, tK float64) (*Side, error) {
+	if c.Solute != "" || c.Mixture != nil || c.Blend != nil || c.Unit != "" {
+		return nil, invalid("feed.preset", nil, "give either a feed preset (with an optional concentration in its own unit) or a solute, blend or mixture, not both")
+	}
+	f, _, err := resolveFeed(&FeedSpec{Preset: c.Preset, Concentration: c.Concentration}, tK)
+	if err != nil {
+		return nil, err
+	}
+	if f.Solute == nil || !(f.Concentration > 0) {
+		return nil, nil
+	}
+	x, err := thermo.Prepared(f.Solute, tK)
+	if err != nil {
+		return nil, prefixed("feed", err)
+	}
+	m, err := x.ToMolality(f.Concentration, f.Unit)
+	if err != nil {
+		return nil, prefixed("feed", err)
+	}
+	return sideAt("feed", x, m, f.Unit)
 }
 
 // PrepareSolution reads one solution (fields under prefix): a solute at
@@ -185,15 +213,24 @@ func ResolveFlux(req *FluxSpec) (*Flux, error) {
 	if req.Draw == nil {
 		return nil, invalid("draw", nil, "a draw solution is required: {\"solute\", \"concentration\", \"unit\"}")
 	}
+	if req.Draw.Preset != "" {
+		return nil, invalid("draw.preset", nil, "presets are feeds; give the draw as a solute, a blend or a mixture")
+	}
 	draw, err := PrepareSide("draw", req.Draw, tK)
 	if err != nil {
 		return nil, err
 	}
 	var feed *Side
-	if req.Feed == nil {
+	switch {
+	case req.Feed != nil && req.Feed.Preset != "":
+		feed, err = presetFeed(req.Feed, tK)
+		if err == nil && feed == nil {
+			feed, err = sideAt("feed", draw.X, 0, thermo.MolPerL)
+		}
+	case req.Feed == nil:
 		// Deionised water: the draw's own solution at zero concentration.
 		feed, err = sideAt("feed", draw.X, 0, thermo.MolPerL)
-	} else {
+	default:
 		feed, err = PrepareSide("feed", req.Feed, tK)
 	}
 	if err != nil {
