@@ -207,3 +207,52 @@ func TestCautionsEverywhere(t *testing.T) {
 		}
 	}
 }
+
+// Units of the trade beside the engine's own (M, mM, mmol/L, mg/L,
+// mOsm/kg: SI prefixes, exact), and a misspelled solute gets a
+// suggestion; "m" alone (molal in some texts, ambiguous) is refused.
+func TestUnitSymbolsAndSuggestions(t *testing.T) {
+	base, e := dispatch(t, OpOsmotic, `{"solute":"NaCl","concentration":0.5,"unit":"mol/L"}`)
+	if e != nil {
+		t.Fatal(e)
+	}
+	for _, c := range []struct {
+		v    float64
+		unit string
+	}{{0.5, "M"}, {500, "mM"}, {500, "mmol/L"}, {500 * 58.44, "mg/L"}} {
+		b, e := dispatch(t, OpOsmotic, fmt.Sprintf(`{"solute":"NaCl","concentration":%g,"unit":%q}`, c.v, c.unit))
+		if e != nil {
+			t.Fatalf("%g %s: %+v", c.v, c.unit, e)
+		}
+		want := num(t, base, "osmotic_pressure_bar")
+		if c.unit == "mg/L" {
+			want = num(t, dispatchOK(t, OpOsmotic, fmt.Sprintf(`{"solute":"NaCl","concentration":%g,"unit":"g/L"}`, c.v/1000)), "osmotic_pressure_bar")
+		}
+		if got := num(t, b, "osmotic_pressure_bar"); math.Abs(got-want) > 1e-9*want {
+			t.Errorf("%g %s: π %g bar, want %g", c.v, c.unit, got, want)
+		}
+	}
+	osm := dispatchOK(t, OpOsmotic, `{"solute":"NaCl","concentration":900,"unit":"mOsm/kg"}`)
+	if got := num(t, osm, "osmolality_osmol_per_kg"); math.Abs(got-0.9) > 1e-9 {
+		t.Errorf("900 mOsm/kg: osmolality %g osmol/kg", got)
+	}
+	if _, e := dispatch(t, OpOsmotic, `{"solute":"NaCl","concentration":1,"unit":"m"}`); e == nil || e.Field != "unit" {
+		t.Errorf(`unit "m": %+v, want refused`, e)
+	}
+	_, e = dispatch(t, OpOsmotic, `{"solute":"NaCI","concentration":1,"unit":"M"}`)
+	if e == nil || e.Field != "solute" || !strings.Contains(e.Message, `did you mean "NaCl"`) {
+		t.Errorf("NaCI: %+v", e)
+	}
+	if _, e = dispatch(t, OpOsmotic, `{"solute":"unobtainium","concentration":1,"unit":"M"}`); e == nil || strings.Contains(e.Message, "did you mean") {
+		t.Errorf("a name far from every solute: %+v", e)
+	}
+}
+
+func dispatchOK(t *testing.T, op, body string) map[string]any {
+	t.Helper()
+	b, e := dispatch(t, op, body)
+	if e != nil {
+		t.Fatalf("%s %s: %+v", op, body, e)
+	}
+	return b
+}

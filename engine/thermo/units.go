@@ -53,6 +53,39 @@ func ParseUnit(s string) (Unit, error) {
 	return 0, fmt.Errorf("unknown unit %q (accepted: %s)", s, strings.Join(unitNames[:], ", "))
 }
 
+// ParseScaledUnit accepts the units of ParseUnit and the common
+// submultiples and symbols of the trade: M (mol/L), mM and mmol/L
+// (10⁻³ mol/L), mmol/kg (10⁻³ mol/kg), mg/L (10⁻³ g/L), mg/kg (10⁻³ g/kg)
+// and mOsm/kg (10⁻³ osmol/kg). It returns the unit and the factor that
+// takes a value into it. "M" and "mM" are case-sensitive (a lower-case m
+// is the molal symbol in some texts, so "m" alone is refused).
+func ParseScaledUnit(s string) (Unit, float64, error) {
+	t := strings.ReplaceAll(strings.TrimSpace(s), " ", "")
+	switch t {
+	case "M":
+		return MolPerL, 1, nil
+	case "mM":
+		return MolPerL, 1e-3, nil
+	}
+	switch strings.ToLower(t) {
+	case "mmol/l":
+		return MolPerL, 1e-3, nil
+	case "mmol/kg":
+		return MolPerKg, 1e-3, nil
+	case "mg/l":
+		return GPerL, 1e-3, nil
+	case "mg/kg":
+		return GPerKg, 1e-3, nil
+	case "mosm/kg", "mosmol/kg":
+		return OsmolPerKg, 1e-3, nil
+	}
+	u, err := ParseUnit(s)
+	if err != nil {
+		return 0, 0, fmt.Errorf("unknown unit %q (accepted: %s, and M, mM, mmol/L, mmol/kg, mg/L, mg/kg, mOsm/kg)", s, strings.Join(unitNames[:], ", "))
+	}
+	return u, 1, nil
+}
+
 // Unit conversions: the engine's one table of them (DEVELOPERS.md,
 // "SI inside, units in every name outside"). Each constant XPerY is the
 // number of X in one Y, so a value in Y times XPerY is in X; every factor
