@@ -31,7 +31,7 @@ func TestCLIBadInput(t *testing.T) {
 		{"osmotic unknown solute", []string{"osmotic"}, with(osm, "NaCl", "NaCI"), "solute", -1},
 		{"osmotic NaN", []string{"osmotic"}, with(osm, `1,`, `NaN,`), "", -1},
 		{"osmotic negative", []string{"osmotic"}, with(osm, `1,`, `-1,`), "concentration", -1},
-		{"osmotic unknown unit", []string{"osmotic"}, with(osm, "mol/kg", "mmol/kg"), "unit", -1},
+		{"osmotic unknown unit", []string{"osmotic"}, with(osm, "mol/kg", "mol/ft3"), "unit", -1},
 		{"osmotic unknown field", []string{"osmotic"}, with(osm, `"unit"`, `"temp":25,"unit"`), "temp", -1},
 		{"osmotic deeply nested", []string{"osmotic"}, `{"solute":` + strings.Repeat("[", 50000) + strings.Repeat("]", 50000) + `}`, "", -1},
 		{"flux unknown orientation", []string{"flux"}, with(flux, "AL-FS", "FS-AL"), "orientation", -1},
