@@ -33,7 +33,7 @@ $(PAGE_WASM): $(PAGE_SRC) go.mod go.sum
 	@mkdir -p build
 	GOOS=js GOARCH=wasm $(GO) build -tags stdjson -trimpath -buildvcs=false -ldflags='-s -w' -o $@ ./wasm/page
 	gzip -9 -k -f $@
-	@if command -v brotli >/dev/null; then brotli -q 11 -k -f $@; else rm -f $@.br; fi
+	@if command -v brotli >/dev/null; then brotli -q 11 -k -f $@ && sha256sum $@ > $@.br.sha256; else rm -f $@.br $@.br.sha256; fi
 	@printf 'page wasm: %s bytes, %s gzip, %s brotli\n' "$$(wc -c < $@)" "$$(wc -c < $@.gz)" "$$(test -f $@.br && wc -c < $@.br || echo -)"
 
 # wasm_exec.js must come from the toolchain that built the wasm.

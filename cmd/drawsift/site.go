@@ -5,6 +5,7 @@ import (
 	"compress/gzip"
 	"crypto/sha256"
 	"encoding/base64"
+	"encoding/hex"
 	"fmt"
 	"io"
 	"io/fs"
@@ -128,27 +129,36 @@ func (h *siteHandler) fromDisk(p string) (*siteFile, error) {
 	}
 	f := newSiteFile(p, b, st.ModTime())
 	// Precompressed forms written by `make wasm` (gzip -9, and brotli where
-	// the brotli tool is installed) are used when they are not older than
-	// the file: smaller than Go's own gzip, and brotli far smaller.
-	if gz := fresher(p+".gz", st.ModTime()); gz != nil && gunzipEqual(gz, b) {
+	// the brotli tool is installed) are used when they hold this very file,
+	// checked by content, never by file time (the brotli tool keeps only
+	// whole seconds of it): the gzip by decompressing it, the brotli (no
+	// decoder in Go's standard library) by the SHA-256 of the file it was
+	// made from, which `make wasm` writes beside it (.br.sha256).
+	if gz := readIf(p + ".gz"); gz != nil && gunzipEqual(gz, b) {
 		f.gz = gz
 	}
-	f.br = fresher(p+".br", st.ModTime())
+	if sum := readIf(p + ".br.sha256"); sum != nil && madeFrom(sum, b) {
+		f.br = readIf(p + ".br")
+	}
 	h.disk[p], h.stamp[p] = f, st.ModTime()
 	return f, nil
 }
 
-// fresher returns the contents of p if it exists and is not older than mod.
-func fresher(p string, mod time.Time) []byte {
-	st, err := os.Stat(p)
-	if err != nil || st.ModTime().Before(mod) {
-		return nil
-	}
+// readIf returns the contents of p, or nil if it cannot be read.
+func readIf(p string) []byte {
 	b, err := os.ReadFile(p)
 	if err != nil {
 		return nil
 	}
 	return b
+}
+
+// madeFrom reports whether sum (a hex SHA-256, as sha256sum prints it,
+// first field) is the digest of b.
+func madeFrom(sum, b []byte) bool {
+	f := strings.Fields(string(sum))
+	d := sha256.Sum256(b)
+	return len(f) > 0 && strings.EqualFold(f[0], hex.EncodeToString(d[:]))
 }
 
 // gunzipEqual reports whether gz decompresses to want.

@@ -5,6 +5,7 @@ import (
 	"compress/gzip"
 	"crypto/sha256"
 	"encoding/base64"
+	"encoding/hex"
 	"io"
 	"io/fs"
 	"net/http"
@@ -14,6 +15,7 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+	"time"
 
 	"drawsift/site"
 )
@@ -264,7 +266,9 @@ func TestBundleCommand(t *testing.T) {
 }
 
 // TestSiteHandlerPrecompressed serves the precompressed wasm that `make
-// wasm` writes, brotli first, and ignores stale or broken ones.
+// wasm` writes, brotli first, and ignores stale or broken ones, judged by
+// content: a brotli copy older by the clock but made from this wasm is
+// served; one without its digest, or made from another build, is not.
 func TestSiteHandlerPrecompressed(t *testing.T) {
 	wasmPath, wasm := fakeBuild(t)
 	var gz bytes.Buffer
@@ -273,6 +277,11 @@ func TestSiteHandlerPrecompressed(t *testing.T) {
 	zw.Close()
 	os.WriteFile(wasmPath+".gz", gz.Bytes(), 0o644)
 	os.WriteFile(wasmPath+".br", []byte("brotli bytes"), 0o644)
+	sum := sha256.Sum256(wasm)
+	os.WriteFile(wasmPath+".br.sha256", []byte(hex.EncodeToString(sum[:])+"  drawsift.wasm\n"), 0o644)
+	old := time.Now().Add(-time.Hour) // the brotli tool's truncated times
+	os.Chtimes(wasmPath+".br", old, old)
+	os.Chtimes(wasmPath+".gz", old, old)
 	h, _ := newSiteHandler(wasmPath)
 	r := get(t, h, "GET", "/drawsift.wasm", map[string]string{"Accept-Encoding": "gzip, deflate, br"})
 	if b, _ := io.ReadAll(r.Body); r.Header.Get("Content-Encoding") != "br" || string(b) != "brotli bytes" {
@@ -282,10 +291,17 @@ func TestSiteHandlerPrecompressed(t *testing.T) {
 	if b, _ := io.ReadAll(r.Body); r.Header.Get("Content-Encoding") != "gzip" || !bytes.Equal(b, gz.Bytes()) {
 		t.Error("the precompressed gzip is not served")
 	}
+	// Without its digest a brotli copy is not served.
+	os.Remove(wasmPath + ".br.sha256")
+	h, _ = newSiteHandler(wasmPath)
+	if r := get(t, h, "GET", "/drawsift.wasm", map[string]string{"Accept-Encoding": "br"}); r.Header.Get("Content-Encoding") == "br" {
+		t.Error("a brotli copy without its digest is served")
+	}
+	os.WriteFile(wasmPath+".br.sha256", []byte(hex.EncodeToString(sum[:])+"  drawsift.wasm\n"), 0o644)
+	h, _ = newSiteHandler(wasmPath)
 	// A .gz that does not match the wasm is not served.
 	os.WriteFile(wasmPath+".gz", []byte("junk"), 0o644)
-	os.Remove(wasmPath + ".br")
-	os.WriteFile(wasmPath, append(wasm, 'x'), 0o644) // a rebuild
+	os.WriteFile(wasmPath, append(wasm, 'x'), 0o644) // a rebuild: the brotli copy and its digest are of the old one
 	r = get(t, h, "GET", "/drawsift.wasm", map[string]string{"Accept-Encoding": "gzip, br"})
 	zr, err := gzip.NewReader(r.Body)
 	if err != nil || r.Header.Get("Content-Encoding") != "gzip" {
