@@ -11,6 +11,7 @@ import (
 	"net/http"
 	"os"
 	"os/signal"
+	"path/filepath"
 	"strings"
 	"syscall"
 	"time"
@@ -63,6 +64,15 @@ func runServe(args []string, stdout, stderr io.Writer) int {
 	if cfg.maxBody <= 0 {
 		fmt.Fprintf(stderr, "drawsift serve: --max-body must be a positive number of bytes (got %d)\n", cfg.maxBody)
 		return 1
+	}
+	// The page without its engine would wait for it forever: say so now.
+	for _, p := range []string{cfg.wasm, filepath.Join(filepath.Dir(cfg.wasm), "wasm_exec.js")} {
+		if _, err := os.Stat(p); err != nil {
+			wd, _ := os.Getwd()
+			fmt.Fprintf(stderr, "drawsift serve: the page's engine is missing: %s not found (working directory %s).\n"+
+				"Build it with `make wasm` in the Drawsift checkout and run from there, or pass --wasm PATH to the built drawsift.wasm (wasm_exec.js beside it).\n", p, wd)
+			return 1
+		}
 	}
 	for _, o := range strings.Split(*cors, ",") {
 		if o = strings.TrimSpace(o); o != "" {

@@ -6,6 +6,7 @@ import (
 	"io"
 	"net"
 	"net/http"
+	"path/filepath"
 	"strings"
 	"sync"
 	"testing"
@@ -109,7 +110,10 @@ func TestServeBusyPort(t *testing.T) {
 	defer ln.Close()
 	var stdout, stderr bytes.Buffer
 	done := make(chan int, 1)
-	go func() { done <- run([]string{"serve", "--addr", ln.Addr().String()}, nil, &stdout, &stderr) }()
+	wasm, _ := fakeBuild(t)
+	go func() {
+		done <- run([]string{"serve", "--addr", ln.Addr().String(), "--wasm", wasm}, nil, &stdout, &stderr)
+	}()
 	select {
 	case code := <-done:
 		if code != 1 {
@@ -174,5 +178,19 @@ func TestServeGracefulShutdown(t *testing.T) {
 	}
 	if _, err := http.Get(base + "/v1/health"); err == nil {
 		t.Errorf("server still answers after shutdown")
+	}
+}
+
+// Started where the page's engine is not (another directory, an installed
+// binary), serve refuses at once and says how to fix it, rather than
+// serving a page that waits for an engine that never comes.
+func TestServeWithoutEngine(t *testing.T) {
+	var stdout, stderr bytes.Buffer
+	missing := filepath.Join(t.TempDir(), "drawsift.wasm")
+	if code := run([]string{"serve", "--addr", "127.0.0.1:0", "--wasm", missing}, nil, &stdout, &stderr); code != 1 {
+		t.Fatalf("exit %d, want 1", code)
+	}
+	if msg := stderr.String(); !strings.Contains(msg, "engine is missing") || !strings.Contains(msg, missing) || !strings.Contains(msg, "make wasm") {
+		t.Errorf("stderr %q", msg)
 	}
 }
