@@ -4,10 +4,13 @@ import (
 	"context"
 	"math"
 	"math/rand/v2"
+	"runtime"
+	"sync"
 
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"drawsift/engine/transport"
+	"drawsift/engine/warn"
 )
 
 // Robustness summarises a candidate's rank over the Monte Carlo samples.
@@ -41,9 +44,27 @@ func logNormalFactor(rsd float64, src rand.Source) distuv.LogNormal {
 // estimate, that estimate's own error. Each sample re-solves
 // what the perturbation changes — the basis concentration, the flux, and
 // the metrics — then normalises, scores and ranks the candidates afresh.
-// Sampling is sequential from one PCG stream seeded by the scenario, so a
-// run is reproducible bit for bit on one platform.
+//
+// The samples are drawn in order from one PCG stream seeded by the
+// scenario, a chunk at a time, and each chunk is then evaluated on every
+// core (robustWorkers): the figures are integer counts over the samples,
+// so they are bit for bit those of a single-core run, whatever the number
+// of workers (a test holds this).
 func (e *env) robustness(ctx context.Context, res *Result, progress func(done, total int)) error {
+	return e.robustnessOn(ctx, res, progress, robustWorkers())
+}
+
+// robustWorkers is the number of goroutines evaluating samples: one per
+// core the Go runtime may use (one in the browser, where js/wasm runs on
+// one thread).
+var robustWorkers = func() int { return max(1, runtime.GOMAXPROCS(0)) }
+
+// robustChunk samples are drawn, then evaluated together: enough to keep
+// every worker busy, few enough that their perturbations stay small in
+// memory (chunk × candidates × 56 bytes).
+const robustChunk = 256
+
+func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done, total int), workers int) error {
 	u := e.sc.Uncertainty
 	n := len(res.Ranked)
 	total := u.Samples
@@ -55,95 +76,81 @@ func (e *env) robustness(ctx context.Context, res *Result, progress func(done, t
 	dD := logNormalFactor(u.DiffusivityRelSD, src)
 	dBest := logNormalFactor(u.EstimatedBRelSD, src)
 	dPi := make([]distuv.LogNormal, n)
-	cands := make([]*candidate, n)
-	names := make([]string, n)
+	ci := make([]int, n)
 	for k := range res.Ranked {
-		c := &e.cands[res.Ranked[k].ci]
-		cands[k] = c
-		names[k] = c.sol.ID
+		ci[k] = res.Ranked[k].ci
+		c := &e.cands[ci[k]]
 		rsd := u.OsmoticRelSD
 		if u.DefaultOsmotic {
 			rsd = c.osmRelSD
 		}
 		dPi[k] = logNormalFactor(rsd, src)
 	}
-	vals := make([][NumObjectives]float64, n)
-	known := make([][NumObjectives]bool, n)
-	norm := make([][NumObjectives]float64, n)
-	ok := make([]bool, n)
-	scores := make([]float64, n)
-	idx := make([]int, n)
-	// hist[k*(n+1) + rank-1] counts candidate k's ranks; the last bin of
-	// each row counts the samples in which it failed.
+	chunk := min(robustChunk, total)
+	perts := make([]perturb, chunk*n)
+	workers = max(1, min(workers, chunk))
+	ws := make([]*robustWorker, workers)
+	for i := range ws {
+		ws[i] = newRobustWorker(e, ci)
+	}
+	every := max(1, total/100)
+	for done := 0; done < total; {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		// Draw this chunk's perturbations, in the stream's order.
+		size := min(chunk, total-done)
+		for s := 0; s < size; s++ {
+			fA, fB, fS := dA.Rand(), dB.Rand(), dS.Rand()
+			for k, j := range ci {
+				c := &e.cands[j]
+				fBk := fB
+				if c.bEstimated && u.EstimatedBRelSD > 0 {
+					fBk *= dBest.Rand()
+				}
+				p := &perts[s*n+k]
+				*p = perturb{fA: fA, fB: fBk, fS: fS, fPi: dPi[k].Rand(), fD: dD.Rand(), price: -1}
+				if c.hasPrice {
+					if u.Prices {
+						p.price = c.priceMin + (c.priceMax-c.priceMin)*unif.Rand()
+					} else {
+						p.price = 0.5 * (c.priceMin + c.priceMax)
+					}
+				}
+			}
+		}
+		// Evaluate it: worker i takes samples i, i+W, i+2W, …
+		var wg sync.WaitGroup
+		for i, w := range ws {
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				for s := i; s < size; s += workers {
+					if s%8 == 0 && ctx.Err() != nil {
+						return
+					}
+					w.sample(perts[s*n : (s+1)*n])
+				}
+			}()
+		}
+		wg.Wait()
+		before := done
+		done += size
+		if progress != nil && (done/every != before/every || done == total) {
+			progress(done, total)
+		}
+	}
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	hist := make([]int, n*(n+1))
 	fails := make([]int, n)
-	perts := make([]perturb, n)
-	var m Metrics
-	var scratch transport.Result
-	var contrib [NumObjectives]float64
-	ori := e.sc.Orientations[0]
-	every := total / 100
-	if every < 1 {
-		every = 1
-	}
-	defer func() {
-		for k := range cands {
-			cands[k].pi.f = 1
+	for _, w := range ws {
+		for i, v := range w.hist {
+			hist[i] += v
 		}
-	}()
-	for s := 0; s < total; s++ {
-		if s%8 == 0 {
-			if err := ctx.Err(); err != nil {
-				return err
-			}
-		}
-		fA, fB, fS := dA.Rand(), dB.Rand(), dS.Rand()
-		for k, c := range cands {
-			p := &perts[k]
-			fBk := fB
-			if c.bEstimated && u.EstimatedBRelSD > 0 {
-				fBk *= dBest.Rand()
-			}
-			*p = perturb{fA: fA, fB: fBk, fS: fS, fPi: dPi[k].Rand(), fD: dD.Rand(), price: -1}
-			if c.hasPrice {
-				if u.Prices {
-					p.price = c.priceMin + (c.priceMax-c.priceMin)*unif.Rand()
-				} else {
-					p.price = 0.5 * (c.priceMin + c.priceMax)
-				}
-			}
-		}
-		for k, c := range cands {
-			ex := e.evaluate(c, ori, &perts[k], &m, &scratch)
-			ok[k] = ex == nil
-			for o := Objective(0); o < NumObjectives; o++ {
-				if ok[k] {
-					vals[k][o], known[k][o] = m.Objective(o)
-				} else {
-					vals[k][o], known[k][o] = 0, false
-				}
-			}
-		}
-		Normalise(vals, known, norm)
-		for k := range cands {
-			idx[k] = k
-			if ok[k] {
-				scores[k] = Score(&norm[k], &e.sc.Weights, &contrib)
-			} else {
-				scores[k] = -1
-				fails[k]++
-			}
-		}
-		order(idx, scores, names)
-		for r, k := range idx {
-			if ok[k] {
-				hist[k*(n+1)+r]++ // failed candidates sort last, so r counts ranked ones only
-			} else {
-				hist[k*(n+1)+n]++
-			}
-		}
-		if progress != nil && ((s+1)%every == 0 || s+1 == total) {
-			progress(s+1, total)
+		for i, v := range w.fails {
+			fails[i] += v
 		}
 	}
 	res.Samples = total
@@ -162,6 +169,99 @@ func (e *env) robustness(ctx context.Context, res *Result, progress func(done, t
 		res.Ranked[k].Robustness = rb
 	}
 	return nil
+}
+
+// robustWorker evaluates samples on its own copy of what an evaluation
+// writes (the candidates' π factors, the scaling buffers, the Sherwood
+// notes) and counts each candidate's ranks.
+type robustWorker struct {
+	e       *env
+	cands   []*candidate
+	names   []string
+	vals    [][NumObjectives]float64
+	known   [][NumObjectives]bool
+	norm    [][NumObjectives]float64
+	ok      []bool
+	scores  []float64
+	idx     []int
+	hist    []int // hist[k*(n+1) + rank-1]; the last bin of a row counts failures
+	fails   []int
+	m       Metrics
+	scratch transport.Result
+	contrib [NumObjectives]float64
+}
+
+func newRobustWorker(e *env, ci []int) *robustWorker {
+	n := len(ci)
+	we := e.forWorker()
+	w := &robustWorker{e: we, cands: make([]*candidate, n), names: make([]string, n),
+		vals: make([][NumObjectives]float64, n), known: make([][NumObjectives]bool, n), norm: make([][NumObjectives]float64, n),
+		ok: make([]bool, n), scores: make([]float64, n), idx: make([]int, n), hist: make([]int, n*(n+1)), fails: make([]int, n)}
+	for k, j := range ci {
+		w.cands[k] = &we.cands[j]
+		w.names[k] = we.cands[j].sol.ID
+	}
+	return w
+}
+
+// sample evaluates, scores and ranks one sample's perturbations (one per
+// candidate, in rank order of the nominal run) and counts the ranks.
+func (w *robustWorker) sample(perts []perturb) {
+	e, n := w.e, len(w.cands)
+	ori := e.sc.Orientations[0]
+	for k, c := range w.cands {
+		ex := e.evaluate(c, ori, &perts[k], &w.m, &w.scratch)
+		w.ok[k] = ex == nil
+		for o := Objective(0); o < NumObjectives; o++ {
+			if w.ok[k] {
+				w.vals[k][o], w.known[k][o] = w.m.Objective(o)
+			} else {
+				w.vals[k][o], w.known[k][o] = 0, false
+			}
+		}
+	}
+	Normalise(w.vals, w.known, w.norm)
+	for k := range w.cands {
+		w.idx[k] = k
+		if w.ok[k] {
+			w.scores[k] = Score(&w.norm[k], &e.sc.Weights, &w.contrib)
+		} else {
+			w.scores[k] = -1
+			w.fails[k]++
+		}
+	}
+	order(w.idx, w.scores, w.names)
+	for r, k := range w.idx {
+		if w.ok[k] {
+			w.hist[k*(n+1)+r]++ // failed candidates sort last, so r counts ranked ones only
+		} else {
+			w.hist[k*(n+1)+n]++
+		}
+	}
+}
+
+// forWorker returns a copy of e that shares everything an evaluation
+// only reads (the scenario, the prepared solutions, the feed) and owns
+// what it writes: each candidate's π factor (and the function bound to
+// it), the scaling model's buffers and the last solve's Sherwood notes.
+func (e *env) forWorker() *env {
+	w := *e
+	w.kWarn = [2][]warn.Warning{}
+	w.cands = append([]candidate(nil), e.cands...)
+	for i := range w.cands {
+		c := &w.cands[i]
+		c.pi.f = 1
+		c.piFn = c.pi.fn
+	}
+	if e.scale != nil {
+		sm := *e.scale
+		sm.m = make([]float64, len(e.scale.m))
+		sm.work = make([]float64, len(e.scale.work))
+		sm.si = make([]float64, len(e.scale.si))
+		sm.has = make([]bool, len(e.scale.has))
+		w.scale = &sm
+	}
+	return &w
 }
 
 // rankQuantile returns the smallest rank (1-based) whose cumulative count

@@ -586,3 +586,34 @@ func TestNormaliseResolution(t *testing.T) {
 		}
 	}
 }
+
+// The robustness figures do not depend on how many goroutines evaluate
+// the samples: the draws come from one stream in order and the figures are
+// counts, so 1, 2 and 5 workers agree exactly (here with a seawater feed,
+// whose scaling buffers each worker owns, and with a sample count that is
+// no multiple of the chunk).
+func TestRobustnessWorkersIdentical(t *testing.T) {
+	defer func(f func() int) { robustWorkers = f }(robustWorkers)
+	var want []Ranked
+	for _, w := range []int{1, 2, 5} {
+		robustWorkers = func() int { return w }
+		sc := baseScenario(t)
+		sc.Feed = seawaterFeed(t)
+		sc.Basis = Basis{Kind: BasisOsmoticPressure, MultipleOfFeed: 2}
+		sc.AllowExtrapolation = true
+		sc.Uncertainty = &Uncertainty{Samples: 601, ARelSD: .1, BRelSD: .3, SRelSD: .15, DefaultOsmotic: true, DiffusivityRelSD: .05, Prices: true}
+		r, err := Run(context.Background(), sc, lib(t), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if want == nil {
+			want = r.Ranked
+			continue
+		}
+		for k := range want {
+			if *r.Ranked[k].Robustness != *want[k].Robustness {
+				t.Errorf("%d workers, %s: %+v; 1 worker: %+v", w, want[k].Solute.ID, *r.Ranked[k].Robustness, *want[k].Robustness)
+			}
+		}
+	}
+}
