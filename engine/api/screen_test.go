@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"drawsift/engine/internal/jsonx"
+	"drawsift/engine/screen"
 )
 
 func screenOp(t *testing.T, body string) (*ScreenResponse, *Error) {
@@ -401,5 +402,28 @@ func TestRobustnessEstimatedB(t *testing.T) {
 	}
 	if none, dflt := width(`,"estimated_b_rel_sd":0`), width(``); !(dflt > 2*none) {
 		t.Errorf("summed 5–95 %% rank widths: %d with the default estimated-B spread, %d without", dflt, none)
+	}
+}
+
+// A robustness run past its work budget (ranked candidates × samples) is
+// refused before it starts, naming uncertainty.samples and the most
+// samples the scenario's candidates allow.
+func TestRobustnessWorkBudget(t *testing.T) {
+	var cs, ids []string
+	for i := 0; i < 45; i++ {
+		id := fmt.Sprintf("X%d", i)
+		cs = append(cs, fmt.Sprintf(`{"id":%q,"molar_mass_g_per_mol":%d,"van_t_hoff_factor":2,"diffusivity_m2_per_s":1e-9,"miscible":true}`, id, 60+i))
+		ids = append(ids, fmt.Sprintf("%q", id))
+	}
+	body := `{"custom_solutes":[` + strings.Join(cs, ",") + `],"candidates":["NaCl","KCl","MgCl2",` + strings.Join(ids, ",") + `],
+		"uncertainty":{"samples":100000}}`
+	_, e := dispatch(t, OpScreen, body)
+	if e == nil || e.Field != "uncertainty.samples" || !strings.Contains(fmt.Sprint(e.Limit), "candidates × samples") {
+		t.Fatalf("%+v, want the work budget on uncertainty.samples", e)
+	}
+	var most int
+	fmt.Sscanf(fmt.Sprint(e.Limit), "≤ %d", &most)
+	if most != screen.MaxRobustWork/48 {
+		t.Errorf("limit %v, want ≤ %d for 48 candidates", e.Limit, screen.MaxRobustWork/48)
 	}
 }

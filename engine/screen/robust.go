@@ -2,13 +2,16 @@ package screen
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"runtime"
+	"slices"
 	"sync"
 
 	"gonum.org/v1/gonum/stat/distuv"
 
+	"drawsift/engine/errs"
 	"drawsift/engine/transport"
 	"drawsift/engine/warn"
 )
@@ -86,6 +89,14 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 		}
 		dPi[k] = logNormalFactor(rsd, src)
 	}
+	if n*total > MaxRobustWork {
+		return &errs.InputError{Field: "uncertainty.samples", Value: float64(total),
+			Limit: fmt.Sprintf("≤ %d for %d ranked candidates (candidates × samples ≤ %d)", MaxRobustWork/n, n, MaxRobustWork),
+			Msg:   "the robustness run is past its work budget"}
+	}
+	// ranks[k*total + s] is candidate k's rank in sample s (n+1: failed);
+	// each sample's column is written by one worker.
+	ranks := make([]int32, n*total)
 	chunk := min(robustChunk, total)
 	perts := make([]perturb, chunk*n)
 	workers = max(1, min(workers, chunk))
@@ -129,7 +140,7 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 					if s%8 == 0 && ctx.Err() != nil {
 						return
 					}
-					w.sample(perts[s*n : (s+1)*n])
+					w.sample(perts[s*n:(s+1)*n], ranks, done+s, total)
 				}
 			}()
 		}
@@ -143,33 +154,37 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 	if err := ctx.Err(); err != nil {
 		return err
 	}
-	hist := make([]int, n*(n+1))
-	fails := make([]int, n)
-	for _, w := range ws {
-		for i, v := range w.hist {
-			hist[i] += v
-		}
-		for i, v := range w.fails {
-			fails[i] += v
-		}
-	}
 	res.Samples = total
 	for k := range res.Ranked {
-		h := hist[k*(n+1) : (k+1)*(n+1)]
-		rb := &Robustness{FailedFraction: float64(fails[k]) / float64(total)}
-		rb.PFirst = float64(h[0]) / float64(total)
-		top3 := 0
-		for r := 0; r < 3 && r < n; r++ { // h[n] (failures) never counts
-			top3 += h[r]
+		rk := ranks[k*total : (k+1)*total]
+		slices.Sort(rk)
+		first, top3, failed := 0, 0, 0
+		for _, r := range rk {
+			switch {
+			case int(r) == n+1:
+				failed++
+			case r <= 3:
+				top3++
+				if r == 1 {
+					first++
+				}
+			}
 		}
-		rb.PTop3 = float64(top3) / float64(total)
-		rb.RankP05 = rankQuantile(h, total, 0.05)
-		rb.RankMedian = rankQuantile(h, total, 0.50)
-		rb.RankP95 = rankQuantile(h, total, 0.95)
+		rb := &Robustness{FailedFraction: float64(failed) / float64(total),
+			PFirst: float64(first) / float64(total), PTop3: float64(top3) / float64(total)}
+		rb.RankP05 = rankQuantile(rk, 0.05)
+		rb.RankMedian = rankQuantile(rk, 0.50)
+		rb.RankP95 = rankQuantile(rk, 0.95)
 		res.Ranked[k].Robustness = rb
 	}
 	return nil
 }
+
+// MaxRobustWork bounds a robustness run: ranked candidates × samples
+// (the whole library at 100,000 samples is about 3 million). It keeps the
+// run's time and its rank table (4 bytes a cell) bounded; the error says
+// how many samples the scenario's candidates allow.
+const MaxRobustWork = 4_000_000
 
 // robustWorker evaluates samples on its own copy of what an evaluation
 // writes (the candidates' π factors, the scaling buffers, the Sherwood
@@ -184,8 +199,6 @@ type robustWorker struct {
 	ok      []bool
 	scores  []float64
 	idx     []int
-	hist    []int // hist[k*(n+1) + rank-1]; the last bin of a row counts failures
-	fails   []int
 	m       Metrics
 	scratch transport.Result
 	contrib [NumObjectives]float64
@@ -196,7 +209,7 @@ func newRobustWorker(e *env, ci []int) *robustWorker {
 	we := e.forWorker()
 	w := &robustWorker{e: we, cands: make([]*candidate, n), names: make([]string, n),
 		vals: make([][NumObjectives]float64, n), known: make([][NumObjectives]bool, n), norm: make([][NumObjectives]float64, n),
-		ok: make([]bool, n), scores: make([]float64, n), idx: make([]int, n), hist: make([]int, n*(n+1)), fails: make([]int, n)}
+		ok: make([]bool, n), scores: make([]float64, n), idx: make([]int, n)}
 	for k, j := range ci {
 		w.cands[k] = &we.cands[j]
 		w.names[k] = we.cands[j].sol.ID
@@ -204,9 +217,10 @@ func newRobustWorker(e *env, ci []int) *robustWorker {
 	return w
 }
 
-// sample evaluates, scores and ranks one sample's perturbations (one per
-// candidate, in rank order of the nominal run) and counts the ranks.
-func (w *robustWorker) sample(perts []perturb) {
+// sample evaluates, scores and ranks sample s's perturbations (one per
+// candidate, in rank order of the nominal run) and writes each
+// candidate's rank into its row of ranks (n+1 where it failed).
+func (w *robustWorker) sample(perts []perturb, ranks []int32, s, total int) {
 	e, n := w.e, len(w.cands)
 	ori := e.sc.Orientations[0]
 	for k, c := range w.cands {
@@ -227,16 +241,15 @@ func (w *robustWorker) sample(perts []perturb) {
 			w.scores[k] = Score(&w.norm[k], &e.sc.Weights, &w.contrib)
 		} else {
 			w.scores[k] = -1
-			w.fails[k]++
 		}
 	}
 	order(w.idx, w.scores, w.names)
 	for r, k := range w.idx {
-		if w.ok[k] {
-			w.hist[k*(n+1)+r]++ // failed candidates sort last, so r counts ranked ones only
-		} else {
-			w.hist[k*(n+1)+n]++
+		rank := int32(r + 1) // failed candidates sort last, so r counts ranked ones only
+		if !w.ok[k] {
+			rank = int32(n + 1)
 		}
+		ranks[k*total+s] = rank
 	}
 }
 
@@ -264,16 +277,9 @@ func (e *env) forWorker() *env {
 	return &w
 }
 
-// rankQuantile returns the smallest rank (1-based) whose cumulative count
-// reaches p·total.
-func rankQuantile(h []int, total int, p float64) int {
-	need := p * float64(total)
-	cum := 0
-	for r, c := range h {
-		cum += c
-		if float64(cum) >= need && cum > 0 {
-			return r + 1
-		}
-	}
-	return len(h)
+// rankQuantile returns the smallest rank whose cumulative count reaches
+// p·len(sorted) in the sorted ranks of one candidate.
+func rankQuantile(sorted []int32, p float64) int {
+	i := int(math.Ceil(p*float64(len(sorted)))) - 1
+	return int(sorted[max(0, min(i, len(sorted)-1))])
 }
