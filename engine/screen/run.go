@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 
 	"drawsift/engine/errs"
 	"drawsift/engine/library"
@@ -196,7 +197,7 @@ func metricWarnings(c *candidate, m *Metrics) []warn.Warning {
 		w = append(w, warn.New(warn.Solubility, id, "%s: within 10 %% of its solubility", c.sol.ID))
 	}
 	if len(c.sol.HazardFlags) > 0 {
-		w = append(w, warn.New(warn.ModelNote, id, "%s: handle per its safety data sheet (flags: %v)", c.sol.ID, c.sol.HazardFlags))
+		w = append(w, warn.New(warn.ModelNote, id, "%s: handle per its safety data sheet (flagged: %s)", c.sol.ID, strings.Join(c.sol.HazardFlags, ", ")))
 	}
 	return w
 }

@@ -171,7 +171,7 @@ func (p *MixProps) prepare(s *library.Solute) mixComp {
 	default:
 		c.densMaxW = d.MaxMassFraction
 		if p.tC < d.MinC || p.tC > d.MaxC {
-			p.warn(warn.Extrapolated, s.ID, "%s: density model fitted %g–%g °C; extrapolated to %g °C", s.ID, d.MinC, d.MaxC, p.tC)
+			p.warn(warn.Extrapolated, s.ID, "%s: density model fitted %s; extrapolated to %s °C", s.ID, tempSpan(d.MinC, d.MaxC), trimFloat(p.tC))
 		}
 	}
 	v := s.Viscosity
@@ -186,7 +186,7 @@ func (p *MixProps) prepare(s *library.Solute) mixComp {
 	}
 	c.viscMaxW = v.MaxMassFraction
 	if p.tC < v.MinC || p.tC > v.MaxC {
-		p.warn(warn.Extrapolated, s.ID, "%s: viscosity model fitted %g–%g °C; extrapolated to %g °C", s.ID, v.MinC, v.MaxC, p.tC)
+		p.warn(warn.Extrapolated, s.ID, "%s: viscosity model fitted %s; extrapolated to %s °C", s.ID, tempSpan(v.MinC, v.MaxC), trimFloat(p.tC))
 	}
 	switch v.Kind {
 	case library.ViscosityLaliberte2007:

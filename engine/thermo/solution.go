@@ -5,6 +5,7 @@ import (
 	"math"
 	"slices"
 	"sort"
+	"strings"
 
 	"gonum.org/v1/gonum/interp"
 
@@ -85,7 +86,7 @@ func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 	if s.Density == nil && x.kind != library.ModelSeawater && x.kind != library.ModelMixture {
 		x.warn(warn.ModelNote, "%s: no density model; the solute is taken to occupy the volume of an equal mass of water, so mol/L and g/L conversions are approximate", s.ID)
 	} else if d := s.Density; d != nil && (tC < d.MinC || tC > d.MaxC) {
-		x.warn(warn.Extrapolated, "%s: density model fitted %g–%g °C; extrapolated to %g °C", s.ID, d.MinC, d.MaxC, tC)
+		x.warn(warn.Extrapolated, "%s: density model fitted %s; extrapolated to %s °C", s.ID, tempSpan(d.MinC, d.MaxC), trimFloat(tC))
 	}
 
 	m := s.Osmotic
@@ -97,7 +98,7 @@ func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 		if t := m.Temperature; t == nil && !in {
 			x.warn(warn.Temperature25C, "%s: Pitzer parameters are 25 °C data; used unchanged at %g °C", s.ID, tC)
 		} else if t != nil && !in {
-			x.warn(warn.Extrapolated, "%s: Pitzer temperature fit covers %g–%g °C; extrapolated to %g °C", s.ID, t.MinC, t.MaxC, tC)
+			x.warn(warn.Extrapolated, "%s: Pitzer temperature fit covers %s; extrapolated to %s °C", s.ID, tempSpan(t.MinC, t.MaxC), trimFloat(tC))
 		}
 		if t := m.Temperature; t != nil && t.MaxMolalityMolPerKg > 0 && math.Abs(tK-ReferenceK) > 5 && t.MaxMolalityMolPerKg < x.validMolal {
 			x.validMolal = t.MaxMolalityMolPerKg
@@ -121,7 +122,7 @@ func NewSolution(s *library.Solute, tK float64) (*Solution, error) {
 		}
 		x.dens = d
 	case library.ModelNone:
-		x.warn(warn.NoModel, "%s: %s; osmotic pressure is the van 't Hoff estimate only", s.ID, m.Reason)
+		x.warn(warn.NoModel, "%s: %s; osmotic pressure is the van 't Hoff estimate only", s.ID, strings.TrimRight(m.Reason, ". "))
 		x.validMolal = math.Inf(1)
 	case library.ModelPhiPolynomial, library.ModelNorrish:
 		if math.Abs(tK-ReferenceK) > 5 {
@@ -217,7 +218,7 @@ func (x *Solution) solubilityAt(tC float64) float64 {
 			end = p[len(p)-1]
 		}
 		if math.Abs(tC-end.TemperatureC) > 1e-9 {
-			x.warn(warn.Solubility, "%s: solubility data span %g–%g °C; the end value is used at %g °C", x.Solute.ID, p[0].TemperatureC, p[len(p)-1].TemperatureC, tC)
+			x.warn(warn.Solubility, "%s: solubility data span %s; the end value is used at %s °C", x.Solute.ID, tempSpan(p[0].TemperatureC, p[len(p)-1].TemperatureC), trimFloat(tC))
 		}
 		return end.MolalityMolPerKg
 	}

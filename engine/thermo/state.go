@@ -106,3 +106,14 @@ func (x *Solution) StateAt(m float64, u Unit) (State, error) {
 func trimFloat(v float64) string {
 	return strconv.FormatFloat(v, 'g', 4, 64)
 }
+
+// tempSpan says over which temperatures a fit holds, for notes: "20 °C"
+// for a single temperature, else "10–50 °C", each end to 0.1 °C (a fit
+// stated in kelvin, 293.15–323.15 K, reads 20–50 °C).
+func tempSpan(lo, hi float64) string {
+	c := func(v float64) string { return strconv.FormatFloat(math.Round(v*10)/10, 'f', -1, 64) }
+	if c(lo) == c(hi) {
+		return c(lo) + " °C only"
+	}
+	return c(lo) + "–" + c(hi) + " °C"
+}

@@ -30,7 +30,7 @@ func (x *Solution) prepareViscosity() {
 		return
 	}
 	if x.tC < v.MinC || x.tC > v.MaxC {
-		x.warn(warn.Extrapolated, "%s: viscosity model fitted %g–%g °C; extrapolated to %g °C", x.Solute.ID, v.MinC, v.MaxC, x.tC)
+		x.warn(warn.Extrapolated, "%s: viscosity model fitted %s; extrapolated to %s °C", x.Solute.ID, tempSpan(v.MinC, v.MaxC), trimFloat(x.tC))
 	}
 	if v.Kind == library.ViscosityRelativeTable {
 		x.etaRT = relViscosityTable(v)

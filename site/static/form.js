@@ -493,9 +493,17 @@
   function showError(err) {
     const field = err.field || "";
     // The page's own name for the draw-solute B is the contract's b_lmh.
-    let text = (field === "membrane.b_draw" ? "membrane.b_lmh" : field) + (field ? ": " : "") + err.message;
-    if (err.limit !== undefined && err.limit !== null) text += " (limit: " + (Array.isArray(err.limit) ? err.limit.join(", ") : err.limit) + ")";
     const own = fieldSlot(field);
+    const key = own === "membrane.b_draw" ? own : field;
+    const inp = $(FIELD_INPUT[key] || FIELD_INPUT[key.replace(/\[\d+\].*$/, "")] || "");
+    // The field as the form labels it, with the contract's name beside it;
+    // the limit only where the message does not already give it.
+    const contract = field === "membrane.b_draw" ? "membrane.b_lmh" : field;
+    const label = inp && document.querySelector('label[for="' + inp.id + '"]');
+    const name = label ? label.textContent.trim() + " (" + contract + ")" : contract;
+    let text = name + (name ? ": " : "") + err.message;
+    const lim = err.limit === undefined || err.limit === null ? "" : Array.isArray(err.limit) ? err.limit.join(", ") : String(err.limit);
+    if (lim && !err.message.includes(lim)) text += " (limit: " + lim + ")";
     const g = groupOf(field);
     const slot = (own && document.querySelector('#scenario-form .field-error[data-field="' + own + '"]')) ||
       (g && document.querySelector('#scenario-form .field-error[data-for="' + g + '"]'));
@@ -503,8 +511,6 @@
       slot.textContent = text;
       for (let d = slot.closest("details"); d; d = d.parentElement && d.parentElement.closest("details")) d.open = true;
     }
-    const key = own === "membrane.b_draw" ? own : field;
-    const inp = $(FIELD_INPUT[key] || FIELD_INPUT[key.replace(/\[\d+\].*$/, "")] || "");
     if (inp) inp.setAttribute("aria-invalid", "true");
     $("run-error").textContent = "The screen did not run — " + text + (slot ? " (see the scenario form)" : "");
     $("run-error").hidden = false;
