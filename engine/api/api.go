@@ -160,7 +160,7 @@ func decode(body []byte, v any) *Error {
 		e := &Error{Field: field, Message: msg, Kind: KindInvalid}
 		// A number of the wrong type or sign for its Go field (a seed of
 		// −1 or 1.5) still states the field's range.
-		if r := limits.Lookup(field); r != nil {
+		if r := limits.Lookup(field); r != nil && !r.Count {
 			e.Limit = r.Text()
 			if strings.HasPrefix(msg, "wrong type") {
 				e.Message = fmt.Sprintf("wrong type: %s must be a number, %s", field, r.Text())

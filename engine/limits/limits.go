@@ -32,6 +32,9 @@ type Range struct {
 	// MinOpen, MaxOpen make a bound exclusive.
 	MinOpen, MaxOpen bool
 	Integer          bool
+	// Count marks a range on the number of entries of a list (not a
+	// number the request writes), e.g. "custom_solutes[].hazard_flags".
+	Count bool
 	// Default applies when the field is omitted (HasDefault).
 	Default    float64
 	HasDefault bool
@@ -66,6 +69,13 @@ func (r *Range) Contains(v float64) bool {
 // "> 0 and ≤ 20 m/s", "≥ 0 LMH".
 func (r *Range) Text() string {
 	lo, hi := num(r.Min), num(r.Max)
+	if r.Count {
+		// A list's length: "at most 32 entries", "2–1000 entries".
+		if r.Min == 0 {
+			return "at most " + hi + " entries"
+		}
+		return lo + "–" + hi + " entries"
+	}
 	var s string
 	switch {
 	case math.IsInf(r.Max, 1) && r.MinOpen:
@@ -104,6 +114,9 @@ func (r *Range) CheckAt(field string, v float64) error {
 		return nil
 	}
 	name := field[strings.LastIndexByte(field, '.')+1:]
+	if r.Count {
+		return errs.Invalid(field, v, r.Text(), "%s has %s entries; %s are accepted", name, num(v), r.Text())
+	}
 	return errs.Invalid(field, v, r.Text(), "%s = %s is outside %s", name, num(v), r.Text())
 }
 
@@ -229,7 +242,13 @@ var (
 	CustomVantHoff    = Range{Field: "custom_solutes[].van_t_hoff_factor", Min: 0, Max: 10, Why: "particles per formula unit; 0 → Σ ion counts, or 1"}
 	CustomSolubility  = Range{Field: "custom_solutes[].solubility_mol_per_kg", Unit: "mol/kg", Min: 0, MinOpen: true, Max: 1e3, Why: "positive; 10³ mol/kg is beyond any solute"}
 	CustomPrice       = Range{Field: "custom_solutes[].price_usd_per_kg_min", Key: "custom_solutes[].price_usd_per_kg", Unit: "USD/kg", Min: 0, Max: 1e6, Why: "non-negative; unit-slip guard"}
-	PiTablePoints     = Range{Field: "custom_solutes[].pi_table.points", Min: 2, Max: 1000, Integer: true, Why: "a table of 2–1000 points"}
+	PiTablePoints     = Range{Field: "custom_solutes[].pi_table.points", Min: 2, Max: 1000, Integer: true, Count: true, Why: "a table of 2–1000 points"}
+
+	// Hazard lists: only len(library.HazardFlags) (8) flags exist, so 32
+	// entries leave room for repeats (dropped) while bounding the work of
+	// matching them (our own choice).
+	HazardFlagCount    = Range{Field: "custom_solutes[].hazard_flags", Min: 0, Max: 32, Integer: true, Count: true, Why: "a list of known hazard flags; repeats are dropped"}
+	ExcludeHazardCount = Range{Field: "exclude_hazards", Min: 0, Max: 32, Integer: true, Count: true, Why: "a list of known hazard flags; repeats are dropped"}
 )
 
 // Lookup returns the range of a contract field (the first listed, where
@@ -270,5 +289,6 @@ func Ranges() []*Range {
 		&BasisValue, &BasisMultiple, &BasisPressure, &BasisFlux, &Weight,
 		&Samples, &ARelSD, &BRelSD, &SRelSD, &OsmoticRelSD, &VantHoffOsmoticRelSD, &DiffusivityRelSD, &EstimatedBRelSD,
 		&Concentration, &SweepPoints, &CustomMolarMass, &CustomDiffusivity, &CustomVantHoff, &CustomSolubility, &CustomPrice, &PiTablePoints,
+		&HazardFlagCount, &ExcludeHazardCount,
 	}
 }

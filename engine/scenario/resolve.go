@@ -366,12 +366,15 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 			sc.Pareto = append(sc.Pareto, ob)
 		}
 	}
+	if err := limits.ExcludeHazardCount.Check(float64(len(req.ExcludeHazards))); err != nil {
+		return nil, nil, err
+	}
 	for i, h := range req.ExcludeHazards {
 		if !library.IsHazardFlag(h) {
 			return nil, nil, invalid(fmt.Sprintf("exclude_hazards[%d]", i), library.HazardFlags, "unknown hazard flag %q", h)
 		}
 	}
-	sc.ExcludeHazards = req.ExcludeHazards
+	sc.ExcludeHazards = library.UniqueFlags(req.ExcludeHazards)
 	// Uncertainty.
 	if u := req.Uncertainty; u != nil {
 		su := &screen.Uncertainty{Samples: int(limits.Samples.Default), ARelSD: m.ARelSD, BRelSD: m.BRelSD, SRelSD: m.SRelSD,
@@ -719,8 +722,11 @@ func customSolute(i int, cs *CustomSolute, lib *library.Library) (*library.Solut
 			return nil, err
 		}
 	}
+	if err := limits.HazardFlagCount.CheckAt(field("hazard_flags"), float64(len(cs.HazardFlags))); err != nil {
+		return nil, err
+	}
 	s := &library.Solute{ID: cs.ID, Name: cs.Name, Family: "custom", Formula: cs.ID, MolarMassGPerMol: cs.MolarMassGPerMol,
-		HazardFlags: cs.HazardFlags, Hazards: []string{}, Regeneration: []string{}, Aliases: []string{}}
+		HazardFlags: library.UniqueFlags(cs.HazardFlags), Hazards: []string{}, Regeneration: []string{}, Aliases: []string{}}
 	if s.Name == "" {
 		s.Name = cs.ID + " (user-defined)"
 	}
