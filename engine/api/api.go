@@ -135,11 +135,21 @@ func DispatchProgress(ctx context.Context, op string, body []byte, progress func
 	if e != nil {
 		return encodeError(e), e
 	}
+	return encodeResponse(resp)
+}
+
+// encodeResponse encodes a response. The last guard of "never NaN or
+// Inf": a non-finite number that got past every range becomes the
+// contract's error naming the result field, never a failed encoding.
+func encodeResponse(resp any) ([]byte, *Error) {
 	b, err := jsonx.Marshal(resp)
 	if err != nil {
-		// Only a non-finite float can fail here; the engine guards against
-		// them, so this is a bug.
-		e = &Error{Message: "internal error", Kind: KindInternal, detail: "marshal: " + err.Error()}
+		var e *Error
+		if p := nonFinitePath(resp); p != "" {
+			e = nonFiniteError(p, "marshal: "+err.Error())
+		} else {
+			e = &Error{Message: "internal error", Kind: KindInternal, detail: "marshal: " + err.Error()}
+		}
 		return encodeError(e), e
 	}
 	return b, nil

@@ -141,7 +141,12 @@ func num(v float64) string {
 	return strings.Replace(s, "e+0", "e+", 1)
 }
 
-var inf = math.Inf(1)
+// MaxConcentration bounds every concentration a request gives, in any of
+// the accepted units (mol/kg, mol/L, g/L, g/kg, wt%, osmol/kg): no aqueous
+// solution comes near 10⁵ in any of them (the most soluble salts hold a few
+// thousand g/L), so a larger value is a unit slip, and every derived
+// quantity stays finite.
+const MaxConcentration = 1e5
 
 // Bounds that catch unit slips rather than judge a membrane or a cell:
 // each is far beyond anything reported for forward osmosis (common
@@ -173,8 +178,10 @@ var (
 
 	FeedPH = Range{Field: "feed.ph", Min: 0, Max: 14, Default: 7, HasDefault: true, Why: "the pH scale of dilute aqueous solutions"}
 	// FeedIonMgPerL bounds one custom feed ion.
-	FeedIonMgPerL    = Range{Field: "feed.ions[].mg_per_l", Unit: "mg/L", Min: 0, Max: 1e6, Why: "a litre holds at most about 10⁶ mg of anything dissolved"}
-	FeedIonMolarMass = Range{Field: "feed.ions[].molar_mass_g_per_mol", Unit: "g/mol", Min: 0, MinOpen: true, Max: 1e4, Why: "unit-slip guard"}
+	FeedIonMgPerL = Range{Field: "feed.ions[].mg_per_l", Unit: "mg/L", Min: 0, Max: 1e6, Why: "a litre holds at most about 10⁶ mg of anything dissolved"}
+	// FeedIonMolarMass: the lightest ion, H⁺, is 1.008 g/mol (IUPAC
+	// standard atomic weight of hydrogen, common practice).
+	FeedIonMolarMass = Range{Field: "feed.ions[].molar_mass_g_per_mol", Unit: "g/mol", Min: 1, Max: 1e4, Why: "no ion is lighter than H⁺ (1.008 g/mol); unit-slip guard"}
 
 	// RegenerationRecovery: the fraction of the diluted draw's water
 	// recovered as product when re-concentrating (0.5 by default, our own
@@ -187,7 +194,7 @@ var (
 	Seed = Range{Field: "seed", Min: 0, Max: 1<<53 - 1, Integer: true, Default: 1, HasDefault: true, Why: "a whole number a JavaScript number holds exactly"}
 
 	// Basis.
-	BasisValue = Range{Field: "basis.value", Min: 0, MinOpen: true, Max: inf, Why: "a positive target"}
+	BasisValue = Range{Field: "basis.value", Min: 0, MinOpen: true, Max: MaxConcentration, Why: "a positive target, within any solution's concentration"}
 	// BasisMultiple is the target as a multiple of the feed's π; 2 is the
 	// default basis for a feed with osmotic pressure (our own choice: a
 	// draw twice the feed's π keeps a useful driving force along a module).
@@ -199,7 +206,9 @@ var (
 	BasisPressure = Range{Field: "basis.value", Key: "basis.osmotic_pressure_bar", Unit: "bar", Min: 0, MinOpen: true, Max: 1e4, Default: 28, HasDefault: true,
 		Why: "positive; 10⁴ bar is beyond any solution"}
 	BasisFlux = Range{Field: "basis.value", Key: "basis.water_flux_lmh", Unit: "LMH", Min: 0, MinOpen: true, Max: 3600, MaxOpen: true, Why: "beyond any FO membrane"}
-	Weight    = Range{Field: "weights", Min: 0, Max: inf, Why: "finite and non-negative"}
+	// Weight: relative weights; 10⁶ bounds their ratio far beyond any
+	// useful one and keeps their sum finite (our own choice).
+	Weight = Range{Field: "weights", Min: 0, Max: 1e6, Why: "non-negative relative weights; a sum that stays finite"}
 
 	// Robustness (Monte Carlo). The spreads' defaults are engine/screen's
 	// (each names its source there); a preset membrane brings its own A, B
@@ -231,13 +240,13 @@ var (
 	// Concentration: any solution's concentration, in the request's unit
 	// (draw.concentration, feed.concentration, …); its solubility is checked
 	// against the solute's record.
-	Concentration = Range{Field: "concentration", Min: 0, Max: inf, Why: "non-negative; each solute's solubility is checked in the request's unit"}
+	Concentration = Range{Field: "concentration", Min: 0, Max: MaxConcentration, Why: "non-negative, a unit-slip guard beyond any solution in every accepted unit; each solute's solubility is checked in the request's unit"}
 
 	// Sweeps.
 	SweepPoints = Range{Field: "sweep.points", Min: 2, Max: 1000, Integer: true, Why: "a series of 2–1000 points"}
 
 	// Custom solutes.
-	CustomMolarMass   = Range{Field: "custom_solutes[].molar_mass_g_per_mol", Unit: "g/mol", Min: 0, MinOpen: true, Max: 1e7, MaxOpen: true, Why: "unit-slip guard"}
+	CustomMolarMass   = Range{Field: "custom_solutes[].molar_mass_g_per_mol", Unit: "g/mol", Min: 1, Max: 1e7, MaxOpen: true, Why: "nothing is lighter than hydrogen (1.008 g/mol); unit-slip guard"}
 	CustomDiffusivity = Range{Field: "custom_solutes[].diffusivity_m2_per_s", Unit: "m²/s", Min: 0, MinOpen: true, Max: 1e-8, MaxOpen: true, Why: "unit-slip guard"}
 	CustomVantHoff    = Range{Field: "custom_solutes[].van_t_hoff_factor", Min: 0, Max: 10, Why: "particles per formula unit; 0 → Σ ion counts, or 1"}
 	CustomSolubility  = Range{Field: "custom_solutes[].solubility_mol_per_kg", Unit: "mol/kg", Min: 0, MinOpen: true, Max: 1e3, Why: "positive; 10³ mol/kg is beyond any solute"}
