@@ -54,7 +54,7 @@ func badInputCases() []badInputCase {
 		{name: "top-level array", path: osm, body: `[1,2]`, status: 400, field: ""},
 		{name: "top-level string", path: osm, body: `"NaCl"`, status: 400, field: ""},
 		{name: "deeply nested arrays", path: osm, body: `{"solute":` + strings.Repeat("[", 100000) + strings.Repeat("]", 100000) + `}`, status: 400, field: ""},
-		{name: "deeply nested objects", path: fx, body: `{"membrane":` + strings.Repeat(`{"a":`, 20000) + "1" + strings.Repeat("}", 20000) + `}`, status: 400, field: ""},
+		{name: "deeply nested objects", path: fx, body: `{"membrane":` + strings.Repeat(`{"a":`, 20000) + "1" + strings.Repeat("}", 20000) + `}`, status: 400, field: "membrane.a"}, // refused at its first unknown key,
 		// Wrong types.
 		{name: "concentration as string", path: osm, body: osmoticWith(`"concentration":1`, `"concentration":"1"`), status: 400, field: "concentration"},
 		{name: "solute as number", path: osm, body: osmoticWith(`"solute":"NaCl"`, `"solute":7`), status: 400, field: "solute"},
@@ -64,7 +64,7 @@ func badInputCases() []badInputCase {
 		{name: "candidates as string", path: sc, body: `{"candidates":"NaCl"}`, status: 400, field: "candidates"},
 		// Missing fields.
 		{name: "missing solute", path: osm, body: `{"concentration":1,"unit":"mol/kg"}`, status: 400, field: "solute"},
-		{name: "null body", path: osm, body: `null`, status: 400, field: "solute"},
+		{name: "null body", path: osm, body: `null`, status: 400, field: ""}, // refused as null, not read as an empty request,
 		{name: "missing concentration", path: osm, body: `{"solute":"NaCl","unit":"mol/kg"}`, status: 400, field: "concentration"},
 		{name: "missing unit", path: osm, body: `{"solute":"NaCl","concentration":1}`, status: 400, field: "unit", limitHas: units},
 		{name: "missing membrane", path: fx, body: fluxWith(`"membrane":{"a_lmh_per_bar":1,"b_lmh":0.3,"s_um":500},`, ``), status: 400, field: "membrane"},
