@@ -253,6 +253,14 @@ var (
 	CustomPrice       = Range{Field: "custom_solutes[].price_usd_per_kg_min", Key: "custom_solutes[].price_usd_per_kg", Unit: "USD/kg", Min: 0, Max: 1e6, Why: "non-negative; unit-slip guard"}
 	PiTablePoints     = Range{Field: "custom_solutes[].pi_table.points", Min: 2, Max: 1000, Integer: true, Count: true, Why: "a table of 2–1000 points"}
 
+	// Custom ions: no aqueous ion carries more than a few charges (P₃O₁₀⁵⁻
+	// has five) and no formula unit more than a handful of one ion, so
+	// ±10 and 10 are unit-slip guards that keep Σ charge × count and
+	// ν = Σ count small integers (common practice).
+	CustomIonCharge  = Range{Field: "custom_solutes[].ions[].charge", Min: -10, Max: 10, Integer: true, Why: "a whole charge, non-zero; unit-slip guard"}
+	CustomIonCount   = Range{Field: "custom_solutes[].ions[].count", Min: 1, Max: 10, Integer: true, Why: "ions of one kind per formula unit"}
+	CustomIonEntries = Range{Field: "custom_solutes[].ions", Min: 0, Max: 10, Integer: true, Count: true, Why: "ion kinds per formula unit"}
+
 	// Hazard lists: only len(library.HazardFlags) (8) flags exist, so 32
 	// entries leave room for repeats (dropped) while bounding the work of
 	// matching them (our own choice).
@@ -298,6 +306,6 @@ func Ranges() []*Range {
 		&BasisValue, &BasisMultiple, &BasisPressure, &BasisFlux, &Weight,
 		&Samples, &ARelSD, &BRelSD, &SRelSD, &OsmoticRelSD, &VantHoffOsmoticRelSD, &DiffusivityRelSD, &EstimatedBRelSD,
 		&Concentration, &SweepPoints, &CustomMolarMass, &CustomDiffusivity, &CustomVantHoff, &CustomSolubility, &CustomPrice, &PiTablePoints,
-		&HazardFlagCount, &ExcludeHazardCount,
+		&HazardFlagCount, &ExcludeHazardCount, &CustomIonCharge, &CustomIonCount, &CustomIonEntries,
 	}
 }

@@ -271,8 +271,21 @@ func ResolveFlux(req *FluxSpec) (*Flux, error) {
 	}
 	species := []transport.Species{{Name: draw.Solute.ID, DrawBulkMolPerM3: draw.CSI, BMPerS: f.BDrawMPerS,
 		DM2PerS: dDraw, Pi: draw.Pi(model, tK)}}
-	if req.BFeedLMH != nil && (f.SameSolute || feed.CSI == 0) {
-		f.Warnings = append(f.Warnings, warn.New(warn.Unused, "b_feed_lmh", "b_feed_lmh is not used: the feed holds no solute other than the draw's"))
+	// b_feed_lmh is checked even when it is not used (a unit slip is still
+	// a slip); unused, it is kept and flagged rather than refused, so the
+	// request still answers and says which B applied.
+	if req.BFeedLMH != nil {
+		if err := limits.FeedB.Check(*req.BFeedLMH); err != nil {
+			return nil, err
+		}
+		switch {
+		case f.SameSolute:
+			f.Warnings = append(f.Warnings, warn.New(warn.Unused, "b_feed_lmh",
+				"b_feed_lmh (%g LMH) is not used: the feed solute is the draw solute (%s), which crosses the membrane with one B, the draw's (%.3g LMH, from %s); to change it, set membrane.b_lmh",
+				*req.BFeedLMH, draw.Solute.ID, f.BDrawMPerS/thermo.MPerSPerLMH, map[bool]string{true: "an estimate", false: "the membrane"}[f.BDrawEstimated]))
+		case feed.CSI == 0:
+			f.Warnings = append(f.Warnings, warn.New(warn.Unused, "b_feed_lmh", "b_feed_lmh (%g LMH) is not used: the feed holds no solute", *req.BFeedLMH))
+		}
 	}
 	if f.SameSolute {
 		species[0].FeedBulkMolPerM3 = feed.CSI

@@ -726,6 +726,12 @@ func customSolute(i int, cs *CustomSolute, lib *library.Library) (*library.Solut
 	if strings.TrimSpace(cs.ID) == "" {
 		return nil, invalid(field("id"), nil, "a custom solute needs an id")
 	}
+	if err := CheckLabel(field("id"), cs.ID); err != nil {
+		return nil, err
+	}
+	if err := CheckLabel(field("name"), cs.Name); err != nil {
+		return nil, err
+	}
 	if _, clash := lib.Lookup(cs.ID); clash {
 		return nil, invalid(field("id"), nil, "%q is already a library solute; choose another id", cs.ID)
 	}
@@ -745,8 +751,33 @@ func customSolute(i int, cs *CustomSolute, lib *library.Library) (*library.Solut
 	if s.Name == "" {
 		s.Name = cs.ID + " (user-defined)"
 	}
-	for _, ion := range cs.Ions {
+	// Ions: bounded counts and charges, so Σ charge × count (the
+	// electroneutrality check) and ν = Σ count cannot overflow or reach
+	// absurd values.
+	if err := limits.CustomIonEntries.CheckAt(field("ions"), float64(len(cs.Ions))); err != nil {
+		return nil, err
+	}
+	nu := 0
+	for j, ion := range cs.Ions {
+		f := fmt.Sprintf("custom_solutes[%d].ions[%d]", i, j)
+		if err := CheckLabel(f+".symbol", ion.Symbol); err != nil {
+			return nil, err
+		}
+		if err := limits.CustomIonCharge.CheckAt(f+".charge", float64(ion.Charge)); err != nil {
+			return nil, err
+		}
+		if ion.Charge == 0 {
+			return nil, errs.Invalid(f+".charge", 0, limits.CustomIonCharge.Text()+", not 0", "an ion needs a non-zero charge")
+		}
+		if err := limits.CustomIonCount.CheckAt(f+".count", float64(ion.Count)); err != nil {
+			return nil, err
+		}
+		nu += ion.Count
 		s.Ions = append(s.Ions, library.Ion{Symbol: ion.Symbol, Charge: ion.Charge, Count: ion.Count})
+	}
+	if float64(nu) > limits.CustomVantHoff.Max {
+		return nil, errs.Invalid(field("ions"), float64(nu), fmt.Sprintf("Σ count ≤ %g", limits.CustomVantHoff.Max),
+			"the ions give %d particles per formula unit; at most %g are accepted (as for van_t_hoff_factor)", nu, limits.CustomVantHoff.Max)
 	}
 	s.Osmotic = library.OsmoticModel{Kind: library.ModelNone, Reason: "user-defined solute: van 't Hoff osmotic pressure only",
 		VantHoffNu: cs.VantHoffFactor}
