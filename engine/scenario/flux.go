@@ -279,12 +279,12 @@ func ResolveFlux(req *FluxSpec) (*Flux, error) {
 			return nil, err
 		}
 		switch {
+		case feed.CSI == 0:
+			f.Warnings = append(f.Warnings, warn.New(warn.Unused, "b_feed_lmh", "b_feed_lmh (%g LMH) is not used: the feed holds no solute", *req.BFeedLMH))
 		case f.SameSolute:
 			f.Warnings = append(f.Warnings, warn.New(warn.Unused, "b_feed_lmh",
 				"b_feed_lmh (%g LMH) is not used: the feed solute is the draw solute (%s), which crosses the membrane with one B, the draw's (%.3g LMH, from %s); to change it, set membrane.b_lmh",
 				*req.BFeedLMH, draw.Solute.ID, f.BDrawMPerS/thermo.MPerSPerLMH, map[bool]string{true: "an estimate", false: "the membrane"}[f.BDrawEstimated]))
-		case feed.CSI == 0:
-			f.Warnings = append(f.Warnings, warn.New(warn.Unused, "b_feed_lmh", "b_feed_lmh (%g LMH) is not used: the feed holds no solute", *req.BFeedLMH))
 		}
 	}
 	if f.SameSolute {
