@@ -332,6 +332,7 @@ func (f *Flux) ResultWarnings(res *transport.Result) []warn.Warning {
 	if len(res.Species) == 2 {
 		check(f.Feed.X, f.Feed.Solute.ID, res.Species[1].FeedFaceMolPerM3, "feed-side face of the active layer")
 	}
+	w = append(w, transport.CrossingWarnings(&f.Input, res, f.Draw.Solute.ID)...)
 	if f.DeltaPBar > 0 && res.JwMPerS < 0 {
 		w = append(w, warn.New(warn.ReverseFlow, "delta_p_bar", "ΔP exceeds the osmotic pressure difference across the membrane: no PRO power is produced"))
 	}
