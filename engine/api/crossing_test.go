@@ -60,3 +60,30 @@ func TestFluxFeedToDrawAnomaliesWarn(t *testing.T) {
 		t.Errorf("an ordinary flux warns of an anomaly: %q", ws)
 	}
 }
+
+// The screen says the same where a feed solute crossing into the draw
+// puts a candidate's flux efficiency above 1 (a NaCl feed through a
+// membrane with a high NaCl B; our own case).
+func TestScreenFeedToDrawEfficiencyWarns(t *testing.T) {
+	resp, e := Screen(context.Background(), mustScreenRequest(t, `{"membrane":{"a_lmh_per_bar":1,"b_lmh":0.3,"b_nacl_lmh":50,"s_um":500},"feed":{"solute":"NaCl","concentration":0.5,"unit":"mol/L"},"candidates":["MgCl2"],"basis":{"kind":"osmotic-pressure","multiple_of_feed":1.1}}`), nil)
+	if e != nil {
+		t.Fatal(e)
+	}
+	c := resp.Candidates[0]
+	found := false
+	for _, w := range c.Warnings {
+		found = found || strings.Contains(w, "flux_efficiency") && strings.Contains(w, "NaCl crosses from the feed into the draw")
+	}
+	if !(c.FluxEfficiency > 1) || !found {
+		t.Errorf("flux efficiency %v: warnings %q", c.FluxEfficiency, c.Warnings)
+	}
+}
+
+func mustScreenRequest(t *testing.T, body string) *ScreenRequest {
+	t.Helper()
+	var r ScreenRequest
+	if e := decode([]byte(body), &r); e != nil {
+		t.Fatal(e)
+	}
+	return &r
+}

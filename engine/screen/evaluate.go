@@ -579,6 +579,16 @@ func (e *env) metricsAt(c *candidate, ori transport.Orientation, m float64, p *p
 	out.ViscosityPaS = x.ViscosityPaS(m)
 	out.RegenJPerM3 = p.fPi * e.regenEnergy(c, m)
 	out.FeedFaceDrawMolPerM3 = r.Species[0].FeedFaceMolPerM3
+	if p == &nominal {
+		// Say why where feed solute crossing into the draw puts a metric
+		// outside its usual range (flux efficiency above 1, …).
+		in := transport.Input{AMPerSPa: sc.Membrane.AMPerSPa * p.fA, Species: make([]transport.Species, len(r.Species))}
+		in.Species[0].Name = c.sol.ID
+		if len(r.Species) > 1 && e.feedSol != nil {
+			in.Species[1].Name = e.feedSol.ID
+		}
+		out.Warnings = append(out.Warnings, transport.CrossingWarnings(&in, r, c.sol.ID)...)
+	}
 	e.scaling(c, ori, r, &out.Scaling)
 	return nil
 }

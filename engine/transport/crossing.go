@@ -63,7 +63,7 @@ func CrossingWarnings(in *Input, res *Result, drawID string) []warn.Warning {
 		}
 	}
 	if drive := res.PiDrawBulkPa - res.PiFeedBulkPa - in.DeltaPPa; res.JwMPerS > 0 && drive < 0 {
-		w = append(w, warn.New(warn.FeedToDraw, "flux_efficiency", "water flows from feed to draw although the bulk feed's osmotic pressure (with ΔP) exceeds the draw's by %.4g bar: %s crossing into the draw side leaves %.4g bar at the draw face of the active layer against %.4g bar at the feed face; flux_efficiency is then negative and no efficiency",
+		w = append(w, warn.New(warn.FeedToDraw, "flux_efficiency", "water flows from feed to draw although the bulk feed's osmotic pressure (with ΔP) exceeds the draw's by %.4g bar: %s crossing into the draw side leaves %.4g bar at the draw face of the active layer against %.4g bar at the feed face; the ratio of Jw to A·Δπ(bulk) is then no efficiency",
 			bar(-drive), who, bar(res.PiDrawFacePa), bar(res.PiFeedFacePa)))
 	}
 	return w
