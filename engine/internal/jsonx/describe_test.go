@@ -92,3 +92,35 @@ func TestDecodeStrictRefusesLooseKeys(t *testing.T) {
 		t.Errorf("map keys differing in case: %v %v", err, m.M)
 	}
 }
+
+// BenchmarkDecodeStrict: a 100-element document, with the strict key
+// pass (DecodeStrict) and the library's decoder alone, to show the pass's
+// cost.
+func BenchmarkDecodeStrict(b *testing.B) {
+	var sb strings.Builder
+	sb.WriteString(`{"a":"x","in":{"x":1},"l":[`)
+	for i := 0; i < 100; i++ {
+		if i > 0 {
+			sb.WriteByte(',')
+		}
+		sb.WriteString(`{"x":1.5}`)
+	}
+	sb.WriteString(`]}`)
+	doc := []byte(sb.String())
+	b.Run("strict", func(b *testing.B) {
+		for b.Loop() {
+			var o outer
+			if err := DecodeStrict(doc, &o); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+	b.Run("decoder-only", func(b *testing.B) {
+		for b.Loop() {
+			var o outer
+			if err := Unmarshal(doc, &o); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+}

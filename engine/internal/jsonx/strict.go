@@ -5,6 +5,7 @@ import (
 	"reflect"
 	"strconv"
 	"strings"
+	"sync"
 	"unicode/utf16"
 	"unicode/utf8"
 )
@@ -37,18 +38,46 @@ type unmarshaler interface{ UnmarshalJSON([]byte) error }
 var unmarshalerType = reflect.TypeOf((*unmarshaler)(nil)).Elem()
 
 type scanner struct {
-	b   []byte
-	i   int
-	err error // the first strictness error found
-	bad bool  // malformed JSON: leave it to the decoder
+	b    []byte
+	i    int
+	err  error // the first strictness error found
+	bad  bool  // malformed JSON: leave it to the decoder
+	path []seg // where the walk is; turned into text only for an error
 }
+
+// seg is one step of a path: an object key, or a list index (key "").
+type seg struct {
+	key string
+	idx int
+}
+
+// pathText writes the path as FieldOf names fields: "l[1].x".
+func (s *scanner) pathText() string {
+	var b strings.Builder
+	for _, p := range s.path {
+		if p.key == "" {
+			b.WriteByte('[')
+			b.WriteString(strconv.Itoa(p.idx))
+			b.WriteByte(']')
+			continue
+		}
+		if b.Len() > 0 {
+			b.WriteByte('.')
+		}
+		b.WriteString(p.key)
+	}
+	return b.String()
+}
+
+// fieldCache holds each struct type's JSON names (fieldsOf), built once.
+var fieldCache sync.Map // reflect.Type → map[string]reflect.Type
 
 // checkKeys returns a *DuplicateKeyError or *UnknownFieldError for the
 // first offending key of b against v's type, or nil.
 func checkKeys(b []byte, v any) error {
 	s := &scanner{b: b}
 	t := reflect.TypeOf(v)
-	s.value(t, "", 0)
+	s.value(t, 0)
 	if s.bad {
 		return nil
 	}
@@ -86,7 +115,7 @@ func deref(t reflect.Type) reflect.Type {
 	return nil
 }
 
-func (s *scanner) value(t reflect.Type, path string, depth int) {
+func (s *scanner) value(t reflect.Type, depth int) {
 	if depth > maxStrictDepth {
 		s.bad = true
 		return
@@ -99,7 +128,7 @@ func (s *scanner) value(t reflect.Type, path string, depth int) {
 	}
 	switch s.b[s.i] {
 	case '{':
-		s.object(t, path, depth)
+		s.object(t, depth)
 	case '[':
 		var et reflect.Type
 		if t != nil && (t.Kind() == reflect.Slice || t.Kind() == reflect.Array) {
@@ -112,7 +141,9 @@ func (s *scanner) value(t reflect.Type, path string, depth int) {
 			return
 		}
 		for n := 0; !s.stop(); n++ {
-			s.value(et, fmt.Sprintf("%s[%d]", path, n), depth+1)
+			s.path = append(s.path, seg{idx: n})
+			s.value(et, depth+1)
+			s.path = s.path[:len(s.path)-1]
 			if s.stop() {
 				return
 			}
@@ -178,14 +209,19 @@ func fieldsOf(t reflect.Type, out map[string]reflect.Type) {
 	}
 }
 
-func (s *scanner) object(t reflect.Type, path string, depth int) {
+func (s *scanner) object(t reflect.Type, depth int) {
 	var fields map[string]reflect.Type
 	var elem reflect.Type
 	if t != nil {
 		switch t.Kind() {
 		case reflect.Struct:
-			fields = map[string]reflect.Type{}
-			fieldsOf(t, fields)
+			if f, ok := fieldCache.Load(t); ok {
+				fields = f.(map[string]reflect.Type)
+			} else {
+				fields = map[string]reflect.Type{}
+				fieldsOf(t, fields)
+				fieldCache.Store(t, fields)
+			}
 		case reflect.Map:
 			elem = t.Elem()
 		}
@@ -209,10 +245,7 @@ func (s *scanner) object(t reflect.Type, path string, depth int) {
 			s.bad = true
 			return
 		}
-		p := k
-		if path != "" {
-			p = path + "." + k
-		}
+		s.path = append(s.path, seg{key: k})
 		// Duplicates: a short list for small objects, a set past 8 keys.
 		dup := false
 		if seen != nil {
@@ -231,14 +264,14 @@ func (s *scanner) object(t reflect.Type, path string, depth int) {
 			}
 		}
 		if dup {
-			s.err = &DuplicateKeyError{Path: p}
+			s.err = &DuplicateKeyError{Path: s.pathText()}
 			return
 		}
 		vt := elem
 		if fields != nil {
 			ft, ok := fields[k]
 			if !ok {
-				s.err = &UnknownFieldError{Path: p, Hint: foldHint(k, fields)}
+				s.err = &UnknownFieldError{Path: s.pathText(), Hint: foldHint(k, fields)}
 				return
 			}
 			vt = ft
@@ -249,10 +282,11 @@ func (s *scanner) object(t reflect.Type, path string, depth int) {
 			return
 		}
 		s.i++
-		s.value(vt, p, depth+1)
+		s.value(vt, depth+1)
 		if s.stop() {
 			return
 		}
+		s.path = s.path[:len(s.path)-1]
 		s.ws()
 		if s.i >= len(s.b) {
 			s.bad = true
