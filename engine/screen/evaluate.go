@@ -207,7 +207,13 @@ func prepare(ctx context.Context, sc *Scenario, lib *library.Library) (*env, err
 	if f.Solute != nil && f.Concentration > 0 {
 		x, err := thermo.NewSolution(f.Solute, e.tK)
 		if err != nil {
-			return nil, inputErr("temperature_c", "0–100 °C", "%v", err)
+			// The temperature passed its range already: what fails is the
+			// feed's own composition ("feed.ions", …).
+			var ie *errs.InputError
+			if errors.As(err, &ie) {
+				return nil, ie.Prefix("feed")
+			}
+			return nil, inputErr("feed", nil, "the feed cannot be modelled at %.4g °C: %v", e.tK-thermo.ZeroCelsiusK, err)
 		}
 		m, err := x.ToMolality(f.Concentration, f.Unit)
 		if err != nil {
