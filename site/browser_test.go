@@ -1179,6 +1179,22 @@ func TestPageExports(t *testing.T) {
 	if !strings.HasPrefix(lines[1], "1,"+rows[0].Solute+",") {
 		t.Errorf("CSV first row %q, want %s first", lines[1], rows[0].Solute)
 	}
+	// CSV formula injection: a solute named as a formula is exported as
+	// quoted text, an excluded one too; numeric cells stay numbers.
+	evil := eval[string](t, b, `(() => { const P = window.DrawsiftPage, r = P.state.result;
+		const c = Object.assign({}, r.candidates[0], {solute: '=HYPERLINK("http://example.invalid","x")', name: "@name"});
+		return P.rankingCSV(Object.assign({}, r, {candidates: [c], excluded: [{solute: "+1+1", reason: "-cmd", detail: "\t=2"}]})); })()`)
+	for _, bad := range []string{`,=HYPERLINK`, `,"=HYPERLINK`, ",@name", "\n+1+1", ",-cmd", ",\t=2"} {
+		if strings.Contains(evil, bad) {
+			t.Errorf("CSV holds a formula cell %q: %s", bad, evil)
+		}
+	}
+	if !strings.Contains(evil, `"'=HYPERLINK(""http://example.invalid"",""x"")"`) || !strings.Contains(evil, "\n'+1+1,'-cmd,'\t=2") {
+		t.Errorf("formula cells not quoted as text: %s", evil)
+	}
+	if row := strings.Split(evil, "\n")[1]; !strings.HasPrefix(row, "1,") {
+		t.Errorf("rank is no longer a number: %q", row)
+	}
 	b.do(t, chromedp.Click(chromedp.ID("btn-json")))
 	var res struct {
 		Candidates    []pageRow `json:"candidates"`

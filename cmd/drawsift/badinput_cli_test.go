@@ -114,3 +114,37 @@ func TestCLIBadFlags(t *testing.T) {
 		})
 	}
 }
+
+// TestCLINonFiniteInputs: the inputs of issue #15 item 3 that once printed
+// "json: unsupported value: +Inf" (exit 1) are refused as bad input (exit 2)
+// with the contract's error naming the field and its limit.
+func TestCLINonFiniteInputs(t *testing.T) {
+	custom := func(extra string) string {
+		return `{"candidates":["X"],"custom_solutes":[{"id":"X","molar_mass_g_per_mol":100,"diffusivity_m2_per_s":1e-9,"solubility_mol_per_kg":5` + extra + `}]}`
+	}
+	for _, tc := range []struct{ name, stdin, field, limit string }{
+		{"sweep to 1e308", `{"candidates":["NaCl"],"sweep":{"variable":"concentration","from":0.1,"to":1e308,"points":3,"unit":"mol/L"}}`, "sweep.to", "0–100000"},
+		{"custom price 1e308", custom(`,"price_usd_per_kg_min":1e308,"price_usd_per_kg_max":1e308`), "custom_solutes[0].price_usd_per_kg_min", "0–1000000 USD/kg"},
+		{"ion molar mass 5e-324", `{"candidates":["NaCl"],"feed":{"ions":[{"symbol":"Na+","charge":1,"molar_mass_g_per_mol":5e-324,"mg_per_l":1000},{"symbol":"Cl-","charge":-1,"molar_mass_g_per_mol":35.45,"mg_per_l":1542}]}}`, "feed.ions[0].molar_mass_g_per_mol", "1–10000 g/mol"},
+		{"custom molar mass 1e-320", strings.Replace(custom(""), `"molar_mass_g_per_mol":100`, `"molar_mass_g_per_mol":1e-320`, 1), "custom_solutes[0].molar_mass_g_per_mol", "≥ 1 and < 10000000 g/mol"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			code, out, errOut := runCLI(t, tc.stdin, "screen", "--format", "json")
+			if code != 2 || strings.Contains(errOut+out, "unsupported value") {
+				t.Fatalf("exit %d, want 2 (stderr %q, stdout %.200s)", code, errOut, out)
+			}
+			var e struct {
+				Error struct {
+					Field, Message string
+					Limit          any
+				} `json:"error"`
+			}
+			if err := json.Unmarshal([]byte(strings.TrimSpace(out)), &e); err != nil {
+				t.Fatalf("not the contract's error object (%v): %s", err, out)
+			}
+			if e.Error.Field != tc.field || e.Error.Limit != tc.limit {
+				t.Errorf("field %q limit %v, want %q %q (%s)", e.Error.Field, e.Error.Limit, tc.field, tc.limit, e.Error.Message)
+			}
+		})
+	}
+}

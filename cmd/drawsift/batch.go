@@ -10,7 +10,6 @@ package main
 import (
 	"bytes"
 	"context"
-	"encoding/csv"
 	"encoding/json"
 	"flag"
 	"fmt"
@@ -185,7 +184,7 @@ func (b *batchFlags) runBatch(op string, body []byte, format string, stdout, std
 	}
 	var sink batchSink = &ndjsonSink{w: stdout}
 	if format == "csv" {
-		sink = &csvSink{w: csv.NewWriter(stdout)}
+		sink = &csvSink{w: newCSV(stdout)}
 	}
 	var failed, lost int
 	err := forEachOrdered(ctx, items, conc, call, func(i int, o outcome) error {
@@ -428,7 +427,7 @@ func (s *ndjsonSink) flush() error { return nil }
 // each prefixed by the scenario index; a failed scenario is one row with
 // its error.
 type csvSink struct {
-	w      *csv.Writer
+	w      *csvWriter
 	header bool
 }
 

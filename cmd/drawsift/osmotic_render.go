@@ -2,7 +2,6 @@ package main
 
 import (
 	"bytes"
-	"encoding/csv"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -39,6 +38,10 @@ func renderOsmotic(w io.Writer, format string, resp []byte) error {
 	}
 	if format == "csv" {
 		return osmoticCSV(w, props, &r)
+	}
+	plainStrings(&r)
+	for i := range props {
+		props[i] = pair{plainText(props[i].key), plainText(props[i].val)}
 	}
 	return osmoticTable(w, props, &r)
 }
@@ -140,7 +143,7 @@ func osmoticTable(w io.Writer, props []pair, r *api.OsmoticResponse) error {
 }
 
 func osmoticCSV(w io.Writer, props []pair, r *api.OsmoticResponse) error {
-	cw := csv.NewWriter(w)
+	cw := newCSV(w)
 	writeKV(cw, props)
 	cw.Write([]string{})
 	cw.Write([]string{"ion", "charge", "molality (mol/kg)", "activity coefficient"})

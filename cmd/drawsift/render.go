@@ -2,7 +2,6 @@ package main
 
 import (
 	"bytes"
-	"encoding/csv"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -140,14 +139,14 @@ func scalar(tok json.Token) string {
 // writeCSV writes one header row (the field names, units in them) and one
 // value row.
 func writeCSV(w io.Writer, kv []pair) error {
-	cw := csv.NewWriter(w)
+	cw := newCSV(w)
 	writeKV(cw, kv)
 	cw.Flush()
 	return cw.Error()
 }
 
 // writeKV writes the header row of kv's keys and the row of its values.
-func writeKV(cw *csv.Writer, kv []pair) {
+func writeKV(cw *csvWriter, kv []pair) {
 	keys, vals := make([]string, len(kv)), make([]string, len(kv))
 	for i, p := range kv {
 		keys[i], vals[i] = p.key, p.val
@@ -163,7 +162,7 @@ func writeTable(w io.Writer, kv []pair) error {
 		if strings.HasPrefix(p.key, "sources") {
 			continue
 		}
-		fmt.Fprintf(tw, "%s\t%s\n", p.key, p.val)
+		fmt.Fprintf(tw, "%s\t%s\n", plainText(p.key), plainText(p.val))
 	}
 	return tw.Flush()
 }

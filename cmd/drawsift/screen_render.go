@@ -3,7 +3,6 @@ package main
 import (
 	"bytes"
 	_ "embed"
-	"encoding/csv"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -109,6 +108,7 @@ func renderScreen(w io.Writer, format string, resp []byte) error {
 	if format == "csv" {
 		return screenCSV(w, &r, bulk.FeedSaturationIndices)
 	}
+	plainStrings(&r)
 	return screenTable(w, &r, bulk.FeedSaturationIndices)
 }
 
@@ -149,7 +149,7 @@ func siList(si map[string]float64, sep string) string {
 const tableIDLen = 22
 
 func screenCSV(w io.Writer, r *api.ScreenResponse, bulk map[string]float64) error {
-	cw := csv.NewWriter(w)
+	cw := newCSV(w)
 	head := make([]string, len(screenColumns))
 	for i, c := range screenColumns {
 		head[i] = c.head

@@ -135,11 +135,21 @@ func DispatchProgress(ctx context.Context, op string, body []byte, progress func
 	if e != nil {
 		return encodeError(e), e
 	}
+	return encodeResponse(resp)
+}
+
+// encodeResponse encodes a response. The last guard of "never NaN or
+// Inf": a non-finite number that got past every range becomes the
+// contract's error naming the result field, never a failed encoding.
+func encodeResponse(resp any) ([]byte, *Error) {
 	b, err := jsonx.Marshal(resp)
 	if err != nil {
-		// Only a non-finite float can fail here; the engine guards against
-		// them, so this is a bug.
-		e = &Error{Message: "internal error", Kind: KindInternal, detail: "marshal: " + err.Error()}
+		var e *Error
+		if p := nonFinitePath(resp); p != "" {
+			e = nonFiniteError(p, "marshal: "+err.Error())
+		} else {
+			e = &Error{Message: "internal error", Kind: KindInternal, detail: "marshal: " + err.Error()}
+		}
 		return encodeError(e), e
 	}
 	return b, nil
@@ -160,7 +170,7 @@ func decode(body []byte, v any) *Error {
 		e := &Error{Field: field, Message: msg, Kind: KindInvalid}
 		// A number of the wrong type or sign for its Go field (a seed of
 		// −1 or 1.5) still states the field's range.
-		if r := limits.Lookup(field); r != nil {
+		if r := limits.Lookup(field); r != nil && !r.Count {
 			e.Limit = r.Text()
 			if strings.HasPrefix(msg, "wrong type") {
 				e.Message = fmt.Sprintf("wrong type: %s must be a number, %s", field, r.Text())

@@ -178,7 +178,7 @@ func TestFluxFeedBAndWarnings(t *testing.T) {
 		t.Errorf("feed B missing: %+v", e)
 	}
 	m = fluxOK(t, `{"membrane":{"preset":"tfc-standard"},"draw":{"solute":"NaCl","concentration":1,"unit":"mol/L"},"b_feed_lmh":0.5}`)
-	if w := fmt.Sprint(m["warnings"]); !strings.Contains(w, "b_feed_lmh is not used") {
+	if w := fmt.Sprint(m["warnings"]); !strings.Contains(w, "b_feed_lmh (0.5 LMH) is not used: the feed holds no solute") {
 		t.Errorf("unused b_feed_lmh not flagged: %s", w)
 	}
 }

@@ -224,7 +224,7 @@ func TestFeedByIons(t *testing.T) {
 		{`[{"symbol":"Na+","charge":1,"molar_mass_g_per_mol":22.99,"mg_per_l":2299},{"symbol":"Cl-","charge":-1,"molar_mass_g_per_mol":35.45,"mg_per_l":1000}]`, "feed.ions"},
 		{`[{"symbol":"Xx+","charge":1,"molar_mass_g_per_mol":22.99,"mg_per_l":2299},{"symbol":"Cl-","charge":-1,"molar_mass_g_per_mol":35.45,"mg_per_l":3545}]`, "feed.ions[0].symbol"},
 		{`[{"symbol":"Na+","charge":2,"molar_mass_g_per_mol":22.99,"mg_per_l":2299},{"symbol":"Cl-","charge":-1,"molar_mass_g_per_mol":35.45,"mg_per_l":7090}]`, "feed.ions[0].charge"},
-		{`[{"symbol":"Na+","charge":1,"molar_mass_g_per_mol":22.99,"mg_per_l":-5},{"symbol":"Cl-","charge":-1,"molar_mass_g_per_mol":35.45,"mg_per_l":3545}]`, "feed.ions[0]"},
+		{`[{"symbol":"Na+","charge":1,"molar_mass_g_per_mol":22.99,"mg_per_l":-5},{"symbol":"Cl-","charge":-1,"molar_mass_g_per_mol":35.45,"mg_per_l":3545}]`, "feed.ions[0].mg_per_l"},
 	} {
 		_, e := dispatch(t, OpScreen, `{"candidates":["NaCl"],"feed":{"ions":`+c.ions+`}}`)
 		if e == nil || e.Kind != KindInvalid || e.Field != c.field {

@@ -106,11 +106,43 @@ func New(solutes []Solute) (*Library, error) {
 	return l, nil
 }
 
-// Key normalises a solute name for look-up: case-insensitive, blanks and
-// the middle dot ignored.
+// Key normalises a solute name for look-up: case-insensitive, blanks,
+// tabs, underscores, hyphens and the middle dot ignored. It is a single
+// hand-written pass (no replacer is built per call): a name already in
+// its key form (lower-case ASCII with nothing to drop) is returned without
+// allocating, so matching lists of names stays linear and cheap.
 func Key(name string) string {
-	r := strings.NewReplacer(" ", "", "\t", "", "·", "", "_", "", "-", "")
-	return strings.ToLower(r.Replace(strings.TrimSpace(name)))
+	name = strings.TrimSpace(name)
+	clean := true
+	for i := 0; i < len(name); i++ {
+		c := name[i]
+		if c >= 0x80 || c == ' ' || c == '\t' || c == '_' || c == '-' || c >= 'A' && c <= 'Z' {
+			clean = false
+			break
+		}
+	}
+	if clean {
+		return name
+	}
+	var b strings.Builder
+	b.Grow(len(name))
+	ascii := true
+	for _, r := range name {
+		switch r {
+		case ' ', '\t', '·', '_', '-':
+			continue
+		}
+		if r >= 0x80 {
+			ascii = false
+		} else if r >= 'A' && r <= 'Z' {
+			r += 'a' - 'A'
+		}
+		b.WriteRune(r)
+	}
+	if ascii {
+		return b.String()
+	}
+	return strings.ToLower(b.String())
 }
 
 // Lookup finds a solute by ID or alias, case-insensitively.

@@ -66,6 +66,23 @@ func IsHazardFlag(f string) bool {
 	return false
 }
 
+// UniqueFlags returns flags without repeats (compared by Key), in their
+// first order; nil stays nil. Linear: one Key and one map look-up each.
+func UniqueFlags(flags []string) []string {
+	if flags == nil {
+		return nil
+	}
+	out := make([]string, 0, len(flags))
+	seen := make(map[string]bool, len(flags))
+	for _, f := range flags {
+		if k := Key(f); !seen[k] {
+			seen[k] = true
+			out = append(out, f)
+		}
+	}
+	return out
+}
+
 // Ion is one dissociated species of a salt.
 type Ion struct {
 	Symbol string `json:"symbol"` // e.g. "Na+", "SO4-2"

@@ -32,6 +32,9 @@ type Range struct {
 	// MinOpen, MaxOpen make a bound exclusive.
 	MinOpen, MaxOpen bool
 	Integer          bool
+	// Count marks a range on the number of entries of a list (not a
+	// number the request writes), e.g. "custom_solutes[].hazard_flags".
+	Count bool
 	// Default applies when the field is omitted (HasDefault).
 	Default    float64
 	HasDefault bool
@@ -66,6 +69,13 @@ func (r *Range) Contains(v float64) bool {
 // "> 0 and ≤ 20 m/s", "≥ 0 LMH".
 func (r *Range) Text() string {
 	lo, hi := num(r.Min), num(r.Max)
+	if r.Count {
+		// A list's length: "at most 32 entries", "2–1000 entries".
+		if r.Min == 0 {
+			return "at most " + hi + " entries"
+		}
+		return lo + "–" + hi + " entries"
+	}
 	var s string
 	switch {
 	case math.IsInf(r.Max, 1) && r.MinOpen:
@@ -104,6 +114,9 @@ func (r *Range) CheckAt(field string, v float64) error {
 		return nil
 	}
 	name := field[strings.LastIndexByte(field, '.')+1:]
+	if r.Count {
+		return errs.Invalid(field, v, r.Text(), "%s has %s entries; %s are accepted", name, num(v), r.Text())
+	}
 	return errs.Invalid(field, v, r.Text(), "%s = %s is outside %s", name, num(v), r.Text())
 }
 
@@ -128,7 +141,12 @@ func num(v float64) string {
 	return strings.Replace(s, "e+0", "e+", 1)
 }
 
-var inf = math.Inf(1)
+// MaxConcentration bounds every concentration a request gives, in any of
+// the accepted units (mol/kg, mol/L, g/L, g/kg, wt%, osmol/kg): no aqueous
+// solution comes near 10⁵ in any of them (the most soluble salts hold a few
+// thousand g/L), so a larger value is a unit slip, and every derived
+// quantity stays finite.
+const MaxConcentration = 1e5
 
 // Bounds that catch unit slips rather than judge a membrane or a cell:
 // each is far beyond anything reported for forward osmosis (common
@@ -168,8 +186,10 @@ var (
 
 	FeedPH = Range{Field: "feed.ph", Min: 0, Max: 14, Default: 7, HasDefault: true, Why: "the pH scale of dilute aqueous solutions"}
 	// FeedIonMgPerL bounds one custom feed ion.
-	FeedIonMgPerL    = Range{Field: "feed.ions[].mg_per_l", Unit: "mg/L", Min: 0, Max: 1e6, Why: "a litre holds at most about 10⁶ mg of anything dissolved"}
-	FeedIonMolarMass = Range{Field: "feed.ions[].molar_mass_g_per_mol", Unit: "g/mol", Min: 0, MinOpen: true, Max: 1e4, Why: "unit-slip guard"}
+	FeedIonMgPerL = Range{Field: "feed.ions[].mg_per_l", Unit: "mg/L", Min: 0, Max: 1e6, Why: "a litre holds at most about 10⁶ mg of anything dissolved"}
+	// FeedIonMolarMass: the lightest ion, H⁺, is 1.008 g/mol (IUPAC
+	// standard atomic weight of hydrogen, common practice).
+	FeedIonMolarMass = Range{Field: "feed.ions[].molar_mass_g_per_mol", Unit: "g/mol", Min: 1, Max: 1e4, Why: "no ion is lighter than H⁺ (1.008 g/mol); unit-slip guard"}
 
 	// RegenerationRecovery: the fraction of the diluted draw's water
 	// recovered as product when re-concentrating (0.5 by default, our own
@@ -182,7 +202,7 @@ var (
 	Seed = Range{Field: "seed", Min: 0, Max: 1<<53 - 1, Integer: true, Default: 1, HasDefault: true, Why: "a whole number a JavaScript number holds exactly"}
 
 	// Basis.
-	BasisValue = Range{Field: "basis.value", Min: 0, MinOpen: true, Max: inf, Why: "a positive target"}
+	BasisValue = Range{Field: "basis.value", Min: 0, MinOpen: true, Max: MaxConcentration, Why: "a positive target, within any solution's concentration"}
 	// BasisMultiple is the target as a multiple of the feed's π; 2 is the
 	// default basis for a feed with osmotic pressure (our own choice: a
 	// draw twice the feed's π keeps a useful driving force along a module).
@@ -194,7 +214,9 @@ var (
 	BasisPressure = Range{Field: "basis.value", Key: "basis.osmotic_pressure_bar", Unit: "bar", Min: 0, MinOpen: true, Max: 1e4, Default: 28, HasDefault: true,
 		Why: "positive; 10⁴ bar is beyond any solution"}
 	BasisFlux = Range{Field: "basis.value", Key: "basis.water_flux_lmh", Unit: "LMH", Min: 0, MinOpen: true, Max: 3600, MaxOpen: true, Why: "beyond any FO membrane"}
-	Weight    = Range{Field: "weights", Min: 0, Max: inf, Why: "finite and non-negative"}
+	// Weight: relative weights; 10⁶ bounds their ratio far beyond any
+	// useful one and keeps their sum finite (our own choice).
+	Weight = Range{Field: "weights", Min: 0, Max: 1e6, Why: "non-negative relative weights; a sum that stays finite"}
 
 	// Robustness (Monte Carlo). The spreads' defaults are engine/screen's
 	// (each names its source there); a preset membrane brings its own A, B
@@ -226,18 +248,32 @@ var (
 	// Concentration: any solution's concentration, in the request's unit
 	// (draw.concentration, feed.concentration, …); its solubility is checked
 	// against the solute's record.
-	Concentration = Range{Field: "concentration", Min: 0, Max: inf, Why: "non-negative; each solute's solubility is checked in the request's unit"}
+	Concentration = Range{Field: "concentration", Min: 0, Max: MaxConcentration, Why: "non-negative, a unit-slip guard beyond any solution in every accepted unit; each solute's solubility is checked in the request's unit"}
 
 	// Sweeps.
 	SweepPoints = Range{Field: "sweep.points", Min: 2, Max: 1000, Integer: true, Why: "a series of 2–1000 points"}
 
 	// Custom solutes.
-	CustomMolarMass   = Range{Field: "custom_solutes[].molar_mass_g_per_mol", Unit: "g/mol", Min: 0, MinOpen: true, Max: 1e7, MaxOpen: true, Why: "unit-slip guard"}
+	CustomMolarMass   = Range{Field: "custom_solutes[].molar_mass_g_per_mol", Unit: "g/mol", Min: 1, Max: 1e7, MaxOpen: true, Why: "nothing is lighter than hydrogen (1.008 g/mol); unit-slip guard"}
 	CustomDiffusivity = Range{Field: "custom_solutes[].diffusivity_m2_per_s", Unit: "m²/s", Min: 0, MinOpen: true, Max: 1e-8, MaxOpen: true, Why: "unit-slip guard"}
 	CustomVantHoff    = Range{Field: "custom_solutes[].van_t_hoff_factor", Min: 0, Max: 10, Why: "particles per formula unit; 0 → Σ ion counts, or 1"}
 	CustomSolubility  = Range{Field: "custom_solutes[].solubility_mol_per_kg", Unit: "mol/kg", Min: 0, MinOpen: true, Max: 1e3, Why: "positive; 10³ mol/kg is beyond any solute"}
 	CustomPrice       = Range{Field: "custom_solutes[].price_usd_per_kg_min", Key: "custom_solutes[].price_usd_per_kg", Unit: "USD/kg", Min: 0, Max: 1e6, Why: "non-negative; unit-slip guard"}
-	PiTablePoints     = Range{Field: "custom_solutes[].pi_table.points", Min: 2, Max: 1000, Integer: true, Why: "a table of 2–1000 points"}
+	PiTablePoints     = Range{Field: "custom_solutes[].pi_table.points", Min: 2, Max: 1000, Integer: true, Count: true, Why: "a table of 2–1000 points"}
+
+	// Custom ions: no aqueous ion carries more than a few charges (P₃O₁₀⁵⁻
+	// has five) and no formula unit more than a handful of one ion, so
+	// ±10 and 10 are unit-slip guards that keep Σ charge × count and
+	// ν = Σ count small integers (common practice).
+	CustomIonCharge  = Range{Field: "custom_solutes[].ions[].charge", Min: -10, Max: 10, Integer: true, Why: "a whole charge, non-zero; unit-slip guard"}
+	CustomIonCount   = Range{Field: "custom_solutes[].ions[].count", Min: 1, Max: 10, Integer: true, Why: "ions of one kind per formula unit"}
+	CustomIonEntries = Range{Field: "custom_solutes[].ions", Min: 0, Max: 10, Integer: true, Count: true, Why: "ion kinds per formula unit"}
+
+	// Hazard lists: only len(library.HazardFlags) (8) flags exist, so 32
+	// entries leave room for repeats (dropped) while bounding the work of
+	// matching them (our own choice).
+	HazardFlagCount    = Range{Field: "custom_solutes[].hazard_flags", Min: 0, Max: 32, Integer: true, Count: true, Why: "a list of known hazard flags; repeats are dropped"}
+	ExcludeHazardCount = Range{Field: "exclude_hazards", Min: 0, Max: 32, Integer: true, Count: true, Why: "a list of known hazard flags; repeats are dropped"}
 )
 
 // Lookup returns the range of a contract field (the first listed, where
@@ -278,5 +314,6 @@ func Ranges() []*Range {
 		&BasisValue, &BasisMultiple, &BasisPressure, &BasisFlux, &Weight,
 		&Samples, &ARelSD, &BRelSD, &SRelSD, &OsmoticRelSD, &VantHoffOsmoticRelSD, &DiffusivityRelSD, &EstimatedBRelSD,
 		&Concentration, &SweepPoints, &CustomMolarMass, &CustomDiffusivity, &CustomVantHoff, &CustomSolubility, &CustomPrice, &PiTablePoints,
+		&HazardFlagCount, &ExcludeHazardCount, &CustomIonCharge, &CustomIonCount, &CustomIonEntries,
 	}
 }

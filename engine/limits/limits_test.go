@@ -47,8 +47,10 @@ func TestRangeCheck(t *testing.T) {
 		{&Samples, 1, true, "1–100000 (whole number)"},
 		{&BasisFlux, 3600, false, "> 0 and < 3600 LMH"},
 		{&MembraneA, math.NaN(), false, "0.001–100 LMH/bar"},
-		{&BasisValue, math.Inf(1), false, "> 0"}, // every input must be finite
-		{&Weight, 0, true, "≥ 0"},
+		{&BasisValue, math.Inf(1), false, "> 0 and ≤ 100000"}, // every input must be finite
+		{&Weight, 0, true, "0–1000000"},
+		{&Weight, 1e308, false, "0–1000000"},
+		{&CustomMolarMass, 1e-320, false, "≥ 1 and < 10000000 g/mol"},
 		{&Seed, 1 << 53, false, "0–9007199254740991 (whole number)"},
 	} {
 		err := tc.r.Check(tc.v)

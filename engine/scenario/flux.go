@@ -311,8 +311,21 @@ func ResolveFlux(req *FluxSpec) (*Flux, error) {
 	}
 	species := []transport.Species{{Name: draw.Solute.ID, DrawBulkMolPerM3: draw.CSI, BMPerS: f.BDrawMPerS,
 		DM2PerS: dDraw, Pi: draw.Pi(model, tK)}}
-	if req.BFeedLMH != nil && (f.SameSolute || feed.CSI == 0) {
-		f.Warnings = append(f.Warnings, warn.New(warn.Unused, "b_feed_lmh", "b_feed_lmh is not used: the feed holds no solute other than the draw's"))
+	// b_feed_lmh is checked even when it is not used (a unit slip is still
+	// a slip); unused, it is kept and flagged rather than refused, so the
+	// request still answers and says which B applied.
+	if req.BFeedLMH != nil {
+		if err := limits.FeedB.Check(*req.BFeedLMH); err != nil {
+			return nil, err
+		}
+		switch {
+		case feed.CSI == 0:
+			f.Warnings = append(f.Warnings, warn.New(warn.Unused, "b_feed_lmh", "b_feed_lmh (%g LMH) is not used: the feed holds no solute", *req.BFeedLMH))
+		case f.SameSolute:
+			f.Warnings = append(f.Warnings, warn.New(warn.Unused, "b_feed_lmh",
+				"b_feed_lmh (%g LMH) is not used: the feed solute is the draw solute (%s), which crosses the membrane with one B, the draw's (%.3g LMH, from %s); to change it, set membrane.b_lmh",
+				*req.BFeedLMH, draw.Solute.ID, f.BDrawMPerS/thermo.MPerSPerLMH, map[bool]string{true: "an estimate", false: "the membrane"}[f.BDrawEstimated]))
+		}
 	}
 	if f.SameSolute {
 		species[0].FeedBulkMolPerM3 = feed.CSI
@@ -359,6 +372,7 @@ func (f *Flux) ResultWarnings(res *transport.Result) []warn.Warning {
 	if len(res.Species) == 2 {
 		check(f.Feed.X, f.Feed.Solute.ID, res.Species[1].FeedFaceMolPerM3, "feed-side face of the active layer")
 	}
+	w = append(w, transport.CrossingWarnings(&f.Input, res, f.Draw.Solute.ID)...)
 	if f.DeltaPBar > 0 && res.JwMPerS < 0 {
 		w = append(w, warn.New(warn.ReverseFlow, "delta_p_bar", "ΔP exceeds the osmotic pressure difference across the membrane: no PRO power is produced"))
 	}

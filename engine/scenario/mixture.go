@@ -221,6 +221,9 @@ func trimLimit(v float64) string {
 // key) at the given mole or mass fractions (converted to mole fractions:
 // x_k ∝ w_k/M_k).
 func ResolveBlend(field string, c *Candidate, extra map[string]*library.Solute) (*library.Solute, error) {
+	if err := CheckLabel(errs.Join(field, "id"), c.ID); err != nil {
+		return nil, err
+	}
 	if len(c.Blend) < 2 {
 		return nil, errs.InvalidText(errs.Join(field, "blend"), "", nil, "a blend needs two or more parts: [{\"solute\", \"mole_fraction\"}, …]")
 	}

@@ -346,8 +346,8 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 				return nil, nil, invalid("weights."+k, screen.ObjectiveKeys(), "unknown objective %q", k)
 			}
 			w := req.Weights[k]
-			if !(w >= 0) || math.IsInf(w, 0) {
-				return nil, nil, invalid("weights."+k, "≥ 0", "weights must be finite and non-negative (got %g)", w)
+			if err := limits.Weight.CheckAt("weights."+k, w); err != nil {
+				return nil, nil, err
 			}
 			sc.Weights[ob] = w
 			sum += w
@@ -370,12 +370,15 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 			sc.Pareto = append(sc.Pareto, ob)
 		}
 	}
+	if err := limits.ExcludeHazardCount.Check(float64(len(req.ExcludeHazards))); err != nil {
+		return nil, nil, err
+	}
 	for i, h := range req.ExcludeHazards {
 		if !library.IsHazardFlag(h) {
 			return nil, nil, invalid(fmt.Sprintf("exclude_hazards[%d]", i), library.HazardFlags, "unknown hazard flag %q", h)
 		}
 	}
-	sc.ExcludeHazards = req.ExcludeHazards
+	sc.ExcludeHazards = library.UniqueFlags(req.ExcludeHazards)
 	// Uncertainty.
 	if u := req.Uncertainty; u != nil {
 		su := &screen.Uncertainty{Samples: int(limits.Samples.Default), ARelSD: m.ARelSD, BRelSD: m.BRelSD, SRelSD: m.SRelSD,
@@ -427,9 +430,15 @@ func customIons(specs []IonSpec) ([]library.FeedIon, error) {
 	seen := map[string]int{}
 	for i, ion := range specs {
 		field := fmt.Sprintf("feed.ions[%d]", i)
-		if ion.Symbol == "" || ion.Charge == 0 || !limits.FeedIonMolarMass.Contains(ion.MolarMassGPerMol) || !limits.FeedIonMgPerL.Contains(ion.MgPerL) {
+		if ion.Symbol == "" || ion.Charge == 0 {
 			return nil, invalid(field, nil, "an ion needs a symbol, a non-zero charge, molar_mass_g_per_mol %s and mg_per_l %s",
 				limits.FeedIonMolarMass.Text(), limits.FeedIonMgPerL.Text())
+		}
+		if err := limits.FeedIonMolarMass.CheckAt(field+".molar_mass_g_per_mol", ion.MolarMassGPerMol); err != nil {
+			return nil, err
+		}
+		if err := limits.FeedIonMgPerL.CheckAt(field+".mg_per_l", ion.MgPerL); err != nil {
+			return nil, err
 		}
 		if z, ok := thermo.KnownIonCharge(ion.Symbol); !ok {
 			return nil, errs.InvalidText(field+".symbol", ion.Symbol, thermo.KnownIonSymbols(), "unknown ion %q: the mixed-electrolyte model has no data for it", ion.Symbol)
@@ -649,6 +658,9 @@ func resolveBasis(b *BasisSpec, feedHasPi bool) (screen.Basis, error) {
 			if !(k > 1) || math.IsInf(k, 0) {
 				return screen.Basis{}, invalid("basis.multiple_of_feed", "> 1", "the multiple of the feed's osmotic pressure must exceed 1 (got %g)", k)
 			}
+			if err := limits.BasisMultiple.Check(k); err != nil {
+				return screen.Basis{}, err
+			}
 			if !feedHasPi {
 				return screen.Basis{}, invalid("basis.multiple_of_feed", nil, "the feed has no osmotic pressure; give the target in bar instead")
 			}
@@ -666,9 +678,15 @@ func resolveBasis(b *BasisSpec, feedHasPi bool) (screen.Basis, error) {
 		if !ok {
 			return screen.Basis{}, invalid("basis.unit", thermo.PressureUnitNames(), "unknown pressure unit %q", b.Unit)
 		}
+		if err := limits.BasisPressure.Check(v * f / thermo.PascalPerBar); err != nil {
+			return screen.Basis{}, err
+		}
 		return screen.Basis{Kind: screen.BasisOsmoticPressure, PiPa: v * f}, nil
 	case "concentration":
 		v, e := val()
+		if e == nil {
+			e = limits.BasisValue.Check(v)
+		}
 		if e != nil {
 			return screen.Basis{}, e
 		}
@@ -712,6 +730,12 @@ func customSolute(i int, cs *CustomSolute, lib *library.Library) (*library.Solut
 	if strings.TrimSpace(cs.ID) == "" {
 		return nil, invalid(field("id"), nil, "a custom solute needs an id")
 	}
+	if err := CheckLabel(field("id"), cs.ID); err != nil {
+		return nil, err
+	}
+	if err := CheckLabel(field("name"), cs.Name); err != nil {
+		return nil, err
+	}
 	if _, clash := lib.Lookup(cs.ID); clash {
 		return nil, invalid(field("id"), nil, "%q is already a library solute; choose another id", cs.ID)
 	}
@@ -723,13 +747,41 @@ func customSolute(i int, cs *CustomSolute, lib *library.Library) (*library.Solut
 			return nil, err
 		}
 	}
+	if err := limits.HazardFlagCount.CheckAt(field("hazard_flags"), float64(len(cs.HazardFlags))); err != nil {
+		return nil, err
+	}
 	s := &library.Solute{ID: cs.ID, Name: cs.Name, Family: "custom", Formula: cs.ID, MolarMassGPerMol: cs.MolarMassGPerMol,
-		HazardFlags: cs.HazardFlags, Hazards: []string{}, Regeneration: []string{}, Aliases: []string{}}
+		HazardFlags: library.UniqueFlags(cs.HazardFlags), Hazards: []string{}, Regeneration: []string{}, Aliases: []string{}}
 	if s.Name == "" {
 		s.Name = cs.ID + " (user-defined)"
 	}
-	for _, ion := range cs.Ions {
+	// Ions: bounded counts and charges, so Σ charge × count (the
+	// electroneutrality check) and ν = Σ count cannot overflow or reach
+	// absurd values.
+	if err := limits.CustomIonEntries.CheckAt(field("ions"), float64(len(cs.Ions))); err != nil {
+		return nil, err
+	}
+	nu := 0
+	for j, ion := range cs.Ions {
+		f := fmt.Sprintf("custom_solutes[%d].ions[%d]", i, j)
+		if err := CheckLabel(f+".symbol", ion.Symbol); err != nil {
+			return nil, err
+		}
+		if err := limits.CustomIonCharge.CheckAt(f+".charge", float64(ion.Charge)); err != nil {
+			return nil, err
+		}
+		if ion.Charge == 0 {
+			return nil, errs.Invalid(f+".charge", 0, limits.CustomIonCharge.Text()+", not 0", "an ion needs a non-zero charge")
+		}
+		if err := limits.CustomIonCount.CheckAt(f+".count", float64(ion.Count)); err != nil {
+			return nil, err
+		}
+		nu += ion.Count
 		s.Ions = append(s.Ions, library.Ion{Symbol: ion.Symbol, Charge: ion.Charge, Count: ion.Count})
+	}
+	if float64(nu) > limits.CustomVantHoff.Max {
+		return nil, errs.Invalid(field("ions"), float64(nu), fmt.Sprintf("Σ count ≤ %g", limits.CustomVantHoff.Max),
+			"the ions give %d particles per formula unit; at most %g are accepted (as for van_t_hoff_factor)", nu, limits.CustomVantHoff.Max)
 	}
 	s.Osmotic = library.OsmoticModel{Kind: library.ModelNone, Reason: "user-defined solute: van 't Hoff osmotic pressure only",
 		VantHoffNu: cs.VantHoffFactor}
@@ -745,9 +797,9 @@ func customSolute(i int, cs *CustomSolute, lib *library.Library) (*library.Solut
 		}
 		prevC, prevP := 0.0, 0.0
 		for j, p := range t.Points {
-			if !(p.Concentration > prevC) || !(p.OsmoticPressureBar > prevP) || math.IsInf(p.Concentration, 0) || p.OsmoticPressureBar > 1e4 {
-				return nil, invalid(fmt.Sprintf("custom_solutes[%d].pi_table.points[%d]", i, j), "increasing, positive",
-					"concentration and osmotic pressure must both be positive and increase from point to point")
+			if !(p.Concentration > prevC) || !(p.OsmoticPressureBar > prevP) || p.Concentration > limits.Concentration.Max || p.OsmoticPressureBar > limits.BasisPressure.Max {
+				return nil, invalid(fmt.Sprintf("custom_solutes[%d].pi_table.points[%d]", i, j), fmt.Sprintf("increasing, positive; concentration %s, osmotic_pressure_bar %s", limits.Concentration.Text(), limits.BasisPressure.Text()),
+					"concentration and osmotic pressure must both be positive and increase from point to point (concentration %s, osmotic_pressure_bar %s)", limits.Concentration.Text(), limits.BasisPressure.Text())
 			}
 			prevC, prevP = p.Concentration, p.OsmoticPressureBar
 		}
@@ -793,6 +845,17 @@ func customSolute(i int, cs *CustomSolute, lib *library.Library) (*library.Solut
 // ResolveSweep checks a sweep and returns it in SI.
 func ResolveSweep(sw *SweepSpec) (screen.SweepSpec, error) {
 	spec := screen.SweepSpec{From: sw.From, To: sw.To, Points: sw.Points}
+	// from and to lie within the range of the variable they stand for.
+	if r, ok := sweepRanges[strings.ToLower(sw.Variable)]; ok {
+		for _, f := range []struct {
+			name string
+			v    float64
+		}{{"sweep.from", sw.From}, {"sweep.to", sw.To}} {
+			if err := r.CheckAt(f.name, f.v); err != nil {
+				return spec, err
+			}
+		}
+	}
 	switch strings.ToLower(sw.Variable) {
 	case "concentration":
 		spec.Variable = screen.SweepConcentration
@@ -818,6 +881,13 @@ func ResolveSweep(sw *SweepSpec) (screen.SweepSpec, error) {
 		return spec, invalid("sweep.variable", []string{"concentration", "temperature", "s", "crossflow"}, "unknown sweep variable %q", sw.Variable)
 	}
 	return spec, nil
+}
+
+// sweepRanges: the range a sweep's from and to are checked against, by
+// variable (the same bounds as the input each variable stands for).
+var sweepRanges = map[string]*limits.Range{
+	"concentration": &limits.Concentration, "temperature": &limits.TemperatureC,
+	"s": &limits.MembraneS, "crossflow": &limits.Crossflow,
 }
 
 // invalid returns an *errs.InputError on field with its limit.

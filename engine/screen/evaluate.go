@@ -1,6 +1,7 @@
 package screen
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -193,8 +194,10 @@ type ionConc struct {
 }
 
 // prepare builds the env: solutions at temperature, feed state, B per
-// candidate, basis target. It fails only on scenario-level errors.
-func prepare(sc *Scenario, lib *library.Library) (*env, error) {
+// candidate, basis target. It fails only on scenario-level errors, or
+// with ctx.Err() when the caller has gone (checked per candidate: each
+// costs a Solution and its tabulated π).
+func prepare(ctx context.Context, sc *Scenario, lib *library.Library) (*env, error) {
 	if err := sc.validate(); err != nil {
 		return nil, err
 	}
@@ -204,7 +207,13 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 	if f.Solute != nil && f.Concentration > 0 {
 		x, err := thermo.Prepared(f.Solute, e.tK)
 		if err != nil {
-			return nil, inputErr("temperature_c", "0–100 °C", "%v", err)
+			// The temperature passed its range already: what fails is the
+			// feed's own composition ("feed.ions", …).
+			var ie *errs.InputError
+			if errors.As(err, &ie) {
+				return nil, ie.Prefix("feed")
+			}
+			return nil, inputErr("feed", nil, "the feed cannot be modelled at %.4g °C: %v", e.tK-thermo.ZeroCelsiusK, err)
 		}
 		m, err := x.ToMolality(f.Concentration, f.Unit)
 		if err != nil {
@@ -277,7 +286,11 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 	}
 	// Candidates.
 	e.cands = make([]candidate, len(sc.Candidates))
+	excl := hazardSet(sc.ExcludeHazards)
 	for i, s := range sc.Candidates {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
 		c := &e.cands[i]
 		c.sol = s
 		x, err := thermo.Prepared(s, e.tK)
@@ -309,7 +322,7 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 		for _, ion := range s.IonShares() {
 			c.ions = append(c.ions, ionCount{ion.Symbol, ion.Charge, ion.PerUnit})
 		}
-		if h := hazardHit(s, sc.ExcludeHazards); h != "" {
+		if h := hazardHit(s, excl); h != "" {
 			c.excl = &exclusion{ReasonHazard, fmt.Sprintf("%s carries the hazard flag %q", s.ID, h)}
 			continue
 		}
@@ -326,15 +339,33 @@ func prepare(sc *Scenario, lib *library.Library) (*env, error) {
 	return e, nil
 }
 
-func hazardHit(s *library.Solute, excl []string) string {
-	for _, h := range excl {
-		for _, f := range s.HazardFlags {
-			if library.Key(f) == library.Key(h) {
-				return f
-			}
+// hazardSet normalises the excluded flags once (library.Key), each to the
+// position of its first entry, so that matching a candidate's flags costs
+// one look-up per flag: linear in the flags, whatever the list lengths.
+func hazardSet(excl []string) map[string]int {
+	if len(excl) == 0 {
+		return nil
+	}
+	set := make(map[string]int, len(excl))
+	for i, h := range excl {
+		k := library.Key(h)
+		if _, ok := set[k]; !ok {
+			set[k] = i
 		}
 	}
-	return ""
+	return set
+}
+
+// hazardHit returns the flag of s matched by the earliest excluded entry
+// ("" if none).
+func hazardHit(s *library.Solute, excl map[string]int) string {
+	hit, at := "", -1
+	for _, f := range s.HazardFlags {
+		if i, ok := excl[library.Key(f)]; ok && (at < 0 || i < at) {
+			hit, at = f, i
+		}
+	}
+	return hit
 }
 
 // drawB returns B (m/s) of the membrane for a draw solute: the
@@ -554,6 +585,16 @@ func (e *env) metricsAt(c *candidate, ori transport.Orientation, m float64, p *p
 	out.ViscosityPaS = x.ViscosityPaS(m)
 	out.RegenJPerM3 = p.fPi * e.regenEnergy(c, m)
 	out.FeedFaceDrawMolPerM3 = r.Species[0].FeedFaceMolPerM3
+	if p == &nominal {
+		// Say why where feed solute crossing into the draw puts a metric
+		// outside its usual range (flux efficiency above 1, …).
+		in := transport.Input{AMPerSPa: sc.Membrane.AMPerSPa * p.fA, Species: make([]transport.Species, len(r.Species))}
+		in.Species[0].Name = c.sol.ID
+		if len(r.Species) > 1 && e.feedSol != nil {
+			in.Species[1].Name = e.feedSol.ID
+		}
+		out.Warnings = append(out.Warnings, transport.CrossingWarnings(&in, r, c.sol.ID)...)
+	}
 	e.scaling(c, ori, r, &out.Scaling)
 	return nil
 }

@@ -84,7 +84,7 @@ var ErrNoCandidate = errors.New("no candidate passes the hard limits")
 // target (the Result is returned too, with every exclusion); ctx.Err()
 // when cancelled.
 func Run(ctx context.Context, sc *Scenario, lib *library.Library, progress func(done, total int)) (*Result, error) {
-	e, err := prepare(sc, lib)
+	e, err := prepare(ctx, sc, lib)
 	if err != nil {
 		return nil, err
 	}

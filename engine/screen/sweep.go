@@ -96,7 +96,7 @@ func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSp
 		if spec.Variable == SweepCrossflow {
 			local.Channel.VelocityMPerS, local.Channel.FeedVelocityMPerS = xs[0], 0
 		}
-		if e, err = prepare(&local, lib); err != nil {
+		if e, err = prepare(ctx, &local, lib); err != nil {
 			return nil, err
 		}
 	}
@@ -107,7 +107,7 @@ func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSp
 		switch spec.Variable {
 		case SweepTemperature:
 			local.TemperatureK = x
-			if e, err = prepare(&local, lib); err != nil {
+			if e, err = prepare(ctx, &local, lib); err != nil {
 				return nil, err
 			}
 		case SweepS:

@@ -29,6 +29,9 @@ const (
 	Unused         Code = "unused"          // an input that has no effect
 	Regeneration   Code = "regeneration"    // about the regeneration estimate
 	Scaling        Code = "scaling"         // mineral saturation
+	// FeedToDraw: solute crossing from the feed into the draw makes a
+	// derived ratio (flux efficiency, SRSF) leave its usual range.
+	FeedToDraw Code = "feed-to-draw"
 )
 
 // Warning is one warning: its code, what it concerns (a solute ID, "feed",

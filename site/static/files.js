@@ -80,17 +80,28 @@
   function exportCustom() {
     S.download("drawsift-custom-solutes.json", JSON.stringify({ drawsift_custom_solutes: state.custom }, null, 2) + "\n");
   }
-  function exportCSV() {
-    const res = state.result;
-    if (!res) return;
+  // rankingCSV is the ranked table of a result as CSV text. Text cells a
+  // spreadsheet would run as a formula (=, +, -, @, tab or CR first) get a
+  // leading quote (OWASP, "CSV Injection"): a custom solute named
+  // "=HYPERLINK(…)" stays text. Numbers stay numbers.
+  function rankingCSV(res) {
     const cols = P.columns();
-    const q = s => /[",\n]/.test(s) ? '"' + s.replace(/"/g, '""') + '"' : s;
+    const q = s => {
+      s = String(s);
+      if (/^[=+\-@\t\r]/.test(s) && !/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(s)) s = "'" + s;
+      return /[",\n\r]/.test(s) ? '"' + s.replace(/"/g, '""') + '"' : s;
+    };
     const lines = [cols.map(c => q(c.label + (c.unit ? " (" + c.unit + ")" : ""))).join(",")];
     for (const c of res.candidates) lines.push(cols.map(col => { const v = col.get(c); return col.text ? q(String(v)) : isFinite(v) ? String(v) : ""; }).join(","));
     lines.push("");
     lines.push("excluded solute,reason,detail");
     for (const x of res.excluded) lines.push([x.solute, x.reason, x.detail || ""].map(q).join(","));
-    S.download("drawsift-ranking.csv", lines.join("\n") + "\n", "text/csv");
+    return lines.join("\n") + "\n";
+  }
+  function exportCSV() {
+    const res = state.result;
+    if (!res) return;
+    S.download("drawsift-ranking.csv", rankingCSV(res), "text/csv");
   }
   function exportJSON() {
     const res = state.robust || state.result;
@@ -183,5 +194,5 @@
     return { sc: validateScenario(await loadDemo()), from: "demo" };
   }
 
-  Object.assign(P, { SHAPE_CUSTOM, loadDemo, exportScenario, exportCustom, exportCSV, exportJSON, applyScenario, importFile, copyShare, initialScenario });
+  Object.assign(P, { SHAPE_CUSTOM, loadDemo, exportScenario, exportCustom, exportCSV, rankingCSV, exportJSON, applyScenario, importFile, copyShare, initialScenario });
 })();

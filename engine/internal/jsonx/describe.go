@@ -51,12 +51,21 @@ func typeFieldName(s string) (string, bool) {
 	return "", false
 }
 
-// DecodeStrict decodes exactly one JSON value from b into v: unknown
-// fields, trailing data and an empty body are errors. The error names the
-// offending field where it can (see FieldOf).
+// DecodeStrict decodes exactly one JSON value from b into v, strictly and
+// alike under both JSON libraries: unknown fields, keys that match a field
+// only when case or Unicode folds are ignored ("Candidates", "ſolute"),
+// a key repeated in one object, a null or empty body and trailing data are
+// errors. The error names the offending field where it can (see FieldOf).
 func DecodeStrict(b []byte, v any) error {
-	if len(bytes.TrimSpace(b)) == 0 {
+	t := bytes.TrimSpace(b)
+	if len(t) == 0 {
 		return errors.New("empty request body: a JSON object is expected")
+	}
+	if string(t) == "null" {
+		return ErrNull
+	}
+	if err := checkKeys(t, v); err != nil {
+		return err
 	}
 	dec := NewDecoder(bytes.NewReader(b))
 	dec.DisallowUnknownFields()
@@ -87,7 +96,14 @@ func DecodeStrict(b []byte, v any) error {
 func FieldOf(err error) (field, msg string) {
 	var uf *UnknownFieldError
 	if errors.As(err, &uf) {
-		return uf.Path, fmt.Sprintf("unknown field %q", uf.Path)
+		return uf.Path, uf.Error()
+	}
+	var dk *DuplicateKeyError
+	if errors.As(err, &dk) {
+		return dk.Path, dk.Error()
+	}
+	if errors.Is(err, ErrNull) {
+		return "", err.Error()
 	}
 	s := err.Error()
 	s = strings.TrimPrefix(s, "json: ")
@@ -108,10 +124,20 @@ func FieldOf(err error) (field, msg string) {
 }
 
 // UnknownFieldError names a field the request type does not have, by its
-// full path in the document (e.g. "membrane.s_mm").
-type UnknownFieldError struct{ Path string }
+// full path in the document (e.g. "membrane.s_mm"); Hint is the field it
+// matches when case is ignored (keys are matched exactly).
+type UnknownFieldError struct{ Path, Hint string }
 
-func (e *UnknownFieldError) Error() string { return fmt.Sprintf("unknown field %q", e.Path) }
+func (e *UnknownFieldError) Error() string {
+	if e.Hint != "" {
+		return fmt.Sprintf("unknown field %q (keys are matched exactly: did you mean %q?)", e.Path, e.Hint)
+	}
+	return fmt.Sprintf("unknown field %q", e.Path)
+}
+
+// ErrNull is DecodeStrict's error for a body that is JSON null: a request
+// must be a JSON object ({} takes every default), never null.
+var ErrNull = errors.New("the request is null: a JSON object is expected ({} takes every default)")
 
 // keyPath finds the first object key equal to key in document order of a
 // depth-first walk (objects' keys sorted, for a deterministic answer) and
