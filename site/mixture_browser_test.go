@@ -67,7 +67,7 @@ func TestPageBlend(t *testing.T) {
 	b.do(t, chromedp.SetValue(chromedp.CSS(`#blend-parts tr:nth-child(2) [data-part="share"]`), "1"),
 		chromedp.Click(chromedp.CSS(`#blend-form button[type=submit]`)))
 	b.waitFor(t, fmt.Sprintf(`!!document.querySelector('#blend-list li[data-blend=%q]')`, id))
-	run = b.waitRun(t, run)
+	b.waitRun(t, run)
 	if !eval[bool](t, b, fmt.Sprintf(`!!document.querySelector('#ranking tbody tr[data-solute=%q]')`, id)) {
 		t.Fatalf("the blend is not in the ranked table")
 	}
