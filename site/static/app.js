@@ -213,7 +213,15 @@
     }
     const engine = new window.DrawsiftEngine();
     state.engine = engine;
-    engine.onstatus = s => P.status(s === "ready" ? "Engine " + engine.version + " ready" : "Restarting the engine…");
+    engine.onstatus = (s, why) => {
+      if (s === "failed") {
+        P.status("Engine failed", true);
+        P.banner(why);
+        document.body.dataset.engine = "failed";
+        return;
+      }
+      P.status(s === "ready" ? "Engine " + engine.version + " ready" : "Restarting the engine…");
+    };
     try {
       await engine.start();
     } catch (e) {

@@ -28,6 +28,9 @@
       this.pending = new Map();
       this.seq = 0;
       this.version = null;
+      // broken holds why the engine cannot be used (a restart that failed
+      // or found another engine version); every call then fails with it.
+      this.broken = null;
       this.onstatus = () => {};
     }
 
@@ -62,6 +65,8 @@
       w.onmessage = ev => this.message(ev.data);
       this.version = v;
       if (v !== expected) {
+        this.broken = new Error("The engine (version " + v + ") does not match this page (version " + expected +
+          "). Reload the page; if that does not help, clear this site's stored data.");
         throw new Error("The engine (version " + v + ") does not match this page (version " + expected +
           "). Reload the page; if that does not help, clear this site's stored data.");
       }
@@ -84,6 +89,7 @@
     // onProgress(fraction), and signal (an AbortSignal) to cancel.
     call(op, body, opts) {
       opts = opts || {};
+      if (this.broken) return Promise.resolve({ ok: false, data: { error: { field: "", message: this.broken.message } } });
       const id = "r" + (++this.seq);
       return new Promise((resolve, reject) => {
         this.pending.set(id, { resolve, reject, onProgress: opts.onProgress });
@@ -112,7 +118,12 @@
       this.pending.clear();
       if (old) old.terminate();
       this.onstatus("restarting");
-      return this.start().then(v => { this.onstatus("ready"); return v; });
+      // Every restart checks the version again (start does); a failure is
+      // reported, never left as an unhandled rejection.
+      return this.start().then(v => { this.onstatus("ready"); return v; }, e => {
+        this.broken = this.broken || e;
+        this.onstatus("failed", this.broken.message);
+      });
     }
   }
 

@@ -61,13 +61,13 @@
     if (shape && shape.object) {
       if (v === null || typeof v !== "object" || Array.isArray(v)) throw new ShapeError(path, "must be an object");
       for (const k of Object.keys(v)) {
-        if (!(k in shape.object)) {
+        if (!Object.prototype.hasOwnProperty.call(shape.object, k)) {
           throw new ShapeError(path ? path + "." + k : k, "is not a known field" +
             (shape.hint ? " (known: " + Object.keys(shape.object).join(", ") + ")" : ""));
         }
         check(v[k], shape.object[k], path ? path + "." + k : k);
       }
-      for (const k of shape.required || []) if (!(k in v)) throw new ShapeError(path ? path + "." + k : k, "is required");
+      for (const k of shape.required || []) if (!Object.prototype.hasOwnProperty.call(v, k)) throw new ShapeError(path ? path + "." + k : k, "is required");
       return;
     }
     throw new Error("bad shape at " + path);
@@ -94,10 +94,34 @@
     const raw = new TextEncoder().encode(JSON.stringify(obj));
     return "z" + b64url(await pipe(raw, new CompressionStream("deflate-raw")));
   }
+  // MAX_SHARE_BYTES bounds what a link may expand to: a scenario with its
+  // custom solutes is a few kilobytes, so 2 MB (the import file limit) is
+  // ample, and a crafted link that inflates a thousandfold is stopped
+  // while it is read, not after.
+  const MAX_SHARE_BYTES = 2 * 1024 * 1024;
+  async function inflateBounded(bytes, limit) {
+    const reader = new Blob([bytes]).stream().pipeThrough(new DecompressionStream("deflate-raw")).getReader();
+    const parts = [];
+    let n = 0;
+    for (;;) {
+      const { done, value } = await reader.read();
+      if (done) break;
+      n += value.length;
+      if (n > limit) {
+        await reader.cancel();
+        throw new Error("the link expands past " + limit / (1024 * 1024) + " MB; a scenario is far smaller");
+      }
+      parts.push(value);
+    }
+    const out = new Uint8Array(n);
+    let at = 0;
+    for (const p of parts) { out.set(p, at); at += p.length; }
+    return out;
+  }
   async function decodeShare(s) {
     if (s.length > 200000) throw new Error("the link is too long");
     let bytes;
-    if (s[0] === "z") bytes = await pipe(unb64url(s.slice(1)), new DecompressionStream("deflate-raw"));
+    if (s[0] === "z") bytes = await inflateBounded(unb64url(s.slice(1)), MAX_SHARE_BYTES);
     else throw new Error("the link's format is not recognised");
     return JSON.parse(new TextDecoder().decode(bytes));
   }
