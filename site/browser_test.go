@@ -1088,6 +1088,13 @@ func TestPageCustomSolute(t *testing.T) {
 	if eval[bool](t, b, `!!document.querySelector('#lib-list li[data-solute="Draw-X"]')`) {
 		t.Fatal("a refused solute joined the library")
 	}
+	// A π of 1e308 bar (it would break every later screen) is refused with the engine's bound.
+	fill("cs-table", "0.5, 24\n1.0, 1e308")
+	b.do(t, chromedp.Evaluate[chromedp.Void](`document.getElementById("cs-error").textContent = ""`), chromedp.Click(chromedp.CSS(`#custom-form button[type=submit]`)))
+	b.waitFor(t, `document.getElementById("cs-error").textContent !== ""`)
+	if msg := eval[string](t, b, `document.getElementById("cs-error").textContent`); !strings.Contains(msg, "10000 bar") {
+		t.Errorf("π of 1e308 bar: message %q", msg)
+	}
 	fill("cs-table", "# c (mol/kg), π (bar)\n0.5, 24.1\n1.0, 49.5\n1.5, 76.0\n2.0, 104")
 	b.do(t, chromedp.Click(chromedp.CSS(`#custom-form button[type=submit]`)))
 	b.waitFor(t, `!!document.querySelector('#lib-list li[data-solute="Draw-X"] input:checked')`)

@@ -102,6 +102,9 @@
       if (parts.length !== 2) throw new Error("line " + (i + 1) + ": expected two numbers (concentration, π), got “" + line.slice(0, 40) + "”");
       const c = Number(parts[0]), p = Number(parts[1]);
       if (!isFinite(c) || !isFinite(p) || c <= 0 || p <= 0) throw new Error("line " + (i + 1) + ": numbers must be finite and > 0");
+      // The engine's own bounds on a table's concentrations and pressures.
+      if (!P.inLimit("concentration", c)) throw new Error("line " + (i + 1) + ": concentration " + c + " is outside " + P.limitText("concentration"));
+      if (!P.inLimit("basis.osmotic_pressure_bar", p)) throw new Error("line " + (i + 1) + ": π " + p + " bar is outside " + P.limitText("basis.osmotic_pressure_bar"));
       if (pts.length && c <= pts[pts.length - 1].concentration) throw new Error("line " + (i + 1) + ": concentrations must increase");
       if (pts.length && p <= pts[pts.length - 1].osmotic_pressure_bar) throw new Error("line " + (i + 1) + ": osmotic pressure must increase with concentration");
       pts.push({ concentration: c, osmotic_pressure_bar: p });
