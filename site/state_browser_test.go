@@ -78,3 +78,70 @@ func TestPageRestartChecksVersion(t *testing.T) {
 		t.Errorf("after a restart with another version: %q", got)
 	}
 }
+
+// TestPageNeverLosesWork: loading the demo, opening a share link and an
+// unreadable saved scenario each keep the scenario they push aside and
+// offer it back in one step; two tabs adding custom solutes keep both.
+func TestPageNeverLosesWork(t *testing.T) {
+	b, run := openServed(t)
+	url := eval[string](t, b, `location.href.replace(/#.*$/, "")`)
+	set := func(id, v string) {
+		b.do(t, chromedp.Evaluate[chromedp.Void](`(e => { e.value = "`+v+`"; e.dispatchEvent(new Event("input", {bubbles: true})); })(document.getElementById("`+id+`"))`))
+	}
+	stored := func() float64 {
+		sc := pageScenario(t, b)
+		v, _ := sc["temperature_c"].(float64)
+		return v
+	}
+	set("temp", "33")
+	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).temperature_c === 33`)
+	run = b.waitRun(t, run)
+	// The demo replaces it; one click brings it back.
+	b.do(t, chromedp.Click(chromedp.ID("btn-demo")))
+	b.waitFor(t, `!document.getElementById("undo").hidden && JSON.parse(localStorage.getItem("drawsift.scenario.v1")).temperature_c !== 33`)
+	run = b.waitRun(t, run)
+	b.do(t, chromedp.Click(chromedp.ID("btn-undo")))
+	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).temperature_c === 33`)
+	b.waitRun(t, run)
+	if v := eval[string](t, b, `document.getElementById("temp").value`); v != "33" {
+		t.Errorf("after undo the form shows %q °C", v)
+	}
+	// A share link of another scenario: shown, the saved one kept.
+	frag := eval[string](t, b, `window.DrawsiftStore.encodeShare({"candidates": ["NaCl", "KCl"], "temperature_c": 21})`)
+	b.do(t, chromedp.Navigate(url+"#s="+frag))
+	b.do(t, chromedp.Reload())
+	b.waitRun(t, "")
+	if stored() != 21 || !strings.Contains(eval[string](t, b, `document.getElementById("undo-text").textContent`), "kept") {
+		t.Fatalf("the link's scenario: stored %v, undo %q", stored(), eval[string](t, b, `document.getElementById("undo-text").textContent`))
+	}
+	b.do(t, chromedp.Click(chromedp.ID("btn-undo")))
+	b.waitFor(t, `JSON.parse(localStorage.getItem("drawsift.scenario.v1")).temperature_c === 33`)
+	// An unreadable saved scenario is kept aside, said, and downloadable.
+	b.do(t, chromedp.Navigate(url),
+		chromedp.Evaluate[chromedp.Void](`localStorage.setItem("drawsift.scenario.v1", JSON.stringify({"temperature_c": "warm"}))`),
+		chromedp.Reload())
+	b.waitRun(t, "")
+	if msg := eval[string](t, b, `document.getElementById("undo").hidden ? "" : document.getElementById("undo-text").textContent`); !strings.Contains(msg, "could not be read") {
+		t.Errorf("unreadable saved scenario: %q", msg)
+	}
+	if got := eval[string](t, b, `localStorage.getItem("drawsift.scenario.backup.v1")`); !strings.Contains(got, "warm") {
+		t.Errorf("the unreadable scenario is not kept: %q", got)
+	}
+	// Two tabs add custom solutes; both stay.
+	ctx2, cancel := chromedp.NewContext(b.ctx)
+	defer cancel()
+	b2 := &browserSession{ctx: ctx2}
+	b2.do(t, chromedp.Navigate(url))
+	b2.waitFor(t, `document.body.dataset.engine === "ready" && !!document.body.dataset.run`)
+	add := func(s *browserSession, id string) {
+		s.do(t, chromedp.Evaluate[chromedp.Void](`(P => { P.state.custom.push({"id": "`+id+`", "molar_mass_g_per_mol": 100, "van_t_hoff_factor": 2, "diffusivity_m2_per_s": 1e-9, "miscible": true, "source": "test"}); P.saveCustom(); })(window.DrawsiftPage)`))
+	}
+	add(b2, "Tab-B")
+	b.waitFor(t, `window.DrawsiftPage.state.custom.some(c => c.id === "Tab-B")`)
+	add(b, "Tab-A")
+	b2.waitFor(t, `window.DrawsiftPage.state.custom.some(c => c.id === "Tab-A")`)
+	ids := eval[[]string](t, b, `JSON.parse(localStorage.getItem("drawsift.custom-solutes.v1")).map(c => c.id)`)
+	if !strings.Contains(strings.Join(ids, ","), "Tab-A") || !strings.Contains(strings.Join(ids, ","), "Tab-B") {
+		t.Errorf("stored custom solutes %v, want both tabs' additions", ids)
+	}
+}

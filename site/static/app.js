@@ -257,6 +257,7 @@
     P.renderLibrary();
     P.buildSolutionPanel();
     state.ready = true;
+    if (init.note) P.offer(...init.note);
     await runScreen();
   }
 

@@ -49,7 +49,7 @@
   const state = {
     scenario: null, custom: [], prefs: { pressure: "bar", flux: "LMH", sflux: "gMH", plotCount: "5", cmax: 3, tab: "ranking" },
     library: [], membranes: [], feeds: [], result: null, robust: null, runSeq: 0, sort: null, current: null,
-    engine: null, ready: false, plots: {}, sweep: null, defaults: null, edits: 0, stale: false, basisText: "",
+    engine: null, ready: false, plots: {}, sweep: null, defaults: null, edits: 0, stale: false, basisText: "", customRemoved: new Set(),
   };
 
   // ---- small helpers --------------------------------------------------------

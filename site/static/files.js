@@ -115,8 +115,62 @@
     return o;
   }
 
+  // ---- nothing the user made is lost: backups and undo ------------------------
+  // KEY_BACKUP holds the scenario a replace (the demo, an import, a share
+  // link, an undo) pushed aside; the undo bar restores it in one step.
+  const KEY_BACKUP = "drawsift.scenario.backup.v1";
+  // offer shows the undo bar: what happened and one action.
+  function offer(text, label, action) {
+    P.$("undo-text").textContent = text;
+    const b = P.$("btn-undo");
+    b.textContent = label;
+    b.onclick = () => { P.$("undo").hidden = true; action(); };
+    P.$("undo").hidden = false;
+  }
+  function keepBackup(prev, what) {
+    if (!prev) return;
+    S.save(KEY_BACKUP, prev);
+    offer(what + " replaced your scenario; the previous one is kept.", "Restore the previous scenario", restoreBackup);
+  }
+  async function restoreBackup() {
+    const b = S.load(KEY_BACKUP);
+    try {
+      validateScenario(b);
+      await applyScenario(b, "The restored scenario");
+    } catch (e) {
+      P.banner("The previous scenario could not be restored: " + e.message);
+    }
+  }
+  // saveCustom stores the custom solutes, merged item by item with what
+  // another tab may have stored meanwhile (its additions kept, this tab's
+  // removals honoured).
+  function saveCustom() {
+    mergeCustom(S.load(S.KEY_CUSTOM));
+    S.save(S.KEY_CUSTOM, state.custom);
+  }
+  function mergeCustom(stored) {
+    if (!Array.isArray(stored)) return false;
+    let added = false;
+    for (const c of stored) {
+      const k = String(c && c.id).toLowerCase();
+      if (state.customRemoved.has(k) || state.custom.some(x => x.id.toLowerCase() === k)) continue;
+      try { S.check(c, SHAPE_CUSTOM, "custom"); } catch (e) { continue; }
+      state.custom.push(c);
+      added = true;
+    }
+    return added;
+  }
+  // Another tab stored its custom solutes: take its additions.
+  window.addEventListener("storage", ev => {
+    if (ev.key !== S.KEY_CUSTOM || !state.ready) return;
+    let v = null;
+    try { v = JSON.parse(ev.newValue); } catch (e) { return; }
+    if (mergeCustom(v)) { P.fillPresets(); P.renderLibrary(); }
+  });
+
   // applyScenario replaces the scenario (and adds its custom solutes to
-  // the user's library) once the engine accepts it.
+  // the user's library) once the engine accepts it; the one it replaces is
+  // kept for undo.
   async function applyScenario(sc, origin) {
     const r = await state.engine.call("screen", P.engineScenario(sc, false));
     if (!r.ok) {
@@ -129,7 +183,8 @@
     for (const c of sc.custom_solutes || []) {
       if (!state.custom.some(x => x.id.toLowerCase() === c.id.toLowerCase())) state.custom.push(c);
     }
-    S.save(S.KEY_CUSTOM, state.custom);
+    saveCustom();
+    keepBackup(state.scenario, origin);
     P.setScenario(sc);
     P.fillPresets();
     P.writeForm(sc);
@@ -150,7 +205,7 @@
         for (const c of list) if (state.library.some(s => s.id.toLowerCase() === c.id.toLowerCase())) throw new S.ShapeError("drawsift_custom_solutes", "“" + c.id + "” is already a library solute");
         let added = 0;
         for (const c of list) if (!state.custom.some(x => x.id.toLowerCase() === c.id.toLowerCase())) { state.custom.push(c); added++; }
-        S.save(S.KEY_CUSTOM, state.custom);
+        saveCustom();
         P.fillPresets(); P.writeForm(state.scenario); P.renderLibrary();
         P.banner("");
         P.$("engine-status").textContent = "Added " + added + " custom solute(s) from “" + file.name + "”.";
@@ -180,19 +235,33 @@
   // one, else the demo ------------------------------------------------------------------
   async function initialScenario() {
     const m = /^#s=(.+)$/.exec(location.hash);
+    const saved = S.load(S.KEY_SCENARIO);
     if (m) {
       try {
-        return { sc: validateScenario(await S.decodeShare(m[1])), from: "link" };
+        const sc = validateScenario(await S.decodeShare(m[1]));
+        // The link's scenario is shown; the one saved here is kept.
+        if (saved && JSON.stringify(saved) !== JSON.stringify(sc)) {
+          S.save(KEY_BACKUP, saved);
+          return { sc: sc, from: "link", note: ["The share link's scenario is shown; the one you had saved here is kept.", "Restore my saved scenario", restoreBackup] };
+        }
+        return { sc: sc, from: "link" };
       } catch (e) {
         P.banner("The share link could not be read (" + e.message + "); your last scenario is shown instead.");
       }
     }
-    const saved = S.load(S.KEY_SCENARIO);
     if (saved) {
-      try { return { sc: validateScenario(saved), from: "storage" }; } catch (e) { /* an old or damaged entry: fall back to the demo */ }
+      try {
+        return { sc: validateScenario(saved), from: "storage" };
+      } catch (e) {
+        // Never silently replaced: kept aside, said, and downloadable.
+        S.save(KEY_BACKUP, saved);
+        return { sc: validateScenario(await loadDemo()), from: "demo",
+          note: ["Your saved scenario could not be read (" + e.message + "); the demo is shown and the saved one is kept.",
+            "Save the unreadable scenario as a file", () => S.download("drawsift-unreadable-scenario.json", JSON.stringify(saved, null, 2) + "\n")] };
+      }
     }
     return { sc: validateScenario(await loadDemo()), from: "demo" };
   }
 
-  Object.assign(P, { SHAPE_CUSTOM, loadDemo, exportScenario, exportCustom, exportCSV, rankingCSV, exportJSON, applyScenario, importFile, copyShare, initialScenario });
+  Object.assign(P, { SHAPE_CUSTOM, saveCustom, offer, loadDemo, exportScenario, exportCustom, exportCSV, rankingCSV, exportJSON, applyScenario, importFile, copyShare, initialScenario });
 })();

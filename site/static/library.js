@@ -156,7 +156,8 @@
       if (rg.length) cs.regeneration = rg;
       cs.source = $("cs-source").value.trim() || "user-defined (no source given)";
       state.custom.push(prune(cs));
-      S.save(S.KEY_CUSTOM, state.custom);
+      state.customRemoved.delete(id.toLowerCase());
+      P.saveCustom();
       $("custom-form").reset();
       P.fillPresets();
       P.writeForm(state.scenario);
@@ -176,7 +177,8 @@
       return;
     }
     state.custom = state.custom.filter(c => c.id !== id);
-    S.save(S.KEY_CUSTOM, state.custom);
+    state.customRemoved.add(id.toLowerCase());
+    P.saveCustom();
     toggleCandidate(id, false);
     clear($("lib-detail")).appendChild(h("p", { class: "hint", text: id + " was removed from your library." }));
     renderLibrary();
