@@ -147,20 +147,9 @@ func (s *scanner) value(t reflect.Type, depth int) {
 			if s.stop() {
 				return
 			}
-			s.ws()
-			if s.i >= len(s.b) {
-				s.bad = true
+			if !s.more(']') {
 				return
 			}
-			if s.b[s.i] == ']' {
-				s.i++
-				return
-			}
-			if s.b[s.i] != ',' {
-				s.bad = true
-				return
-			}
-			s.i++
 		}
 	case '"':
 		if _, ok := s.str(); !ok {
@@ -287,21 +276,29 @@ func (s *scanner) object(t reflect.Type, depth int) {
 			return
 		}
 		s.path = s.path[:len(s.path)-1]
-		s.ws()
-		if s.i >= len(s.b) {
-			s.bad = true
+		if !s.more('}') {
 			return
 		}
-		if s.b[s.i] == '}' {
-			s.i++
-			return
-		}
-		if s.b[s.i] != ',' {
-			s.bad = true
-			return
-		}
-		s.i++
 	}
+}
+
+// more reads what follows a member of an array or object: a comma (true:
+// another member follows) or the closing bracket (false); anything else,
+// or the end of the input, marks the document bad (false).
+func (s *scanner) more(closing byte) bool {
+	s.ws()
+	switch {
+	case s.i >= len(s.b):
+		s.bad = true
+	case s.b[s.i] == closing:
+		s.i++
+	case s.b[s.i] == ',':
+		s.i++
+		return true
+	default:
+		s.bad = true
+	}
+	return false
 }
 
 // foldHint names the field a key matches only when case is folded.
