@@ -61,11 +61,7 @@ func BenchmarkScreenBlends(b *testing.B) {
 // BenchmarkRobustness: 1,000 Monte Carlo samples over 25 candidates
 // (design budget: < 1 s native, < 2 s wasm).
 func BenchmarkRobustness(b *testing.B) {
-	sc := baseScenario(b)
-	sc.Feed = seawaterFeed(b)
-	sc.Basis = Basis{Kind: BasisOsmoticPressure, MultipleOfFeed: 2}
-	sc.AllowExtrapolation = true
-	sc.Uncertainty = &Uncertainty{Samples: 1000, ARelSD: .1, BRelSD: .3, SRelSD: .15, DefaultOsmotic: true, DiffusivityRelSD: .05, Prices: true}
+	sc := robustScenario(b, 1000)
 	r, err := Run(context.Background(), sc, lib(b), nil)
 	if err != nil {
 		b.Fatal(err)

@@ -69,3 +69,15 @@ func seawaterFeed(t testing.TB) Feed {
 	feed.Ions = f.IonsAt(35)
 	return feed
 }
+
+// robustScenario is the whole library against seawater at twice its π,
+// with the stated uncertainties over samples Monte Carlo samples: the
+// robustness benchmark's scenario, shared with its tests.
+func robustScenario(t testing.TB, samples int) *Scenario {
+	sc := baseScenario(t)
+	sc.Feed = seawaterFeed(t)
+	sc.Basis = Basis{Kind: BasisOsmoticPressure, MultipleOfFeed: 2}
+	sc.AllowExtrapolation = true
+	sc.Uncertainty = &Uncertainty{Samples: samples, ARelSD: .1, BRelSD: .3, SRelSD: .15, DefaultOsmotic: true, DiffusivityRelSD: .05, Prices: true}
+	return sc
+}

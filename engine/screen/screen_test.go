@@ -597,11 +597,7 @@ func TestRobustnessWorkersIdentical(t *testing.T) {
 	var want []Ranked
 	for _, w := range []int{1, 2, 5} {
 		robustWorkers = func() int { return w }
-		sc := baseScenario(t)
-		sc.Feed = seawaterFeed(t)
-		sc.Basis = Basis{Kind: BasisOsmoticPressure, MultipleOfFeed: 2}
-		sc.AllowExtrapolation = true
-		sc.Uncertainty = &Uncertainty{Samples: 601, ARelSD: .1, BRelSD: .3, SRelSD: .15, DefaultOsmotic: true, DiffusivityRelSD: .05, Prices: true}
+		sc := robustScenario(t, 601)
 		r, err := Run(context.Background(), sc, lib(t), nil)
 		if err != nil {
 			t.Fatal(err)
