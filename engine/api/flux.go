@@ -3,6 +3,7 @@ package api
 import (
 	"drawsift/engine/library"
 	"drawsift/engine/scenario"
+	"drawsift/engine/species"
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
 	"drawsift/engine/warn"
@@ -19,7 +20,30 @@ type ChannelSpec = scenario.ChannelSpec
 // FluxRequest is the contract's flux request (scenario.FluxSpec).
 type FluxRequest = scenario.FluxSpec
 
-// SpeciesProfile reports one solute's concentrations across the membrane.
+// SpeciesFlux reports one transport species (an ion, or a neutral
+// solute) of the draw or the feed, by identity.
+type SpeciesFlux struct {
+	Species string `json:"species"`
+	Charge  int    `json:"charge"`
+	Role    string `json:"role"` // "draw", "feed" or "both"
+	// Flux is the net flux, positive from feed to draw (negative toward
+	// the feed).
+	FluxMmolPerM2H float64 `json:"flux_mmol_per_m2_h"`
+	FluxGMH        float64 `json:"flux_gmh"`
+	// ToFeedGMH and ToDrawGMH are the one-way fluxes through the active
+	// layer (their difference is the net flux).
+	ToFeedGMH float64 `json:"to_feed_gmh"`
+	ToDrawGMH float64 `json:"to_draw_gmh"`
+	BLMH      float64 `json:"b_lmh"`
+	BOrigin   string  `json:"b_origin"`
+	// IngressMmolPerLWater: for a species entering the draw, the amount
+	// it carries in per litre of water drawn — in a closed draw loop whose
+	// regeneration holds it back, the loop's inventory grows by this much
+	// for each litre of product.
+	IngressMmolPerLWater float64 `json:"ingress_mmol_per_l_water"`
+}
+
+// SpeciesProfile reports one species' concentrations across the membrane.
 type SpeciesProfile struct {
 	Solute             string  `json:"solute"`
 	Role               string  `json:"role"` // "draw", "feed" or "draw+feed"
@@ -65,9 +89,20 @@ type FluxResponse struct {
 	ReverseSoluteFluxMmolPerM2H      float64 `json:"reverse_solute_flux_mmol_per_m2_h"`
 	SpecificReverseSoluteFluxGPerL   float64 `json:"specific_reverse_solute_flux_g_per_l"`
 	SpecificReverseSoluteFluxMolPerL float64 `json:"specific_reverse_solute_flux_mol_per_l"`
-	// ForwardSoluteFluxGMH is the feed solute's flux into the draw, when
-	// the feed holds a different solute.
-	ForwardSoluteFluxGMH       *float64           `json:"forward_solute_flux_gmh,omitempty"`
+	// ReverseSoluteFlux* and SpecificReverseSoluteFlux* are net: the mass
+	// of the draw's species that leaves it net (NetDrawLossGPerL is the
+	// same per litre); the gross values count the one-way flux toward
+	// the feed.
+	NetDrawLossGPerL          float64 `json:"net_draw_loss_g_per_l"`
+	GrossDrawLossGPerL        float64 `json:"gross_draw_loss_g_per_l"`
+	GrossReverseSoluteFluxGMH float64 `json:"gross_reverse_solute_flux_gmh"`
+	// ForwardSoluteFluxGMH is the mass of the feed's own species (those the
+	// draw does not hold) entering the draw, when the feed holds any.
+	ForwardSoluteFluxGMH *float64 `json:"forward_solute_flux_gmh,omitempty"`
+	// MembranePotentialMV is the electric potential of the feed face over
+	// the draw face that keeps the ion fluxes free of current.
+	MembranePotentialMV        float64            `json:"membrane_potential_mv"`
+	Species                    []SpeciesFlux      `json:"species"`
 	DrawOsmoticPressureBar     float64            `json:"draw_osmotic_pressure_bar"`
 	FeedOsmoticPressureBar     float64            `json:"feed_osmotic_pressure_bar"`
 	DrawFaceOsmoticPressureBar float64            `json:"draw_face_osmotic_pressure_bar"`
@@ -110,7 +145,9 @@ var fluxSources = []Source{
 	{Field: "model", Reference: "Tiraferri, Yip, Phillip, Schiffman & Elimelech (2011) J. Membr. Sci. 367:340; Tiraferri et al. (2013) J. Membr. Sci. 444:523 (water and reverse solute flux with ICP and ECP)"},
 	{Field: "model.icp", Reference: "McCutcheon & Elimelech (2006) J. Membr. Sci. 284:237 (ICP, K = S/D)"},
 	{Field: "model.delta_p", Reference: "Yip et al. (2011) Environ. Sci. Technol. 45:4360 (PRO with hydraulic pressure)"},
-	{Field: "model.mixture", Reference: "additive osmotic pressure at each face: each solute's own non-ideal π at its own concentration (exact in the van 't Hoff limit)"},
+	{Field: "model.ions", Reference: "species by identity: every ion crosses the active layer by the Goldman constant-field solution–diffusion–electromigration flux with zero electric current (Goldman 1943; Hodgkin & Katz 1949; bidirectional electrolyte permeation in FO: Hancock, Phillip, Elimelech & Cath 2011, Environ. Sci. Technol. 45:10642); ions of a layer share one diffusivity; no fixed membrane charge"},
+	{Field: "model.mixture", Reference: "osmotic pressure at each face by Young's mixing rule at equal total osmolarity over the draw's and the feed's own non-ideal models (exact for one solution and in the van 't Hoff limit)"},
+	{Field: "model.b", Reference: library.HinderedRule},
 	{Field: "model.interfaces", Reference: "interface concentrations from the exponential profiles, then π from the real model (never a non-ideal π times the exponentials)"},
 }
 
@@ -124,7 +161,7 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 	if err != nil {
 		return nil, fromEngine("", err)
 	}
-	in, draw, feed, mem, deltaP := &f.Input, f.Draw, f.Feed, f.Membrane, f.DeltaPBar
+	in, draw, mem, deltaP := &f.Input, f.Draw, f.Membrane, f.DeltaPBar
 	resp := &FluxResponse{Orientation: in.Orientation.String(), OsmoticModel: f.Model.String(), TemperatureC: f.TemperatureK - thermo.ZeroCelsiusK,
 		DeltaPBar: deltaP, Cautions: ScreenCautions, EngineVersion: EngineVersion}
 	resp.Membrane = MembraneReport{ALMHPerBar: mem.AMPerSPa / thermo.MPerSPaPerLMHPerBar, BLMH: f.BDrawMPerS / thermo.MPerSPerLMH, SUM: mem.SM / thermo.MPerUM}
@@ -142,17 +179,22 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 	}
 	resp.KDraw, resp.KFeed = kReport(f.KDraw), kReport(f.KFeed)
 
-	// Outputs.
+	// Outputs: the draw's loss is net over its species (a species the feed
+	// also holds may come back).
 	jwLMH := res.JwMPerS / thermo.MPerSPerLMH
-	js := res.JsMolPerM2S // mol m⁻² s⁻¹, draw → feed
 	mDraw := draw.X.MolarMassKgPerMol()
+	loss := f.Layout.LossesAt(in, &res, mDraw)
 	resp.WaterFluxLMH = jwLMH
-	resp.ReverseSoluteFluxMmolPerM2H = js * thermo.MmolPerM2HPerMolPerM2S
-	resp.ReverseSoluteFluxGMH = js * mDraw * thermo.GPerM2HPerKgPerM2S
+	resp.ReverseSoluteFluxMmolPerM2H = loss.NetFormulaMolPerM2S * thermo.MmolPerM2HPerMolPerM2S
+	resp.ReverseSoluteFluxGMH = loss.NetKgPerM2S * thermo.GPerM2HPerKgPerM2S
+	resp.GrossReverseSoluteFluxGMH = loss.GrossKgPerM2S * thermo.GPerM2HPerKgPerM2S
 	if res.JwMPerS != 0 {
-		resp.SpecificReverseSoluteFluxMolPerL = js / res.JwMPerS / 1000
-		resp.SpecificReverseSoluteFluxGPerL = js * mDraw / res.JwMPerS
+		resp.SpecificReverseSoluteFluxMolPerL = loss.NetFormulaMolPerM2S / res.JwMPerS / 1000
+		resp.SpecificReverseSoluteFluxGPerL = loss.NetKgPerM2S / res.JwMPerS
+		resp.NetDrawLossGPerL = resp.SpecificReverseSoluteFluxGPerL
+		resp.GrossDrawLossGPerL = loss.GrossKgPerM2S / res.JwMPerS
 	}
+	resp.MembranePotentialMV = res.Potential * thermo.GasConstant * f.TemperatureK / thermo.Faraday * 1e3
 	resp.DrawOsmoticPressureBar = res.PiDrawBulkPa / thermo.PascalPerBar
 	resp.FeedOsmoticPressureBar = res.PiFeedBulkPa / thermo.PascalPerBar
 	resp.DrawFaceOsmoticPressureBar = res.PiDrawFacePa / thermo.PascalPerBar
@@ -170,15 +212,31 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 		w := res.JwMPerS * deltaP * thermo.PascalPerBar
 		resp.PowerDensityWPerM2 = &w
 	}
-	role := "draw"
-	if f.SameSolute && feed.CSI > 0 {
-		role = "draw+feed"
+	var feedOnly bool
+	var fwd float64
+	for i, info := range f.Layout.Info {
+		r, sp := res.Species[i], in.Species[i]
+		toFeed, toDraw := transport.OneWay(in, &res, i)
+		g := info.MolarMassKgPerMol * thermo.GPerM2HPerKgPerM2S
+		sf := SpeciesFlux{Species: info.Name, Charge: info.Charge, Role: info.Role,
+			FluxMmolPerM2H: r.FluxMolPerM2S * thermo.MmolPerM2HPerMolPerM2S, FluxGMH: r.FluxMolPerM2S * g,
+			ToFeedGMH: toFeed * g, ToDrawGMH: toDraw * g,
+			BLMH: sp.BMPerS / thermo.MPerSPerLMH, BOrigin: string(info.BOrigin)}
+		if r.FluxMolPerM2S > 0 && res.JwMPerS > 0 {
+			sf.IngressMmolPerLWater = r.FluxMolPerM2S / res.JwMPerS // mol/m³ = mmol/L
+		}
+		resp.Species = append(resp.Species, sf)
+		role := info.Role
+		if role == species.RoleBoth {
+			role = "draw+feed"
+		}
+		resp.Profiles = append(resp.Profiles, profile(info.Name, role, r, sp, sp.BMPerS/thermo.MPerSPerLMH, info.BOrigin.Estimated(), info.MolarMassKgPerMol))
+		if info.Role == species.RoleFeed {
+			feedOnly = true
+			fwd += r.FluxMolPerM2S * g
+		}
 	}
-	resp.Profiles = append(resp.Profiles, profile(draw.Solute.ID, role, res.Species[0], in.Species[0], f.BDrawMPerS/thermo.MPerSPerLMH, f.BDrawEstimated, mDraw))
-	if len(in.Species) == 2 {
-		p := profile(feed.Solute.ID, "feed", res.Species[1], in.Species[1], f.BFeedMPerS/thermo.MPerSPerLMH, f.BFeedEstimated, feed.X.MolarMassKgPerMol())
-		resp.Profiles = append(resp.Profiles, p)
-		fwd := p.FluxGMH
+	if feedOnly {
 		resp.ForwardSoluteFluxGMH = &fwd
 	}
 	resp.Solver = SolverReport{Method: res.Stats.Method, Iterations: res.Stats.Iterations, Evaluations: res.Stats.Evaluations, Residual: res.Stats.Residual}

@@ -90,8 +90,9 @@ func TestFluxTrends(t *testing.T) {
 	}
 }
 
-// A draw and a different feed solute: each crosses with its own B; the
-// seawater feed's salt moves into the draw (forward flux > 0).
+// A draw and a different feed solute: species by identity, each ion with
+// its own B; the seawater feed's own ions (Na⁺, SO₄²⁻, …) move into the
+// draw (forward flux > 0), Mg²⁺ and Cl⁻ are in both.
 func TestFluxTwoSolutes(t *testing.T) {
 	m := fluxOK(t, `{"membrane":{"preset":"tfc-high-flux"},"orientation":"AL-FS",
 		"draw":{"solute":"MgCl2","concentration":2,"unit":"mol/L"},
@@ -100,8 +101,13 @@ func TestFluxTwoSolutes(t *testing.T) {
 	if !ok || !(fwd > 0) {
 		t.Errorf("forward solute flux = %v", m["forward_solute_flux_gmh"])
 	}
-	if p := m["profiles"].([]any); len(p) != 2 {
-		t.Errorf("want two species profiles, got %d", len(p))
+	roles := map[string]string{}
+	for _, s := range m["species"].([]any) {
+		sp := s.(map[string]any)
+		roles[sp["species"].(string)] = sp["role"].(string)
+	}
+	if p := m["profiles"].([]any); len(p) != len(roles) || roles["Mg+2"] != "both" || roles["Cl-"] != "both" || roles["Na+"] != "feed" || roles["SO4-2"] != "feed" {
+		t.Errorf("species roles %v (%d profiles)", roles, len(p))
 	}
 	if fp := num(t, m, "feed_osmotic_pressure_bar"); math.Abs(fp-25.9) > 0.3 {
 		// Sharqawy et al. (2010): 35 g/kg at 25 °C → 25.89 bar.

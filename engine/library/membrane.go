@@ -24,6 +24,8 @@ type Membrane struct {
 	ReferenceTemperatureC float64 `json:"reference_temperature_c"`
 	// BBySolute holds measured B (LMH) for other solutes, keyed by solute ID.
 	BBySolute map[string]float64 `json:"b_by_solute_lmh,omitempty"`
+	// BByIon holds measured B (LMH) for ions, keyed by symbol ("Mg+2").
+	BByIon map[string]float64 `json:"b_by_ion_lmh,omitempty"`
 	// Uncertainty: relative standard deviations used by robustness runs.
 	ARelSD float64 `json:"a_rel_sd"`
 	BRelSD float64 `json:"b_rel_sd"`
@@ -51,6 +53,11 @@ func (m *Membrane) Validate() error {
 			return fmt.Errorf("membrane %q: b_by_solute_lmh[%q] must be ≥ 0", m.ID, k)
 		}
 	}
+	for k, b := range m.BByIon {
+		if !(b >= 0) || math.IsInf(b, 0) {
+			return fmt.Errorf("membrane %q: b_by_ion_lmh[%q] must be ≥ 0", m.ID, k)
+		}
+	}
 	if len(m.Sources) == 0 {
 		return fmt.Errorf("membrane %q: sources are required", m.ID)
 	}
@@ -61,36 +68,37 @@ func (m *Membrane) Validate() error {
 }
 
 // BEstimateRule documents how B is estimated for a solute without a
-// measured value.
-const BEstimateRule = "B scaled from the membrane's NaCl value by the ratio of bulk diffusion coefficients, " +
-	"B_j = B_NaCl·D_j/D_NaCl (solution–diffusion, B = D_m·K/δ, with equal partitioning assumed; common practice). " +
-	"An estimate, and often a pessimistic one: membranes usually reject multivalent ions and larger neutral molecules " +
-	"(sugars) much better than diffusivity alone predicts, so enter measured B values where you have them."
+// measured value (HinderedRule).
+const BEstimateRule = HinderedRule
 
-// SoluteB is a membrane's permeability to each solute: the values
-// measured for some solutes, and the NaCl value that BEstimateRule scales
-// for the rest. Both are in one unit (LMH in a record, m/s in the engine);
-// For answers in that unit.
+// SoluteB is a membrane's permeability to each solute and ion: the values
+// measured for some solutes or ions, and the NaCl value that HinderedRule
+// scales for the rest. All are in one unit (LMH in a record, m/s in the
+// engine); For and Ion answer in that unit.
 type SoluteB struct {
 	NaCl     float64
 	Measured map[string]float64 // by solute ID
+	ByIon    map[string]float64 // by ion symbol
 }
 
 // SoluteB returns the record's B values, in LMH.
-func (m *Membrane) SoluteB() SoluteB { return SoluteB{NaCl: m.BNaClLMH, Measured: m.BBySolute} }
+func (m *Membrane) SoluteB() SoluteB {
+	return SoluteB{NaCl: m.BNaClLMH, Measured: m.BBySolute, ByIon: m.BByIon}
+}
 
-// For returns B for solute s and whether it is an estimate:
+// For returns B for solute s as one unit, and whether it is an estimate:
 //
-//	B_j = B_measured,j                  when the membrane has one
-//	B_j = B_NaCl                        for NaCl
-//	B_j = B_NaCl · D_j / D_NaCl         otherwise (BEstimateRule)
-//
-// with D the infinite-dilution diffusivities of the library records.
+//	B_j = B_measured,j                       when the membrane has one
+//	B_j = B_NaCl                             for NaCl
+//	B_j = SaltB of its two ions' B (Ion)      for a salt of two ions
+//	B_j = B_NaCl · HinderedFactor(D⁰_j)      otherwise (HinderedRule)
 //
 // A blend's B is its parts' B weighted by mass, Σ_k (x_k M_k/M) B_k, which
 // gives the blend's reverse mass flux exactly when the parts share one
-// concentration profile (the transport model's assumption for a blend);
-// it is an estimate when any part's is.
+// concentration profile; it is an estimate when any part's is. The
+// transport model moves ions one by one (Ion); For serves a solute moved
+// as one unit (a feed given by its equivalent NaCl, a custom solute with
+// no ions).
 func (b *SoluteB) For(s *Solute) (v float64, estimated bool) {
 	if v, ok := b.Measured[s.ID]; ok {
 		return v, false
@@ -106,15 +114,13 @@ func (b *SoluteB) For(s *Solute) (v float64, estimated bool) {
 	if Key(s.ID) == "nacl" {
 		return b.NaCl, false
 	}
-	lib, err := Default()
-	if err != nil {
-		return b.NaCl, true
+	if len(s.Ions) == 2 {
+		i0, i1 := s.Ions[0], s.Ions[1]
+		b0, o0 := b.Ion(i0.Symbol, i0.DiffusivityM2PerS)
+		b1, o1 := b.Ion(i1.Symbol, i1.DiffusivityM2PerS)
+		return SaltB(i0.Charge, i1.Charge, b0, b1), o0.Estimated() || o1.Estimated()
 	}
-	nacl, ok := lib.Lookup("NaCl")
-	if !ok || !(nacl.Diffusivity.D0M2PerS > 0) {
-		return b.NaCl, true
-	}
-	return b.NaCl * s.Diffusivity.D0M2PerS / nacl.Diffusivity.D0M2PerS, true
+	return b.NaCl * HinderedFactor(s.Diffusivity.D0M2PerS), true
 }
 
 var membranePresets = presetFile[Membrane]{name: "membranes",

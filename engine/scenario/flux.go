@@ -4,6 +4,7 @@ import (
 	"drawsift/engine/errs"
 	"drawsift/engine/library"
 	"drawsift/engine/limits"
+	"drawsift/engine/species"
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
 	"drawsift/engine/warn"
@@ -72,6 +73,9 @@ type Side struct {
 	CSI    float64 // molarity, mol/m³
 	State  thermo.State
 	Unit   thermo.Unit // the request's unit
+	// Whole: the solute stands in for a feed's ions (equivalent NaCl) and
+	// crosses as one species.
+	Whole bool
 }
 
 // PrepareSide checks one stream's solute and concentration (fields under
@@ -115,7 +119,11 @@ func presetFeed(c *Concentration, tK float64) (*Side, error) {
 	if err != nil {
 		return nil, prefixed("feed", err)
 	}
-	return sideAt("feed", x, m, f.Unit)
+	sd, err := sideAt("feed", x, m, f.Unit)
+	if sd != nil {
+		sd.Whole = f.Surrogate
+	}
+	return sd, err
 }
 
 // PrepareSolution reads one solution (fields under prefix): a solute at
@@ -180,12 +188,16 @@ type Flux struct {
 	Model        OsmoticModel
 	TemperatureK float64
 	DeltaPBar    float64
-	// SameSolute: the feed holds the draw solute (one species).
-	SameSolute                     bool
+	// SameSolute: the feed holds the draw solute.
+	SameSolute bool
+	// BDrawMPerS and BFeedMPerS are each solute's B as one unit (the
+	// report's b_lmh); the transport moves species with their own B.
 	BDrawMPerS, BFeedMPerS         float64
 	BDrawEstimated, BFeedEstimated bool
 	KDraw, KFeed                   SideK
-	Warnings                       []warn.Warning
+	// Layout is the species by identity (ions of both streams).
+	Layout   *species.Transport
+	Warnings []warn.Warning
 }
 
 // ResolveFlux checks a flux request and builds its transport problem:
@@ -273,10 +285,6 @@ func ResolveFlux(req *FluxSpec) (*Flux, error) {
 	if err != nil {
 		return nil, err
 	}
-	if f.BDrawEstimated {
-		f.Warnings = append(f.Warnings, warn.New(warn.BEstimated, draw.Solute.ID, "B for %s is an estimate (%.3g LMH) scaled from the NaCl value by diffusivity",
-			draw.Solute.ID, f.BDrawMPerS/thermo.MPerSPerLMH))
-	}
 
 	// Mass transfer on each side.
 	extCP := req.ExternalCP == nil || *req.ExternalCP
@@ -309,42 +317,45 @@ func ResolveFlux(req *FluxSpec) (*Flux, error) {
 		AMPerSPa: mem.AMPerSPa, SM: mem.SM, Orientation: orient,
 		DeltaPPa: deltaP * thermo.PascalPerBar, KDrawMPerS: f.KDraw.KMPerS, KFeedMPerS: f.KFeed.KMPerS,
 	}
-	species := []transport.Species{{Name: draw.Solute.ID, DrawBulkMolPerM3: draw.CSI, BMPerS: f.BDrawMPerS,
-		DM2PerS: dDraw, Pi: draw.Pi(model, tK)}}
 	// b_feed_lmh is checked even when it is not used (a unit slip is still
 	// a slip); unused, it is kept and flagged rather than refused, so the
 	// request still answers and says which B applied.
+	var feedOver *float64
 	if req.BFeedLMH != nil {
 		if err := limits.FeedB.Check(*req.BFeedLMH); err != nil {
 			return nil, err
 		}
+		b := *req.BFeedLMH * thermo.MPerSPerLMH
+		feedOver = &b
 		switch {
 		case feed.CSI == 0:
 			f.Warnings = append(f.Warnings, warn.New(warn.Unused, "b_feed_lmh", "b_feed_lmh (%g LMH) is not used: the feed holds no solute", *req.BFeedLMH))
 		case f.SameSolute:
 			f.Warnings = append(f.Warnings, warn.New(warn.Unused, "b_feed_lmh",
-				"b_feed_lmh (%g LMH) is not used: the feed solute is the draw solute (%s), which crosses the membrane with one B, the draw's (%.3g LMH, from %s); to change it, set membrane.b_lmh",
+				"b_feed_lmh (%g LMH) is not used: the feed solute is the draw solute (%s), which crosses the membrane with the draw's B (%.3g LMH, from %s); to change it, set membrane.b_lmh",
 				*req.BFeedLMH, draw.Solute.ID, f.BDrawMPerS/thermo.MPerSPerLMH, map[bool]string{true: "an estimate", false: "the membrane"}[f.BDrawEstimated]))
 		}
 	}
-	if f.SameSolute {
-		species[0].FeedBulkMolPerM3 = feed.CSI
-	} else if feed.CSI > 0 {
-		var over *float64
-		if req.BFeedLMH != nil {
-			if err := limits.FeedB.Check(*req.BFeedLMH); err != nil {
-				return nil, err
-			}
-			b := *req.BFeedLMH * thermo.MPerSPerLMH
-			over = &b
-		}
-		if f.BFeedMPerS, f.BFeedEstimated, err = mem.BFor("b_feed_lmh", feed.Solute, over); err != nil {
+	if feed.CSI > 0 && !f.SameSolute {
+		if f.BFeedMPerS, f.BFeedEstimated, err = mem.BFor("b_feed_lmh", feed.Solute, feedOver); err != nil {
 			return nil, err
 		}
-		species = append(species, transport.Species{Name: feed.Solute.ID, FeedBulkMolPerM3: feed.CSI, BMPerS: f.BFeedMPerS,
-			DM2PerS: dFeed, Pi: feed.Pi(model, tK)})
 	}
-	f.Input.Species = species
+	f.Layout, err = species.NewTransport(mem.Permeability(),
+		species.TransportSide{Solute: draw.Solute, Nu: draw.X.Nu(), BMPerS: mem.BGivenMPerS},
+		species.TransportSide{Solute: feed.Solute, Whole: feed.Whole, CMolPerM3: feed.CSI, Nu: feed.X.Nu(), BMPerS: feedOver})
+	if err != nil {
+		return nil, err
+	}
+	for _, in := range f.Layout.Info {
+		if in.BOrigin.Estimated() {
+			f.Warnings = append(f.Warnings, warn.New(warn.BEstimated, in.Name, "B for %s is an estimate (%.3g LMH, hindered diffusion scaled from the NaCl value)",
+				in.Name, in.BMPerS/thermo.MPerSPerLMH))
+		}
+	}
+	f.Input.Species = make([]transport.Species, f.Layout.N())
+	f.Layout.Fill(f.Input.Species, orient, draw.CSI, dDraw, dFeed, 1, draw.Pi(model, tK), feed.Pi(model, tK))
+	f.Input.FacePi = f.Layout.Rule.Pi
 	return f, nil
 }
 
@@ -366,13 +377,10 @@ func (f *Flux) ResultWarnings(res *transport.Result) []warn.Warning {
 			w = append(w, warn.New(warn.Bridged, id, "%s at the %s (%.3g mol/kg) is above the osmotic model's data limit; π there is interpolated to the measured saturated solution", id, where, m))
 		}
 	}
-	sp := res.Species[0]
-	check(f.Draw.X, f.Draw.Solute.ID, sp.FeedFaceMolPerM3, "feed-side face of the active layer")
-	check(f.Draw.X, f.Draw.Solute.ID, sp.DrawFaceMolPerM3, "draw-side face of the active layer")
-	if len(res.Species) == 2 {
-		check(f.Feed.X, f.Feed.Solute.ID, res.Species[1].FeedFaceMolPerM3, "feed-side face of the active layer")
-	}
-	w = append(w, transport.CrossingWarnings(&f.Input, res, f.Draw.Solute.ID)...)
+	check(f.Draw.X, f.Draw.Solute.ID, f.Layout.DrawFeedFace(res), "feed-side face of the active layer")
+	check(f.Draw.X, f.Draw.Solute.ID, f.Layout.DrawDrawFace(res), "draw-side face of the active layer")
+	loss := f.Layout.LossesAt(&f.Input, res, f.Draw.X.MolarMassKgPerMol())
+	w = append(w, transport.CrossingWarnings(&f.Input, res, f.Draw.Solute.ID, loss.NetFormulaMolPerM2S)...)
 	if f.DeltaPBar > 0 && res.JwMPerS < 0 {
 		w = append(w, warn.New(warn.ReverseFlow, "delta_p_bar", "ΔP exceeds the osmotic pressure difference across the membrane: no PRO power is produced"))
 	}

@@ -7,6 +7,7 @@ import (
 	"drawsift/engine/errs"
 	"drawsift/engine/library"
 	"drawsift/engine/limits"
+	"drawsift/engine/species"
 	"drawsift/engine/thermo"
 	"drawsift/engine/warn"
 	"drawsift/engine/water"
@@ -34,6 +35,11 @@ type MembraneSpec struct {
 	ReferenceTemperatureC *float64 `json:"reference_temperature_c,omitempty"`
 	AActivationKJPerMol   *float64 `json:"a_activation_energy_kj_per_mol,omitempty"`
 	BActivationKJPerMol   *float64 `json:"b_activation_energy_kj_per_mol,omitempty"`
+	// BByIonLMH and BBySoluteLMH give B for single ions (by symbol,
+	// "Mg+2") and for solutes moved as one unit (by ID), overriding the
+	// estimate (library.HinderedRule) and the preset's values.
+	BByIonLMH    map[string]float64 `json:"b_by_ion_lmh,omitempty"`
+	BBySoluteLMH map[string]float64 `json:"b_by_solute_lmh,omitempty"`
 }
 
 // Membrane is a resolved membrane, in SI.
@@ -49,6 +55,9 @@ type Membrane struct {
 	BKnown bool
 	// BGivenMPerS is the request's b_lmh in m/s, when given.
 	BGivenMPerS *float64
+	// UserIonB and UserB: the request's B by ion symbol and by solute ID
+	// (m/s).
+	UserIonB, UserB map[string]float64
 	// Relative standard deviations for robustness (the preset's, or the
 	// custom-membrane defaults).
 	ARelSD, BRelSD, SRelSD float64
@@ -94,6 +103,15 @@ func ResolveMembrane(spec *MembraneSpec) (*Membrane, error) {
 		for k, v := range rec.BBySolute {
 			m.B.Measured[k] = v * thermo.MPerSPerLMH
 		}
+		if len(rec.BByIon) > 0 {
+			m.B.ByIon = map[string]float64{}
+			for k, v := range rec.BByIon {
+				m.B.ByIon[k] = v * thermo.MPerSPerLMH
+			}
+		}
+	}
+	if err := m.userB(spec); err != nil {
+		return nil, err
 	}
 	for _, f := range []struct {
 		r   *limits.Range
@@ -111,6 +129,7 @@ func ResolveMembrane(spec *MembraneSpec) (*Membrane, error) {
 	if spec.BNaClLMH != nil {
 		m.BKnown = true
 		m.B.Measured = nil // measured values belong to the preset's NaCl B
+		m.B.ByIon = nil
 	}
 	if spec.BLMH != nil {
 		if err := limits.MembraneB.Check(*spec.BLMH); err != nil {
@@ -189,13 +208,18 @@ func (m *Membrane) AtTemperature(tK float64) *warn.Warning {
 	}
 	m.AMPerSPa *= fa
 	m.B.NaCl *= fb
-	if m.B.Measured != nil {
-		scaled := make(map[string]float64, len(m.B.Measured))
-		for k, v := range m.B.Measured {
+	scale := func(src map[string]float64) map[string]float64 {
+		if src == nil {
+			return nil
+		}
+		scaled := make(map[string]float64, len(src))
+		for k, v := range src {
 			scaled[k] = v * fb
 		}
-		m.B.Measured = scaled
+		return scaled
 	}
+	m.B.Measured, m.B.ByIon = scale(m.B.Measured), scale(m.B.ByIon)
+	m.UserIonB, m.UserB = scale(m.UserIonB), scale(m.UserB)
 	if m.BGivenMPerS != nil {
 		b := *m.BGivenMPerS * fb
 		m.BGivenMPerS = &b
@@ -226,6 +250,49 @@ func (m *Membrane) BFor(field string, s *library.Solute, overrideMPerS *float64)
 	}
 	b, est := m.B.For(s)
 	return b, est, nil
+}
+
+// Permeability returns the membrane's B data for species.NewTransport.
+func (m *Membrane) Permeability() *species.Permeability {
+	return &species.Permeability{B: m.B, UserIon: m.UserIonB, UserSolute: m.UserB, Known: m.BKnown}
+}
+
+// maxBEntries bounds each of the request's B maps.
+const maxBEntries = 64
+
+// userB reads the request's per-ion and per-solute B (LMH → m/s), each
+// value within membrane.b_lmh's range and each ion a known one.
+func (m *Membrane) userB(spec *MembraneSpec) error {
+	read := func(field string, src map[string]float64, ion bool) (map[string]float64, error) {
+		if len(src) == 0 {
+			return nil, nil
+		}
+		if len(src) > maxBEntries {
+			return nil, invalid(field, fmt.Sprintf("at most %d entries", maxBEntries), "%d entries", len(src))
+		}
+		out := make(map[string]float64, len(src))
+		for k, v := range src {
+			f := field + "." + k
+			if ion {
+				if _, ok := thermo.KnownIonCharge(k); !ok {
+					return nil, invalid(f, thermo.KnownIonSymbols(), "unknown ion %q", k)
+				}
+			}
+			r := limits.MembraneB
+			r.Field = f
+			if err := r.Check(v); err != nil {
+				return nil, err
+			}
+			out[k] = v * thermo.MPerSPerLMH
+		}
+		return out, nil
+	}
+	var err error
+	if m.UserIonB, err = read("membrane.b_by_ion_lmh", spec.BByIonLMH, true); err != nil {
+		return err
+	}
+	m.UserB, err = read("membrane.b_by_solute_lmh", spec.BBySoluteLMH, false)
+	return err
 }
 
 // Preset returns the preset's ID, or "custom".

@@ -243,6 +243,7 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 	} else if !mem.BKnown {
 		return nil, nil, invalid("membrane.b_lmh", "≥ 0", "a custom membrane needs b_lmh (its NaCl B)")
 	}
+	m.UserIonB, m.UserSoluteB = mem.UserIonB, mem.UserB
 	sc.Membrane = m
 	// Feed.
 	feed, rec, e := resolveFeed(req.Feed, tK)

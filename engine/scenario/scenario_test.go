@@ -32,8 +32,9 @@ func TestMembraneBFor(t *testing.T) {
 		t.Errorf("NaCl B: %g %v", b, est)
 	}
 	kcl, _ := lib.Lookup("KCl")
-	// BEstimateRule: B_j = B_NaCl·D_j/D_NaCl with the records' D0.
-	want := 1e-7 * kcl.Diffusivity.D0M2PerS / nacl.Diffusivity.D0M2PerS
+	// BEstimateRule (library.HinderedRule): K⁺ by hindered diffusion from
+	// its D⁰, Cl⁻ at the NaCl value, combined as a salt (library.SaltB).
+	want := library.SaltB(1, -1, 1e-7*library.HinderedFactor(1.957e-9), 1e-7)
 	if b, est, _ := m.BFor("membrane.b_lmh", kcl, nil); !est || math.Abs(b-want) > 1e-12*want {
 		t.Errorf("estimated B for KCl: %g %v, want %g", b, est, want)
 	}

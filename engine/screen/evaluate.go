@@ -5,10 +5,12 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 
 	"drawsift/engine/errs"
 	"drawsift/engine/internal/roots"
 	"drawsift/engine/library"
+	"drawsift/engine/species"
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
 	"drawsift/engine/warn"
@@ -29,10 +31,16 @@ type Metrics struct {
 
 	PiPa, VantHoffPa, FeedPiPa float64
 
-	JwMPerS              float64
-	JsMolPerM2S          float64 // reverse flux of the draw solute, draw → feed
-	SRSFMolPerM3         float64 // Js/Jw
-	SRSFKgPerM3          float64 // Js·M/Jw = g/L
+	JwMPerS      float64
+	JsMolPerM2S  float64 // net reverse flux of the draw solute (formula units), draw → feed
+	SRSFMolPerM3 float64 // Js/Jw
+	SRSFKgPerM3  float64 // Js·M/Jw = g/L: the net draw loss per litre of water
+	// GrossSRSFKgPerM3 counts the one-way flux of the draw's species toward
+	// the feed (without what the feed's own ions bring back).
+	GrossSRSFKgPerM3 float64
+	// FeedGainKgPerM3: the feed's own species entering the draw, per m³ of
+	// water.
+	FeedGainKgPerM3      float64
 	FluxEfficiency       float64 // Jw/(A·(π_D,b − π_F,b))
 	HasCost              bool
 	CostMinUSDPerM3      float64
@@ -55,7 +63,9 @@ func (m *Metrics) Objective(o Objective) (float64, bool) {
 	case ObjWaterFlux:
 		return m.JwMPerS / thermo.MPerSPerLMH, true
 	case ObjSRSF:
-		return m.SRSFKgPerM3, true
+		// A draw that gains its own species net loses nothing to replace
+		// (the feed's ions entering it are contamination, not a benefit).
+		return math.Max(0, m.SRSFKgPerM3), true
 	case ObjReplenishment:
 		return m.CostMidUSDPerM3(), m.HasCost
 	case ObjRegeneration:
@@ -149,6 +159,13 @@ type candidate struct {
 	basisM     float64 // concentration basis: molality
 	ions       []ionCount
 	ionIdx     []int // each ion's place in the scaling mixture (−1 none)
+	// layout: the transport species of this draw against the feed;
+	// facePi its face-π rule (bound once: a method value allocates).
+	layout *species.Transport
+	facePi transport.CompositionPi
+	// speciesIdx: each transport species' place in the scaling mixture
+	// (−1 none).
+	speciesIdx []int
 	warnings   []warn.Warning
 	excl       *exclusion // set at preparation (hazard, bad temperature)
 	osmRelSD   float64
@@ -185,6 +202,9 @@ type env struct {
 	// kWarn holds the last solve's Sherwood-correlation warnings, draw side
 	// then feed side (nil where k was given), for the nominal run.
 	kWarn [2][]warn.Warning
+	// lastIn is the last solve's problem (its species in lastSp).
+	lastIn transport.Input
+	lastSp [transport.MaxSpecies]transport.Species
 }
 
 type ionConc struct {
@@ -307,12 +327,9 @@ func prepare(ctx context.Context, sc *Scenario, lib *library.Library) (*env, err
 			c.osmRelSD = DefaultVantHoffRelSD
 		}
 		c.bMPerS, c.bEstimated = drawB(&sc.Membrane, s)
-		if c.bEstimated {
-			c.warnings = append(c.warnings, warn.New(warn.BEstimated, s.ID, "%s: B estimated from the membrane's NaCl value by diffusivity (%.3g LMH): %s",
-				s.ID, c.bMPerS/thermo.MPerSPerLMH, "likely pessimistic for multivalent ions and sugars; enter a measured B where known"))
-		}
-		if s.IsBlend() {
-			c.warnings = append(c.warnings, warn.New(warn.ModelNote, s.ID, "%s: a blend is transported as one solute at its fixed ratio (its parts share one concentration profile; B and D are the parts' mass- and osmotically weighted values)", s.ID))
+		if err := e.layoutFor(c); err != nil {
+			c.excl = &exclusion{ReasonNotEvaluated, err.Error()}
+			continue
 		}
 		if p := s.Price; p != nil {
 			c.hasPrice, c.priceMin, c.priceMax = true, p.USDPerKgMin, p.USDPerKgMax
@@ -494,21 +511,68 @@ func (e *env) solve(c *candidate, ori transport.Orientation, m float64, p *pertu
 	c.pi.f = p.fPi
 	in := transport.Input{
 		AMPerSPa: sc.Membrane.AMPerSPa * p.fA, SM: sc.Membrane.SM * p.fS, Orientation: ori,
-		KDrawMPerS: kD, KFeedMPerS: kF,
+		KDrawMPerS: kD, KFeedMPerS: kF, FacePi: c.facePi,
 	}
-	var sp [2]transport.Species
-	sp[0] = transport.Species{Name: c.sol.ID, DrawBulkMolPerM3: cD, BMPerS: c.bMPerS * p.fB, DM2PerS: d, Pi: c.piFn}
-	n := 1
+	n := c.layout.N()
+	c.layout.Fill(e.lastSp[:n], ori, cD, d, e.feedD, p.fB, c.piFn, e.feedFn)
+	in.Species = e.lastSp[:n]
+	err := transport.SolveInto(&in, out)
+	e.lastIn = in
+	return err
+}
+
+// layoutFor lays out candidate c's transport species against the feed
+// (species.NewTransport): its ions (or itself, for a neutral solute) and
+// the feed's, by identity, each with its B; a feed that stands in for its
+// ions by an equivalent NaCl crosses as one species of its own.
+func (e *env) layoutFor(c *candidate) error {
+	sc := e.sc
+	perm := species.Permeability{B: sc.Membrane.B, UserIon: sc.Membrane.UserIonB, UserSolute: sc.Membrane.UserSoluteB, Known: true}
+	var over *float64
+	if sc.Membrane.BDrawSet {
+		b := sc.Membrane.BDrawMPerS
+		over = &b
+	}
+	feed := species.TransportSide{}
 	if e.feedSol != nil {
-		if e.feedSol == c.sol && !sc.Feed.Surrogate {
-			sp[0].FeedBulkMolPerM3 = e.feedC
-		} else {
-			sp[1] = transport.Species{Name: e.feedSol.ID, FeedBulkMolPerM3: e.feedC, BMPerS: e.feedB * p.fB, DM2PerS: e.feedD, Pi: e.feedFn}
-			n = 2
+		feed = species.TransportSide{Solute: e.feedSol, Whole: sc.Feed.Surrogate, CMolPerM3: e.feedC, Nu: e.feedX.Nu()}
+	}
+	t, err := species.NewTransport(&perm, species.TransportSide{Solute: c.sol, Nu: c.x.Nu(), BMPerS: over}, feed)
+	if err != nil {
+		return err
+	}
+	c.layout, c.facePi = t, t.Rule.Pi
+	// The candidate's reported B: its species' one B when they share one
+	// (a solute given one value, or a neutral solute), else the salt's
+	// combined value (library.SoluteB.For).
+	uniform, b0 := true, -1.0
+	for _, in := range t.Info {
+		if in.DrawPerUnit == 0 {
+			continue
+		}
+		if in.BOrigin.Estimated() {
+			c.bEstimated = true
+		}
+		if b0 < 0 {
+			b0 = in.BMPerS
+		} else if in.BMPerS != b0 {
+			uniform = false
 		}
 	}
-	in.Species = sp[:n]
-	return transport.SolveInto(&in, out)
+	if uniform && b0 >= 0 {
+		c.bMPerS = b0
+	}
+	var est []string
+	for _, in := range t.Info {
+		if in.BOrigin.Estimated() && in.Role != species.RoleFeed {
+			est = append(est, fmt.Sprintf("%s %.3g LMH", in.Name, in.BMPerS/thermo.MPerSPerLMH))
+		}
+	}
+	if len(est) > 0 {
+		c.warnings = append(c.warnings, warn.New(warn.BEstimated, c.sol.ID, "%s: B estimated by hindered diffusion from the membrane's NaCl value (%s); enter a measured B where known",
+			c.sol.ID, strings.Join(est, ", ")))
+	}
+	return nil
 }
 
 // evaluate computes candidate c's metrics in orientation ori under
@@ -562,13 +626,16 @@ func (e *env) metricsAt(c *candidate, ori transport.Orientation, m float64, p *p
 	out.PiPa, _ = c.piFn(out.MolarityMolPerM3)
 	out.VantHoffPa = x.VantHoffPa(out.MolarityMolPerM3)
 	out.JwMPerS = r.JwMPerS
-	out.JsMolPerM2S = r.JsMolPerM2S
+	loss := c.layout.LossesAt(&e.lastIn, r, x.MolarMassKgPerMol())
+	out.JsMolPerM2S = loss.NetFormulaMolPerM2S
 	if !(r.JwMPerS > 0) {
 		return &exclusion{ReasonNoFlux, fmt.Sprintf("%s: water flux %.4g LMH at %.4g mol/L (the feed's osmotic pressure is not overcome)",
 			c.sol.ID, r.JwMPerS/thermo.MPerSPerLMH, out.MolarityMolPerM3/1000)}
 	}
-	out.SRSFMolPerM3 = r.JsMolPerM2S / r.JwMPerS
-	out.SRSFKgPerM3 = out.SRSFMolPerM3 * x.MolarMassKgPerMol()
+	out.SRSFMolPerM3 = out.JsMolPerM2S / r.JwMPerS
+	out.SRSFKgPerM3 = loss.NetKgPerM2S / r.JwMPerS
+	out.GrossSRSFKgPerM3 = loss.GrossKgPerM2S / r.JwMPerS
+	out.FeedGainKgPerM3 = loss.FeedGainKgPerM2S / r.JwMPerS
 	if r.PiDrawBulkPa > r.PiFeedBulkPa {
 		out.FluxEfficiency = r.FluxEfficiency(sc.Membrane.AMPerSPa*p.fA, 0)
 	}
@@ -584,16 +651,13 @@ func (e *env) metricsAt(c *candidate, ori transport.Orientation, m float64, p *p
 	}
 	out.ViscosityPaS = x.ViscosityPaS(m)
 	out.RegenJPerM3 = p.fPi * e.regenEnergy(c, m)
-	out.FeedFaceDrawMolPerM3 = r.Species[0].FeedFaceMolPerM3
+	out.FeedFaceDrawMolPerM3 = c.layout.DrawFeedFace(r)
 	if p == &nominal {
 		// Say why where feed solute crossing into the draw puts a metric
 		// outside its usual range (flux efficiency above 1, …).
-		in := transport.Input{AMPerSPa: sc.Membrane.AMPerSPa * p.fA, Species: make([]transport.Species, len(r.Species))}
-		in.Species[0].Name = c.sol.ID
-		if len(r.Species) > 1 && e.feedSol != nil {
-			in.Species[1].Name = e.feedSol.ID
-		}
-		out.Warnings = append(out.Warnings, transport.CrossingWarnings(&in, r, c.sol.ID)...)
+		in := e.lastIn
+		in.Species = append([]transport.Species(nil), in.Species...)
+		out.Warnings = append(out.Warnings, transport.CrossingWarnings(&in, r, c.sol.ID, out.JsMolPerM2S)...)
 	}
 	e.scaling(c, ori, r, &out.Scaling)
 	return nil

@@ -265,6 +265,10 @@ func (e *env) forWorker() *env {
 		c := &w.cands[i]
 		c.pi.f = 1
 		c.piFn = c.pi.fn
+		if c.layout != nil {
+			c.layout = c.layout.Clone()
+			c.facePi = c.layout.Rule.Pi
+		}
 	}
 	if e.scale != nil {
 		sm := *e.scale

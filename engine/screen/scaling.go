@@ -4,6 +4,7 @@ import (
 	"math"
 	"strings"
 
+	"drawsift/engine/species"
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
 	"drawsift/engine/warn"
@@ -201,6 +202,16 @@ func (e *env) prepareScaling() {
 			}
 			c.ionIdx = append(c.ionIdx, j)
 		}
+		c.speciesIdx = c.speciesIdx[:0]
+		if c.layout != nil {
+			for _, in := range c.layout.Info {
+				j, ok := mx.Index(in.Name)
+				if !ok || in.Charge == 0 {
+					j = -1
+				}
+				c.speciesIdx = append(c.speciesIdx, j)
+			}
+		}
 	}
 	e.scale = s
 	// The model's notes once per scenario: missing parameters (named only
@@ -219,21 +230,30 @@ func (e *env) prepareScaling() {
 			}
 		}
 	}
-	e.evalScaling(1, nil, 0, &e.feedScaling)
+	e.evalScaling(1, nil, nil, &e.feedScaling)
 }
 
-// scaling fills s from the converged flux result r of candidate c.
+// scaling fills s from the converged flux result r of candidate c: each
+// ion that is a transport species at its own feed-face concentration
+// (species by identity: the feed's ions polarised, the draw's that
+// crossed, a shared ion once); the feed's other ions (a feed that crosses
+// as an equivalent NaCl) times the polarisation factor of the feed's
+// solute.
 func (e *env) scaling(c *candidate, ori transport.Orientation, r *transport.Result, s *Scaling) {
 	if e.scale == nil {
 		*s = Scaling{}
 		return
 	}
-	// Feed-side polarization factor of the feed's ions.
 	cf := 1.0
 	if e.feedSol != nil && e.feedC > 0 {
-		if e.feedSol != c.sol && len(r.Species) > 1 {
-			cf = r.Species[1].FeedFaceMolPerM3 / e.feedC
-		} else {
+		cf = -1
+		for i, in := range c.layout.Info {
+			if in.Role != species.RoleDraw && in.FeedMolPerM3 > 0 && i < len(r.Species) {
+				cf = r.Species[i].FeedFaceMolPerM3 / in.FeedMolPerM3
+				break
+			}
+		}
+		if !(cf >= 0) {
 			rf := 0.0
 			if !math.IsInf(e.kFeed, 1) && e.kFeed > 0 {
 				rf = 1 / e.kFeed
@@ -244,18 +264,13 @@ func (e *env) scaling(c *candidate, ori transport.Orientation, r *transport.Resu
 			cf = math.Exp(math.Min(r.JwMPerS*rf, 50))
 		}
 	}
-	// Draw solute at the feed face beyond what the feed itself brings.
-	drawFace := r.Species[0].FeedFaceMolPerM3
-	if e.feedSol == c.sol && !e.sc.Feed.Surrogate {
-		drawFace -= e.feedC * cf
-	}
-	drawFace = math.Max(0, drawFace) / 1000 / e.scale.waterPerL // mol per kg of water
-	e.evalScaling(cf, c, drawFace, s)
+	e.evalScaling(cf, c, r, s)
 }
 
-// evalScaling computes the indices with the feed's ions times cf and
-// candidate c's ions (nil: none) at drawMolal formula units per kg water.
-func (e *env) evalScaling(cf float64, c *candidate, drawMolal float64, s *Scaling) {
+// evalScaling computes the indices with the feed's ions times cf and, for
+// candidate c (nil: none), every ion that is a transport species at its
+// feed-face concentration in r.
+func (e *env) evalScaling(cf float64, c *candidate, r *transport.Result, s *Scaling) {
 	*s = Scaling{}
 	sm := e.scale
 	for i := range sm.m {
@@ -264,10 +279,10 @@ func (e *env) evalScaling(cf float64, c *candidate, drawMolal float64, s *Scalin
 	for _, f := range sm.feed {
 		sm.m[f.i] += f.m * cf
 	}
-	if c != nil {
-		for k, ion := range c.ions {
-			if j := c.ionIdx[k]; j >= 0 {
-				sm.m[j] += ion.count * drawMolal
+	if c != nil && r != nil {
+		for k, j := range c.speciesIdx {
+			if j >= 0 && k < len(r.Species) {
+				sm.m[j] = math.Max(0, r.Species[k].FeedFaceMolPerM3) / 1000 / sm.waterPerL
 			}
 		}
 	}

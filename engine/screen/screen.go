@@ -17,13 +17,13 @@
 package screen
 
 import (
-	"drawsift/engine/limits"
 	"fmt"
 	"math"
 	"strings"
 
 	"drawsift/engine/errs"
 	"drawsift/engine/library"
+	"drawsift/engine/limits"
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
 )
@@ -175,6 +175,9 @@ type Membrane struct {
 	// allowed: an ideal, solute-tight membrane).
 	BDrawMPerS float64
 	BDrawSet   bool
+	// UserIonB and UserSoluteB: the request's B by ion symbol and by
+	// solute ID (m/s), before every estimate.
+	UserIonB, UserSoluteB map[string]float64
 	// Relative standard deviations for the robustness run.
 	ARelSD, BRelSD, SRelSD float64
 }

@@ -35,10 +35,16 @@ func byID(res *Result) map[string]*Ranked {
 // Phillip, Yong & Elimelech (2010) Environ. Sci. Technol. 44:5170: for a
 // van 't Hoff draw, Js/Jw = B/(A·ν·R·T) whatever S, k and the draw
 // concentration, so at equal bulk π the SRSF ordering is the ordering of
-// B/ν.
+// B/ν. The identity needs every ion of a salt to cross with one B (then no
+// membrane potential arises), so each candidate is given its own single B
+// here (scaled by diffusivity: test inputs, not estimates).
 func TestSRSFOrderingPhillip(t *testing.T) {
 	sc := baseScenario(t, "NaCl", "KCl", "MgCl2", "CaCl2", "Na2SO4", "MgSO4", "NH4Cl", "KBr", "glucose")
 	sc.VantHoff = true
+	sc.Membrane.UserSoluteB = map[string]float64{}
+	for _, s := range sc.Candidates {
+		sc.Membrane.UserSoluteB[s.ID] = sc.Membrane.B.NaCl * s.Diffusivity.D0M2PerS / 1.611e-9
+	}
 	res := run(t, sc)
 	type row struct {
 		id        string
@@ -481,8 +487,12 @@ func TestSeawaterBelowGypsum(t *testing.T) {
 
 // A calcium draw meeting a sulfate feed: gypsum supersaturation rises over
 // the same screen with a sodium draw (reverse-fluxed Ca²⁺ meets SO4²⁻).
+// The hindered-diffusion estimate holds Ca²⁺ back almost entirely, so the
+// membrane is given a leaky Ca²⁺ here (our own case) to show the
+// mechanism.
 func TestScalingCalciumDrawMeetsSulfateFeed(t *testing.T) {
 	sc := baseScenario(t, "NaCl", "CaCl2")
+	sc.Membrane.UserIonB = map[string]float64{"Ca+2": sc.Membrane.B.NaCl}
 	sc.Feed = seawaterFeed(t)
 	sc.Basis = Basis{Kind: BasisOsmoticPressure, MultipleOfFeed: 2}
 	res := run(t, sc)

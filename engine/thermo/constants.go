@@ -20,6 +20,10 @@ const (
 	// (CODATA 2018 lists it as exact; the product of two exact constants,
 	// evaluated exactly by the compiler).
 	GasConstant = AvogadroConstant * BoltzmannConstant
+	// ElementaryCharge e in C (exact: defining constant of the 2019 SI;
+	// same table); Faraday F = N_A·e in C/mol, exact.
+	ElementaryCharge = 1.602176634e-19
+	Faraday          = AvogadroConstant * ElementaryCharge
 	// ZeroCelsiusK is 0 °C in kelvin (exact by definition).
 	ZeroCelsiusK = 273.15
 	// ReferenceK is 25 °C, the reference temperature of the 25 °C data.

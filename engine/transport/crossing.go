@@ -24,8 +24,10 @@ import (
 //     driving force at the membrane; and forward flow although the bulk
 //     feed's π (with ΔP) exceeds the draw's, for the same reason.
 //
-// in and res are the problem and its solution; drawID names Species[0].
-func CrossingWarnings(in *Input, res *Result, drawID string) []warn.Warning {
+// in and res are the problem and its solution; drawID names the draw
+// solute and netLoss is its net flux toward the feed (mol m⁻² s⁻¹; for
+// a single draw species, res.JsMolPerM2S).
+func CrossingWarnings(in *Input, res *Result, drawID string, netLoss float64) []warn.Warning {
 	var w []warn.Warning
 	bar := func(pa float64) float64 { return pa / 1e5 } // 1 bar = 10⁵ Pa (exact)
 	// Species moving feed → draw, by name.
@@ -46,10 +48,14 @@ func CrossingWarnings(in *Input, res *Result, drawID string) []warn.Warning {
 		}
 		w = append(w, warn.New(warn.FeedToDraw, "flux_efficiency", "flux_efficiency %.3g is above 1: %s, so the ratio of Jw to A·Δπ(bulk) is no efficiency here", eff, why))
 	}
-	if res.JwMPerS != 0 && res.JsMolPerM2S/res.JwMPerS < 0 {
-		if res.JsMolPerM2S < 0 {
+	if res.JwMPerS != 0 && netLoss/res.JwMPerS < 0 {
+		if netLoss < 0 {
+			what := drawID
+			if n := in.Species[0].Name; n != "" && n != drawID {
+				what = fmt.Sprintf("%s (%s)", drawID, n)
+			}
 			w = append(w, warn.New(warn.FeedToDraw, drawID, "specific reverse solute flux is negative: %s moves from the feed into the draw (%.4g mol/L at the feed face of the active layer against %.4g mol/L at the draw face), so the draw gains solute instead of losing it",
-				drawID, res.Species[0].FeedFaceMolPerM3/1000, res.Species[0].DrawFaceMolPerM3/1000))
+				what, res.Species[0].FeedFaceMolPerM3/1000, res.Species[0].DrawFaceMolPerM3/1000))
 		} else {
 			w = append(w, warn.New(warn.ReverseFlow, drawID, "specific reverse solute flux is negative because water flows from draw to feed while %s still moves from draw to feed", drawID))
 		}

@@ -46,19 +46,29 @@ const (
 
 type speciesState struct {
 	bp, cFb, cDb, rf, rd float64
+	z                    int
 	pi                   OsmoticFunc
 	// state at the last evaluation
 	n, cf, cd float64
 }
 
 type solver struct {
-	a, dp   float64
-	ns      int
-	sp      [2]speciesState
-	piF     float64 // Σ π at the feed face, last evaluation
-	piD     float64 // Σ π at the draw face, last evaluation
-	dPiD    float64 // dπ_d/dJ, last evaluation
-	dPiF    float64 // dπ_f/dJ, last evaluation
+	a, dp float64
+	ns    int
+	sp    [MaxSpecies]speciesState
+	// Coupled ions (see ions.go): coupled is set when charged species
+	// cross with different B or resistances, so that the membrane
+	// potential u is not 0; ion holds each species' state at (Jw, u).
+	coupled bool
+	u, dudj float64
+	ion     [MaxSpecies]ionState
+	// Composition π (Input.FacePi): the face concentrations and ∂π/∂c.
+	facePi  CompositionPi
+	buf     []float64 // Result.buf: the face concentrations and ∂π/∂c
+	piF     float64   // Σ π at the feed face, last evaluation
+	piD     float64   // Σ π at the draw face, last evaluation
+	dPiD    float64   // dπ_d/dJ, last evaluation
+	dPiF    float64   // dπ_f/dJ, last evaluation
 	lastJ   float64
 	evals   int
 	badPi   int // index+1 of a species whose Pi misbehaved, 0 if none
@@ -73,16 +83,28 @@ func (s *solver) setup(in *Input) {
 	s.in = in
 	s.a, s.dp = in.AMPerSPa, in.DeltaPPa
 	s.ns = len(in.Species)
+	s.facePi = in.FacePi
 	invKD, invKF := 1/in.KDrawMPerS, 1/in.KFeedMPerS // 0 for +Inf
+	first := -1
 	for i := range in.Species {
 		sp := &in.Species[i]
 		st := &s.sp[i]
-		st.bp, st.cFb, st.cDb, st.pi = sp.BMPerS, sp.FeedBulkMolPerM3, sp.DrawBulkMolPerM3, sp.Pi
+		st.bp, st.cFb, st.cDb, st.pi, st.z = sp.BMPerS, sp.FeedBulkMolPerM3, sp.DrawBulkMolPerM3, sp.Pi, sp.Charge
 		k := in.SM / sp.DM2PerS
 		if in.Orientation == ALFS {
 			st.rf, st.rd = invKF, k+invKD
 		} else {
 			st.rf, st.rd = k+invKF, invKD
+		}
+		// Ions crossing with one B and one resistance keep u = 0 exactly
+		// (Σ z N is then the same combination of the electroneutral
+		// bulks for every Jw); otherwise the potential is solved.
+		if st.z != 0 && st.bp > 0 {
+			if first < 0 {
+				first = i
+			} else if f := &s.sp[first]; st.bp != f.bp || st.rf != f.rf || st.rd != f.rd {
+				s.coupled = true
+			}
 		}
 	}
 }
@@ -104,6 +126,9 @@ func (s *solver) pi(i int, c float64) (float64, float64) {
 
 // eval returns f(J) and f′(J) and keeps the species state at J.
 func (s *solver) eval(j float64) (f, df float64) {
+	if s.coupled || s.facePi != nil {
+		return s.evalGeneral(j)
+	}
 	s.evals++
 	s.lastJ = j
 	var piD, piF, sD, sF float64
@@ -131,8 +156,8 @@ func (s *solver) eval(j float64) (f, df float64) {
 		}
 		n, ff, fd := speciesAt(j, st.bp, st.cFb, st.cDb, st.rf, st.rd)
 		st.n, st.cf, st.cd = n, ff.c, fd.c
-		pd, dpd := s.facePi(i, fd)
-		pf, dpf := s.facePi(i, ff)
+		pd, dpd := s.facePi1(i, fd)
+		pf, dpf := s.facePi1(i, ff)
 		piD += pd
 		piF += pf
 		sD += dpd
@@ -144,9 +169,79 @@ func (s *solver) eval(j float64) (f, df float64) {
 	return f, df
 }
 
-// facePi returns π at a face and dπ/dJw, with the logarithmic extension
-// past FaceCapMolPerM3 (see face).
-func (s *solver) facePi(i int, f face) (pi, dpi float64) {
+// evalGeneral is eval for coupled ions (the membrane potential solved at
+// each J) or a composition π (Input.FacePi). Face concentrations carry
+// their total derivative in J, du/dJ included.
+func (s *solver) evalGeneral(j float64) (f, df float64) {
+	s.evals++
+	s.lastJ = j
+	if s.coupled {
+		s.u, s.dudj = s.potential(j, s.u)
+	}
+	var faces [2][MaxSpecies]face
+	for i := 0; i < s.ns; i++ {
+		st := &s.sp[i]
+		if s.coupled && st.bp > 0 {
+			is := &s.ion[i]
+			st.n, st.cf, st.cd = is.n, is.cf, is.cd
+			faces[0][i] = toFace(is.cd, is.cdJ+is.cdU*s.dudj)
+			faces[1][i] = toFace(is.cf, is.cfJ+is.cfU*s.dudj)
+			st.cf, st.cd = faces[1][i].c, faces[0][i].c
+			continue
+		}
+		n, ff, fd := speciesAt(j, st.bp, st.cFb, st.cDb, st.rf, st.rd)
+		st.n, st.cf, st.cd = n, ff.c, fd.c
+		faces[0][i], faces[1][i] = fd, ff
+	}
+	piD, sD := s.sidePi(faces[0][:s.ns])
+	piF, sF := s.sidePi(faces[1][:s.ns])
+	s.piD, s.piF, s.dPiD, s.dPiF = piD, piF, sD, sF
+	f = s.a*(piD-piF-s.dp) - j
+	df = s.a*(sD-sF) - 1
+	return f, df
+}
+
+// sidePi returns π at one face of the active layer and dπ/dJ: the sum of
+// each species' own π (the additive rule), or the composition π of
+// Input.FacePi, each with the logarithmic extension past FaceCapMolPerM3
+// (see face).
+func (s *solver) sidePi(fs []face) (pi, dpi float64) {
+	if s.facePi == nil {
+		for i := range fs {
+			p, d := s.facePi1(i, fs[i])
+			pi += p
+			dpi += d
+		}
+		return pi, dpi
+	}
+	n := len(fs)
+	c, g := s.buf[:n], s.buf[n:2*n]
+	for i := range fs {
+		c[i] = fs[i].c
+	}
+	p := s.facePi(c, g)
+	if !(p >= 0 && p <= math.MaxFloat64) {
+		if s.badPi == 0 {
+			s.badPi, s.badC = 1, c[0]
+		}
+		return 0, 0
+	}
+	pi = p
+	for i := range fs {
+		gi := g[i]
+		if !(gi >= -math.MaxFloat64 && gi <= math.MaxFloat64) {
+			gi = 0
+		}
+		gi = math.Max(gi, 0) // contract: non-decreasing in every species
+		pi += gi * FaceCapMolPerM3 * fs[i].l
+		dpi += gi * (fs[i].dc + FaceCapMolPerM3*fs[i].dl)
+	}
+	return pi, dpi
+}
+
+// facePi1 returns species i's own π at a face and dπ/dJw, with the
+// logarithmic extension past FaceCapMolPerM3 (see face).
+func (s *solver) facePi1(i int, f face) (pi, dpi float64) {
 	p, d := s.pi(i, f.c)
 	if f.l == 0 {
 		return p, d * f.dc
@@ -156,16 +251,25 @@ func (s *solver) facePi(i int, f face) (pi, dpi float64) {
 }
 
 func (s *solver) piError() error {
-	_, _, _, _, fpi := speciesFields(s.badPi - 1)
+	_, _, _, _, fpi := speciesFields(s.in, s.badPi-1)
 	return inErr(fpi, s.badC/thermo.MolPerM3PerMolPerL, "a model returning a finite π ≥ 0 at this concentration (mol/L)")
 }
 
 func (s *solver) solve(out *Result) error {
-	for i := 0; i < s.ns; i++ {
-		pd, _ := s.pi(i, s.sp[i].cDb)
-		pf, _ := s.pi(i, s.sp[i].cFb)
-		s.piDbulk += pd
-		s.piFbulk += pf
+	if s.facePi != nil {
+		var bd, bf [MaxSpecies]face
+		for i := 0; i < s.ns; i++ {
+			bd[i].c, bf[i].c = s.sp[i].cDb, s.sp[i].cFb
+		}
+		s.piDbulk, _ = s.sidePi(bd[:s.ns])
+		s.piFbulk, _ = s.sidePi(bf[:s.ns])
+	} else {
+		for i := 0; i < s.ns; i++ {
+			pd, _ := s.pi(i, s.sp[i].cDb)
+			pf, _ := s.pi(i, s.sp[i].cFb)
+			s.piDbulk += pd
+			s.piFbulk += pf
+		}
 	}
 	s.drive = s.piDbulk + s.piFbulk + math.Abs(s.dp)
 	scale := s.a * s.drive // m/s
@@ -380,6 +484,7 @@ func (s *solver) finish(out *Result, j, f float64, it int, method string) {
 		sr.SupportInterfaceMolPerM3 = supportInterface(in.Orientation, j, st.n, st.cf, st.cd, st.cFb, st.cDb, rs, rbl)
 	}
 	out.JsMolPerM2S = -s.sp[0].n
+	out.Potential = s.u
 	out.PiFeedFacePa, out.PiDrawFacePa = s.piF, s.piD
 	out.PiFeedBulkPa, out.PiDrawBulkPa = s.piFbulk, s.piDbulk
 	res := 0.0

@@ -112,15 +112,32 @@ func ParseOrientation(s string) (Orientation, error) {
 // concentration above FaceCapMolPerM3.
 type OsmoticFunc func(cMolPerM3 float64) (piPa, dPiDc float64)
 
-// Species is one solute present in either stream. The same solute in both
-// streams is one species with two bulk concentrations. By convention
-// Input.Species[0] is the draw solute; Result.JsMolPerM2S refers to it.
+// CompositionPi returns the osmotic pressure π (Pa) of a solution holding
+// the species at concentrations c (mol/m³, in Input.Species order) and
+// writes ∂π/∂c_i (Pa m³ mol⁻¹) into grad (len(grad) = len(c)). It must be
+// finite, ≥ 0 and non-decreasing in every c_i for all c ≥ 0, and must not
+// keep c or grad. MixingRule is the one engine/scenario uses.
+type CompositionPi func(c, grad []float64) float64
+
+// Species is one solute or ion present in either stream, by identity: the
+// same solute or ion in both streams is one species with two bulk
+// concentrations. By convention Input.Species[0] is a draw species;
+// Result.JsMolPerM2S refers to it.
 type Species struct {
 	Name                               string
 	DrawBulkMolPerM3, FeedBulkMolPerM3 float64
 	BMPerS                             float64 // active-layer solute permeability B
 	DM2PerS                            float64 // diffusion coefficient in the support and boundary layers
-	Pi                                 OsmoticFunc
+	// Charge z of an ion (0 for a neutral solute, or a salt transported
+	// as one solute). Ions cross the active layer coupled by zero
+	// electric current (ions.go); each bulk's ions must be electroneutral.
+	Charge int
+	// Pi is the species' own π(c), used by the additive rule when
+	// Input.FacePi is nil (then required).
+	Pi OsmoticFunc
+	// Field names the species' inputs in errors (default: the draw
+	// solute's fields for Species[0], the feed solute's for Species[1]).
+	Field string
 }
 
 // Input describes one flux calculation.
@@ -135,8 +152,16 @@ type Input struct {
 	// Boundary-layer mass-transfer coefficients; math.Inf(1) means no
 	// external CP on that side.
 	KDrawMPerS, KFeedMPerS float64
-	Species                []Species // 1 or 2; Species[0] is the draw solute
+	Species                []Species // 1 to MaxSpecies; Species[0] is a draw species
+	// FacePi gives π at a face from its whole composition; nil means the
+	// additive rule, each species' own Pi at its own concentration (exact
+	// for van 't Hoff solutes, an approximation otherwise).
+	FacePi CompositionPi
 }
+
+// MaxSpecies bounds Input.Species (seawater has about a dozen ions; a
+// draw blend adds a few).
+const MaxSpecies = 32
 
 // SpeciesResult holds the solution for one species.
 type SpeciesResult struct {
@@ -158,10 +183,18 @@ type Result struct {
 	// positive draw → feed: −Species[0].FluxMolPerM2S.
 	JsMolPerM2S float64
 	Species     []SpeciesResult // same order as Input.Species
+	// Potential is the electric potential drop across the active layer,
+	// F·(ψ_feed face − ψ_draw face)/(R·T) (dimensionless; 0 when no ions
+	// are coupled, see ions.go).
+	Potential float64
 	// Osmotic pressures (sum over species, additive rule) at the two faces of
 	// the active layer and in the two bulks.
 	PiFeedFacePa, PiDrawFacePa, PiFeedBulkPa, PiDrawBulkPa float64
 	Stats                                                  Stats
+
+	// buf is the composition π's scratch (kept with the Result so that
+	// SolveInto does not allocate when the Result is reused).
+	buf []float64
 }
 
 // Stats reports how the root was found.
@@ -229,12 +262,22 @@ func SolveInto(in *Input, out *Result) error {
 	}
 	out.Species = out.Species[:n]
 	var s solver
+	if in.FacePi != nil {
+		if cap(out.buf) < 2*n {
+			out.buf = make([]float64, 2*MaxSpecies)
+		}
+		s.buf = out.buf[:2*n]
+	}
 	s.setup(in)
 	return s.solve(out)
 }
 
 // speciesFields names species i's inputs in the contract's terms.
-func speciesFields(i int) (b, d, draw, feed, pi string) {
+func speciesFields(in *Input, i int) (b, d, draw, feed, pi string) {
+	if in != nil && i < len(in.Species) && in.Species[i].Field != "" {
+		f := in.Species[i].Field
+		return f + ".b_lmh", f + ".diffusivity_m2_per_s", f + ".draw_concentration", f + ".feed_concentration", "osmotic_model"
+	}
 	if i == 0 {
 		return "membrane.b_lmh", "diffusivity_m2_per_s", "draw.concentration", "feed.concentration", "osmotic_model"
 	}
@@ -277,12 +320,13 @@ func validate(in *Input) error {
 	if !(in.KFeedMPerS >= minKMPerS) {
 		return inErr("k_feed_m_per_s", in.KFeedMPerS, kLimit())
 	}
-	if n := len(in.Species); n < 1 || n > 2 {
-		return inErr("species", float64(n), "1 or 2 species (draw solute, and the feed solute if different)")
+	if n := len(in.Species); n < 1 || n > MaxSpecies {
+		return inErr("species", float64(n), fmt.Sprintf("1 to %d species (solutes or ions of the draw and the feed)", MaxSpecies))
 	}
+	var zD, zF, aD, aF float64 // Σ z·c and Σ |z|·c of each bulk
 	for i := range in.Species {
 		sp := &in.Species[i]
-		fb, fd, fdraw, ffeed, fpi := speciesFields(i)
+		fb, fd, fdraw, ffeed, fpi := speciesFields(in, i)
 		if !(sp.BMPerS >= 0 && sp.BMPerS <= maxBMPerS) {
 			return inErr(fb, sp.BMPerS/thermo.MPerSPerLMH, fmt.Sprintf("≥ 0 and ≤ %g LMH", maxBMPerS/thermo.MPerSPerLMH))
 		}
@@ -296,9 +340,32 @@ func validate(in *Input) error {
 		if !(sp.FeedBulkMolPerM3 >= 0 && sp.FeedBulkMolPerM3 <= maxBulkMolM3) {
 			return inErr(ffeed, sp.FeedBulkMolPerM3/thermo.MolPerM3PerMolPerL, cLimit())
 		}
-		if sp.Pi == nil {
+		if sp.Pi == nil && in.FacePi == nil {
 			return &errs.InputError{Field: fpi, Text: "nil", Limit: "an osmotic-pressure function", Err: ErrInvalidInput}
 		}
+		if sp.Charge < -4 || sp.Charge > 4 {
+			f := fmt.Sprintf("species[%d].charge", i)
+			if sp.Field != "" {
+				f = sp.Field + ".charge"
+			}
+			return inErr(f, float64(sp.Charge), "an ion charge from −4 to 4")
+		}
+		z := float64(sp.Charge)
+		zD += z * sp.DrawBulkMolPerM3
+		zF += z * sp.FeedBulkMolPerM3
+		aD += math.Abs(z) * sp.DrawBulkMolPerM3
+		aF += math.Abs(z) * sp.FeedBulkMolPerM3
+	}
+	// The ions of each bulk must balance within 5 %, the usual acceptance
+	// limit of a water analysis' ion balance (common practice): published
+	// compositions balance to their rounding (seawater's Reference
+	// Composition without its minor species to 6e-6, our effluent preset to
+	// 0.5 %). The fluxes carry no current whatever the bulks' imbalance.
+	if math.Abs(zD) > 0.05*aD {
+		return inErr("draw", zD/aD, "electroneutral ions (Σ z·c = 0 within 5 %; this is the relative charge excess)")
+	}
+	if math.Abs(zF) > 0.05*aF {
+		return inErr("feed", zF/aF, "electroneutral ions (Σ z·c = 0 within 5 %; this is the relative charge excess)")
 	}
 	return nil
 }

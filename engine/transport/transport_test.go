@@ -339,7 +339,13 @@ func TestBadInput(t *testing.T) {
 		{"draw Inf", "draw.concentration", func(in *Input) { in.Species[0].DrawBulkMolPerM3 = math.Inf(1) }},
 		{"feed NaN", "feed.concentration", func(in *Input) { in.Species[1].FeedBulkMolPerM3 = nan }},
 		{"no species", "species", func(in *Input) { in.Species = nil }},
-		{"three species", "species", func(in *Input) { in.Species = append(in.Species, in.Species[0]) }},
+		{"too many species", "species", func(in *Input) {
+			for len(in.Species) <= MaxSpecies {
+				in.Species = append(in.Species, in.Species[0])
+			}
+		}},
+		{"charged draw not neutral", "draw", func(in *Input) { in.Species[0].Charge = 1 }},
+		{"charge out of range", "species[0].charge", func(in *Input) { in.Species[0].Charge = 5 }},
 		{"nil Pi", "osmotic_model", func(in *Input) { in.Species[0].Pi = nil }},
 		{"Pi NaN", "osmotic_model", func(in *Input) {
 			in.Species[0].Pi = func(c float64) (float64, float64) { return nan, 0 }
