@@ -57,20 +57,27 @@ type RobustnessReport struct {
 
 // FluxMetrics are the orientation-dependent metrics.
 type FluxMetrics struct {
-	Orientation                       string         `json:"orientation"`
-	WaterFluxLMH                      float64        `json:"water_flux_lmh"`
-	ReverseSoluteFluxGMH              float64        `json:"reverse_solute_flux_gmh"`
-	ReverseSoluteFluxMmolPerM2H       float64        `json:"reverse_solute_flux_mmol_per_m2_h"`
-	SpecificReverseSoluteFluxGPerL    float64        `json:"specific_reverse_solute_flux_g_per_l"`
-	SpecificReverseSoluteFluxMmolPerL float64        `json:"specific_reverse_solute_flux_mmol_per_l"`
-	FluxEfficiency                    float64        `json:"flux_efficiency"`
-	ReplenishmentCostUSDPerM3         *float64       `json:"replenishment_cost_usd_per_m3,omitempty"`
-	ReplenishmentCostMinUSDPerM3      *float64       `json:"replenishment_cost_min_usd_per_m3,omitempty"`
-	ReplenishmentCostMaxUSDPerM3      *float64       `json:"replenishment_cost_max_usd_per_m3,omitempty"`
-	Scaling                           []ScalingIndex `json:"scaling"`
-	MaxSaturationIndex                *float64       `json:"max_saturation_index,omitempty"`
-	SurfaceIonicStrengthMolPerL       float64        `json:"surface_ionic_strength_mol_per_l"`
-	Reason                            string         `json:"reason,omitempty"`
+	Orientation                       string  `json:"orientation"`
+	WaterFluxLMH                      float64 `json:"water_flux_lmh"`
+	ReverseSoluteFluxGMH              float64 `json:"reverse_solute_flux_gmh"`
+	ReverseSoluteFluxMmolPerM2H       float64 `json:"reverse_solute_flux_mmol_per_m2_h"`
+	SpecificReverseSoluteFluxGPerL    float64 `json:"specific_reverse_solute_flux_g_per_l"`
+	SpecificReverseSoluteFluxMmolPerL float64 `json:"specific_reverse_solute_flux_mmol_per_l"`
+	// The SRSF above is net (net_draw_loss_g_per_l: species by identity, a
+	// shared ion partly comes back); the gross value counts the one-way
+	// flux toward the feed, and the feed gain the feed's own species
+	// entering the draw, per litre of water.
+	NetDrawLossGPerL             float64        `json:"net_draw_loss_g_per_l"`
+	GrossDrawLossGPerL           float64        `json:"gross_draw_loss_g_per_l"`
+	FeedGainGPerL                float64        `json:"feed_gain_g_per_l"`
+	FluxEfficiency               float64        `json:"flux_efficiency"`
+	ReplenishmentCostUSDPerM3    *float64       `json:"replenishment_cost_usd_per_m3,omitempty"`
+	ReplenishmentCostMinUSDPerM3 *float64       `json:"replenishment_cost_min_usd_per_m3,omitempty"`
+	ReplenishmentCostMaxUSDPerM3 *float64       `json:"replenishment_cost_max_usd_per_m3,omitempty"`
+	Scaling                      []ScalingIndex `json:"scaling"`
+	MaxSaturationIndex           *float64       `json:"max_saturation_index,omitempty"`
+	SurfaceIonicStrengthMolPerL  float64        `json:"surface_ionic_strength_mol_per_l"`
+	Reason                       string         `json:"reason,omitempty"`
 }
 
 // ScalingIndex is one mineral's saturation index at the feed-side surface.
@@ -262,6 +269,9 @@ func fluxMetrics(m *screen.Metrics) FluxMetrics {
 		ReverseSoluteFluxMmolPerM2H:       m.JsMolPerM2S * thermo.MmolPerM2HPerMolPerM2S,
 		SpecificReverseSoluteFluxGPerL:    m.SRSFKgPerM3,
 		SpecificReverseSoluteFluxMmolPerL: m.SRSFMolPerM3,
+		NetDrawLossGPerL:                  m.SRSFKgPerM3,
+		GrossDrawLossGPerL:                m.GrossSRSFKgPerM3,
+		FeedGainGPerL:                     m.FeedGainKgPerM3,
 		FluxEfficiency:                    m.FluxEfficiency,
 		SurfaceIonicStrengthMolPerL:       m.Scaling.IonicStrengthMolPerL,
 		Scaling:                           []ScalingIndex{},
