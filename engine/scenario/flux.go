@@ -170,13 +170,16 @@ func (sd *Side) Fluid(d float64) transport.Fluid {
 	return transport.Fluid{DensityKgPerM3: sd.State.DensityKgPerM3, ViscosityPaS: sd.State.ViscosityPaS, DiffusivityM2PerS: d}
 }
 
-// Pi is the side's π(c) under the osmotic model.
+// Pi is the side's π(c) under the osmotic model: van 't Hoff, or the real
+// model's table (thermo.Solution.FastOsmoticFunc, within 1e-8 of the
+// model: a mixture's exact π costs a Pitzer evaluation and a density
+// inversion, and the flux solve asks for it a few dozen times).
 func (sd *Side) Pi(model OsmoticModel, tK float64) transport.OsmoticFunc {
 	if model == VantHoff {
 		k := sd.X.Nu() * thermo.GasConstant * tK
 		return func(c float64) (float64, float64) { return k * c, k }
 	}
-	return sd.X.OsmoticFunc
+	return sd.X.FastOsmoticFunc()
 }
 
 // Flux is a resolved flux request: the transport problem and what the

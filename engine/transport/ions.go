@@ -39,23 +39,75 @@ import "math"
 // exclusion), no dielectric exclusion beyond what B carries, no ion
 // pairing in the membrane.
 
+// ghk2 returns g(w), g′(w), g(−w) and g′(−w) for g(w) = w/(1 − e^{−w})
+// from one exponential: with d = 1 − e^{−w}, g(w) = w/d,
+// g(−w) = g(w)·(1 − d), g′(w) = (1 − g(w)(1 − d))/d and
+// g′(−w) = −(1 − d − g(−w))/d.
+func ghk2(w float64) (gp, dgp, gm, dgm float64) {
+	if math.Abs(w) < 1e-3 {
+		// g(±w) = 1 ± w/2 + w²/12 − w⁴/720, g′(±w) = 1/2 ± w/6 ∓ w³/180.
+		w2 := w * w
+		even, odd := 1+w2/12-w2*w2/720, w/2
+		deven, dodd := 0.5, w/6-w2*w/180
+		return even + odd, deven + dodd, even - odd, deven - dodd
+	}
+	d := -math.Expm1(-w)  // 1 − e^{−w}
+	if math.IsInf(d, 0) { // w ≪ 0: g(w) → 0, g(−w) → −w
+		return 0, 0, -w, 1
+	}
+	e := 1 - d // e^{−w}
+	gp = w / d
+	gm = gp * e
+	dgp = (1 - gp*e) / d
+	dgm = -(e - gm) / d
+	if !finite(dgp) {
+		dgp = 0
+	}
+	if !finite(dgm) {
+		dgm = 0
+	}
+	return gp, dgp, gm, dgm
+}
+
+// ghkZ is ghk2 at w = z·u for an integer charge, given d1 = 1 − e^{−u}
+// and e1 = e^{−u}: the exponential of every charge follows from e1 by
+// products, with 1 − e^{−zu} = d1·(1 + e1 + … + e1^{z−1}) for z > 0 and
+// −(1 − e^{−|z|u})/e1^{|z|} for z < 0, free of cancellation.
+func ghkZ(z int, u, d1, e1 float64) (gp, dgp, gm, dgm float64) {
+	w := float64(z) * u
+	if math.Abs(w) < 1e-3 || math.IsInf(d1, 0) || e1 == 0 {
+		return ghk2(w)
+	}
+	az := z
+	if az < 0 {
+		az = -az
+	}
+	sum, pw := 1.0, 1.0
+	for k := 1; k < az; k++ {
+		pw *= e1
+		sum += pw
+	}
+	d := d1 * sum // 1 − e^{−|z|u}
+	if z < 0 {
+		d = -d / (pw * e1) // 1 − e^{|z|u}
+	}
+	if !finite(d) || d == 0 {
+		return ghk2(w)
+	}
+	e := 1 - d // e^{−w}
+	gp = w / d
+	gm = gp * e
+	dgp = (1 - gp*e) / d
+	dgm = -(e - gm) / d
+	if !finite(dgp) || !finite(dgm) || !finite(gm) {
+		return ghk2(w)
+	}
+	return gp, dgp, gm, dgm
+}
+
 // ghk returns g(w) = w/(1 − e^{−w}) and g′(w).
 func ghk(w float64) (g, dg float64) {
-	if math.Abs(w) < 1e-3 {
-		// g = 1 + w/2 + w²/12 − w⁴/720, g′ = 1/2 + w/6 − w³/180.
-		w2 := w * w
-		return 1 + w*(0.5+w/12) - w2*w2/720, 0.5 + w/6 - w2*w/180
-	}
-	d := -math.Expm1(-w) // 1 − e^{−w}
-	g = w / d
-	if math.IsInf(d, 0) { // w ≪ 0: g → 0
-		return 0, 0
-	}
-	// g′ = (d − w·e^{−w})/d² = (1 − g·e^{−w})/d, with e^{−w} = 1 − d.
-	dg = (1 - g*(1-d)) / d
-	if !finite(dg) {
-		dg = 0
-	}
+	g, dg, _, _ = ghk2(w)
 	return g, dg
 }
 
@@ -69,6 +121,25 @@ type partials struct {
 	nBd, cfBd, cdBd float64
 }
 
+// jState holds the parts of a species' profile that depend on Jw only
+// (for j ≥ 0, with the resistances rf, rd of profile), so that the
+// membrane-potential iteration at one Jw costs arithmetic alone.
+type jState struct{ p, e, g, dg, h, dh, dp, de float64 }
+
+func newJState(j, rf, rd float64) jState {
+	a, b := j*rf, j*rd
+	p, e := 1.0, 1.0
+	if a != 0 {
+		p = expNeg(-a)
+	}
+	if b != 0 {
+		e = expNeg(-b)
+	}
+	pa, qa := pq(a, p)
+	pb, qb := pq(b, e)
+	return jState{p: p, e: e, g: rf * pa, dg: -rf * rf * qa, h: rd * pb, dh: -rd * rd * qb, dp: -rf * p, de: -rd * e}
+}
+
 // profileU is profile with different coefficients at the two faces of
 // the active layer, N = bf·c_f − bd·c_d, for j ≥ 0. With the notation of
 // profile,
@@ -80,23 +151,13 @@ type partials struct {
 //
 // (profile is the case bf = bd). Requires bf, bd > 0 or one of them 0.
 func profileU(j, bf, bd, cF, cD, rf, rd float64, out *partials) {
-	a, b := j*rf, j*rd
-	p, e := 1.0, 1.0
-	if a != 0 {
-		p = expNeg(-a)
-	}
-	if b != 0 {
-		e = expNeg(-b)
-	}
-	pa, qa := pq(a, p)
-	pb, qb := pq(b, e)
-	g := rf * pa
-	dg := -rf * rf * qa
-	h := rd * pb
-	dh := -rd * rd * qb
-	dp := -rf * p
-	de := -rd * e
+	st := newJState(j, rf, rd)
+	profileJ(&st, bf, bd, cF, cD, out)
+}
 
+// profileJ is profileU from a prepared jState.
+func profileJ(st *jState, bf, bd, cF, cD float64, out *partials) {
+	p, e, g, dg, h, dh, dp, de := st.p, st.e, st.g, st.dg, st.h, st.dh, st.dp, st.de
 	vs := p + bf*g + bd*h*p
 	iv := 1 / vs
 	dvs := dp + bf*dg + bd*(dh*p+h*dp)
@@ -124,17 +185,42 @@ func profileU(j, bf, bd, cF, cD, rf, rd float64, out *partials) {
 	out.cdBd = -cd * h * p * iv
 }
 
-// ionAt evaluates one species with B > 0 at any Jw and face coefficients
-// (bf, bd), by mirror symmetry for Jw < 0 (see speciesAt): reversing Jw
-// and swapping feed with draw maps the problem onto itself with N → −N,
-// the faces exchanged and bf ↔ bd.
-func ionAt(j, bf, bd, cF, cD, rf, rd float64, out *partials) {
+// fluxJ is the net flux of profileJ alone, with its derivatives in bf and
+// bd: what the zero-current iteration needs.
+func fluxJ(st *jState, bf, bd, cF, cD float64) (n, nBf, nBd float64) {
+	iv := 1 / (st.p + bf*st.g + bd*st.h*st.p)
+	n = (bf*cF - bd*cD*st.e*st.p) * iv
+	return n, (cF - n*st.g) * iv, -(cD*st.e + n*st.h) * st.p * iv
+}
+
+// ionFlux is the net flux of species sp at (j, u) and its derivative in
+// u (see ionEval).
+func ionFlux(sp *speciesState, j, u, d1, e1 float64, js *jState) (n, nU float64) {
+	gp, dgp, gm, dgm := ghkZ(sp.z, u, d1, e1)
+	bf, bd := sp.bp*gp, sp.bp*gm
+	var nBf, nBd float64
 	if j >= 0 {
-		profileU(j, bf, bd, cF, cD, rf, rd, out)
+		n, nBf, nBd = fluxJ(js, bf, bd, sp.cFb, sp.cDb)
+	} else {
+		n, nBd, nBf = fluxJ(js, bd, bf, sp.cDb, sp.cFb)
+		n, nBf, nBd = -n, -nBf, -nBd
+	}
+	z := float64(sp.z)
+	return n, nBf*sp.bp*z*dgp - nBd*sp.bp*z*dgm
+}
+
+// ionAt evaluates one species with B > 0 at water flux j (its jState st
+// made for |j|, with the resistances swapped when j < 0) and face
+// coefficients (bf, bd), by mirror symmetry for Jw < 0 (see speciesAt):
+// reversing Jw and swapping feed with draw maps the problem onto itself
+// with N → −N, the faces exchanged and bf ↔ bd.
+func ionAt(j float64, st *jState, bf, bd, cF, cD float64, out *partials) {
+	if j >= 0 {
+		profileJ(st, bf, bd, cF, cD, out)
 		return
 	}
 	var m partials
-	profileU(-j, bd, bf, cD, cF, rd, rf, &m)
+	profileJ(st, bd, bf, cD, cF, &m)
 	*out = partials{
 		n: -m.n, cf: m.cd, cd: m.cf,
 		nJ: m.nJ, cfJ: -m.cdJ, cdJ: -m.cfJ,
@@ -149,51 +235,64 @@ type ionState struct {
 	n, cf, cd    float64
 	nJ, cfJ, cdJ float64
 	nU, cfU, cdU float64
+	js           jState // at |Jw| (resistances swapped for Jw < 0)
 }
 
-// ionEval fills st for species sp (B > 0) at water flux j and potential u.
-func ionEval(sp *speciesState, j, u float64, st *ionState) {
-	w := float64(sp.z) * u
-	gp, dgp := ghk(w)
-	gm, dgm := ghk(-w)
-	var p partials
-	ionAt(j, sp.bp*gp, sp.bp*gm, sp.cFb, sp.cDb, sp.rf, sp.rd, &p)
-	// d(bf)/du = B·z·g′(w), d(bd)/du = −B·z·g′(−w).
-	dbf, dbd := sp.bp*float64(sp.z)*dgp, -sp.bp*float64(sp.z)*dgm
-	*st = ionState{
-		n: p.n, cf: p.cf, cd: p.cd,
-		nJ: p.nJ, cfJ: p.cfJ, cdJ: p.cdJ,
-		nU: p.nBf*dbf + p.nBd*dbd, cfU: p.cfBf*dbf + p.cfBd*dbd, cdU: p.cdBf*dbf + p.cdBd*dbd,
+// ionPrepare sets the species' jState for water flux j.
+func ionPrepare(sp *speciesState, j float64, st *ionState) {
+	if j >= 0 {
+		st.js = newJState(j, sp.rf, sp.rd)
+	} else {
+		st.js = newJState(-j, sp.rd, sp.rf)
 	}
 }
 
+// ionEval fills st for species sp (B > 0) at water flux j and potential
+// u (d1 = 1 − e^{−u}, e1 = e^{−u}); st.js must be prepared for j.
+func ionEval(sp *speciesState, j, u, d1, e1 float64, st *ionState) {
+	gp, dgp, gm, dgm := ghkZ(sp.z, u, d1, e1)
+	var p partials
+	ionAt(j, &st.js, sp.bp*gp, sp.bp*gm, sp.cFb, sp.cDb, &p)
+	// d(bf)/du = B·z·g′(w), d(bd)/du = −B·z·g′(−w).
+	dbf, dbd := sp.bp*float64(sp.z)*dgp, -sp.bp*float64(sp.z)*dgm
+	st.n, st.cf, st.cd = p.n, p.cf, p.cd
+	st.nJ, st.cfJ, st.cdJ = p.nJ, p.cfJ, p.cdJ
+	st.nU, st.cfU, st.cdU = p.nBf*dbf+p.nBd*dbd, p.cfBf*dbf+p.cfBd*dbd, p.cdBf*dbf+p.cdBd*dbd
+}
+
 // potential solves Σ z_i N_i(j, u) = 0 for u by safeguarded Newton steps
-// from u0 (the last solution: u moves little between evaluations),
-// leaving every species' state in s.ion. It returns u and du/dJ.
+// from u0 (the last solution carried along its slope: u moves little
+// between evaluations), on the net fluxes alone, then leaves every
+// species' full state at u in s.ion. It returns u and du/dJ.
 func (s *solver) potential(j, u0 float64) (u, dudj float64) {
 	const maxIt = 100
+	for k := 0; k < s.ns; k++ {
+		if s.sp[k].bp > 0 {
+			ionPrepare(&s.sp[k], j, &s.ion[k])
+		}
+	}
 	cur := func(u float64) (i, di, scale float64) {
+		d1 := -math.Expm1(-u)
+		e1 := 1 - d1
 		for k := 0; k < s.ns; k++ {
 			sp := &s.sp[k]
 			if sp.z == 0 || sp.bp == 0 {
 				continue
 			}
-			st := &s.ion[k]
-			ionEval(sp, j, u, st)
+			n, nU := ionFlux(sp, j, u, d1, e1, &s.ion[k].js)
 			z := float64(sp.z)
-			i += z * st.n
-			di += z * st.nU
-			scale += math.Abs(z * st.n)
+			i += z * n
+			di += z * nU
+			scale += math.Abs(z * n)
 		}
 		return i, di, scale
 	}
 	lo, hi := math.Inf(-1), math.Inf(1)
 	u = u0
 	var i, di, scale float64
-	at := math.NaN() // where the states were last evaluated
 	for it := 0; it < maxIt; it++ {
 		i, di, scale = cur(u)
-		at = u
+		s.uEvals++
 		if math.Abs(i) <= 1e-14*scale || scale == 0 {
 			break
 		}
@@ -203,6 +302,12 @@ func (s *solver) potential(j, u0 float64) (u, dudj float64) {
 			lo = u
 		}
 		next := u - i/di
+		if di > 0 && math.Abs(i/di) <= 1e-8 {
+			// A last Newton step this small is exact to its square
+			// (~1e-16 relative): take it without checking.
+			u = next
+			break
+		}
 		if !(di > 0) || !finite(next) || !(next > lo && next < hi) {
 			switch {
 			case math.IsInf(lo, -1):
@@ -218,21 +323,24 @@ func (s *solver) potential(j, u0 float64) (u, dudj float64) {
 		}
 		u = next
 	}
-	if at != u {
-		_, di, _ = cur(u)
-	}
+	// The states of every species with B > 0 at the final u, with their
+	// derivatives (and the slope of the current in u for du/dJ).
+	d1 := -math.Expm1(-u)
+	e1 := 1 - d1
+	di = 0
 	// Neutral species do not depend on u; species with B = 0 take the
 	// uncoupled path in eval.
 	var iJ float64
 	for k := 0; k < s.ns; k++ {
 		sp := &s.sp[k]
-		switch {
-		case sp.bp == 0:
-		case sp.z != 0:
-			iJ += float64(sp.z) * s.ion[k].nJ
-		default:
-			ionEval(sp, j, u, &s.ion[k])
+		if sp.bp == 0 {
+			continue
 		}
+		st := &s.ion[k]
+		ionEval(sp, j, u, d1, e1, st)
+		z := float64(sp.z)
+		iJ += z * st.nJ
+		di += z * st.nU
 	}
 	if di > 0 {
 		dudj = -iJ / di
@@ -248,7 +356,6 @@ func (s *solver) potential(j, u0 float64) (u, dudj float64) {
 func OneWay(in *Input, r *Result, i int) (toFeed, toDraw float64) {
 	sp, sr := &in.Species[i], &r.Species[i]
 	w := float64(sp.Charge) * r.Potential
-	gp, _ := ghk(w)
-	gm, _ := ghk(-w)
+	gp, _, gm, _ := ghk2(w)
 	return sp.BMPerS * gm * sr.DrawFaceMolPerM3, sp.BMPerS * gp * sr.FeedFaceMolPerM3
 }

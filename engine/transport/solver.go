@@ -61,6 +61,9 @@ type solver struct {
 	// potential u is not 0; ion holds each species' state at (Jw, u).
 	coupled bool
 	u, dudj float64
+	uEvals  int // zero-current evaluations, all Jw
+	uJ      float64
+	uAt     bool // u, dudj hold at Jw = uJ
 	ion     [MaxSpecies]ionState
 	// Composition π (Input.FacePi): the face concentrations and ∂π/∂c.
 	facePi  CompositionPi
@@ -176,7 +179,16 @@ func (s *solver) evalGeneral(j float64) (f, df float64) {
 	s.evals++
 	s.lastJ = j
 	if s.coupled {
-		s.u, s.dudj = s.potential(j, s.u)
+		// Start from the last potential carried along its slope in Jw.
+		u0 := s.u
+		if s.uAt {
+			u0 += s.dudj * (j - s.uJ)
+		}
+		if !finite(u0) {
+			u0 = s.u
+		}
+		s.u, s.dudj = s.potential(j, u0)
+		s.uJ, s.uAt = j, true
 	}
 	var faces [2][MaxSpecies]face
 	for i := 0; i < s.ns; i++ {
@@ -491,5 +503,5 @@ func (s *solver) finish(out *Result, j, f float64, it int, method string) {
 	if sc := s.a * s.drive; sc > 0 {
 		res = math.Abs(f) / sc
 	}
-	out.Stats = Stats{Iterations: it, Evaluations: s.evals, Residual: res, Method: method}
+	out.Stats = Stats{Iterations: it, Evaluations: s.evals, PotentialEvaluations: s.uEvals, Residual: res, Method: method}
 }

@@ -199,10 +199,13 @@ type Result struct {
 
 // Stats reports how the root was found.
 type Stats struct {
-	Iterations  int     // root-finder iterations after the first evaluation
-	Evaluations int     // residual evaluations
-	Residual    float64 // |A(π_d − π_f − ΔP) − Jw| / (A·(π_Db + π_Fb + |ΔP|))
-	Method      string  // "newton-bracketed", or "trivial" when Jw = 0 exactly
+	Iterations  int // root-finder iterations after the first evaluation
+	Evaluations int // residual evaluations
+	// PotentialEvaluations counts the zero-current evaluations of coupled
+	// ions (over all residual evaluations; 0 when uncoupled).
+	PotentialEvaluations int
+	Residual             float64 // |A(π_d − π_f − ΔP) − Jw| / (A·(π_Db + π_Fb + |ΔP|))
+	Method               string  // "newton-bracketed", or "trivial" when Jw = 0 exactly
 }
 
 // ErrInvalidInput is wrapped by every input error (errs.ErrInvalidInput).
@@ -326,29 +329,8 @@ func validate(in *Input) error {
 	var zD, zF, aD, aF float64 // Σ z·c and Σ |z|·c of each bulk
 	for i := range in.Species {
 		sp := &in.Species[i]
-		fb, fd, fdraw, ffeed, fpi := speciesFields(in, i)
-		if !(sp.BMPerS >= 0 && sp.BMPerS <= maxBMPerS) {
-			return inErr(fb, sp.BMPerS/thermo.MPerSPerLMH, fmt.Sprintf("≥ 0 and ≤ %g LMH", maxBMPerS/thermo.MPerSPerLMH))
-		}
-		if !(sp.DM2PerS >= minDM2PerS && sp.DM2PerS <= maxDM2PerS) {
-			return inErr(fd, sp.DM2PerS, fmt.Sprintf("≥ %g and ≤ %g m²/s", minDM2PerS, maxDM2PerS))
-		}
-		cLimit := func() string { return fmt.Sprintf("≥ 0 and ≤ %g mol/L", maxBulkMolM3/thermo.MolPerM3PerMolPerL) }
-		if !(sp.DrawBulkMolPerM3 >= 0 && sp.DrawBulkMolPerM3 <= maxBulkMolM3) {
-			return inErr(fdraw, sp.DrawBulkMolPerM3/thermo.MolPerM3PerMolPerL, cLimit())
-		}
-		if !(sp.FeedBulkMolPerM3 >= 0 && sp.FeedBulkMolPerM3 <= maxBulkMolM3) {
-			return inErr(ffeed, sp.FeedBulkMolPerM3/thermo.MolPerM3PerMolPerL, cLimit())
-		}
-		if sp.Pi == nil && in.FacePi == nil {
-			return &errs.InputError{Field: fpi, Text: "nil", Limit: "an osmotic-pressure function", Err: ErrInvalidInput}
-		}
-		if sp.Charge < -4 || sp.Charge > 4 {
-			f := fmt.Sprintf("species[%d].charge", i)
-			if sp.Field != "" {
-				f = sp.Field + ".charge"
-			}
-			return inErr(f, float64(sp.Charge), "an ion charge from −4 to 4")
+		if err := validateSpecies(in, i); err != nil {
+			return err
 		}
 		z := float64(sp.Charge)
 		zD += z * sp.DrawBulkMolPerM3
@@ -366,6 +348,40 @@ func validate(in *Input) error {
 	}
 	if math.Abs(zF) > 0.05*aF {
 		return inErr("feed", zF/aF, "electroneutral ions (Σ z·c = 0 within 5 %; this is the relative charge excess)")
+	}
+	return nil
+}
+
+// validateSpecies checks species i (its field names are built only for an
+// error: this runs on every solve).
+func validateSpecies(in *Input, i int) error {
+	sp := &in.Species[i]
+	field := func(k int) string {
+		fb, fd, fdraw, ffeed, fpi := speciesFields(in, i)
+		return [...]string{fb, fd, fdraw, ffeed, fpi}[k]
+	}
+	if !(sp.BMPerS >= 0 && sp.BMPerS <= maxBMPerS) {
+		return inErr(field(0), sp.BMPerS/thermo.MPerSPerLMH, fmt.Sprintf("≥ 0 and ≤ %g LMH", maxBMPerS/thermo.MPerSPerLMH))
+	}
+	if !(sp.DM2PerS >= minDM2PerS && sp.DM2PerS <= maxDM2PerS) {
+		return inErr(field(1), sp.DM2PerS, fmt.Sprintf("≥ %g and ≤ %g m²/s", minDM2PerS, maxDM2PerS))
+	}
+	cLimit := func() string { return fmt.Sprintf("≥ 0 and ≤ %g mol/L", maxBulkMolM3/thermo.MolPerM3PerMolPerL) }
+	if !(sp.DrawBulkMolPerM3 >= 0 && sp.DrawBulkMolPerM3 <= maxBulkMolM3) {
+		return inErr(field(2), sp.DrawBulkMolPerM3/thermo.MolPerM3PerMolPerL, cLimit())
+	}
+	if !(sp.FeedBulkMolPerM3 >= 0 && sp.FeedBulkMolPerM3 <= maxBulkMolM3) {
+		return inErr(field(3), sp.FeedBulkMolPerM3/thermo.MolPerM3PerMolPerL, cLimit())
+	}
+	if sp.Pi == nil && in.FacePi == nil {
+		return &errs.InputError{Field: field(4), Text: "nil", Limit: "an osmotic-pressure function", Err: ErrInvalidInput}
+	}
+	if sp.Charge < -4 || sp.Charge > 4 {
+		f := fmt.Sprintf("species[%d].charge", i)
+		if sp.Field != "" {
+			f = sp.Field + ".charge"
+		}
+		return inErr(f, float64(sp.Charge), "an ion charge from −4 to 4")
 	}
 	return nil
 }
