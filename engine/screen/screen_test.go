@@ -623,3 +623,39 @@ func TestRobustnessWorkersIdentical(t *testing.T) {
 		}
 	}
 }
+
+// A sweep shared out among workers gives the same series as one worker
+// (each point is independent; concentration, S and crossflow sweeps).
+func TestSweepWorkersIdentical(t *testing.T) {
+	defer func(f func() int) { robustWorkers = f }(robustWorkers)
+	for _, spec := range []SweepSpec{
+		{Variable: SweepConcentration, From: 0.1, To: 2, Points: 7, Unit: thermo.MolPerL},
+		{Variable: SweepS, From: 200e-6, To: 900e-6, Points: 5},
+		{Variable: SweepCrossflow, From: 0.05, To: 0.3, Points: 4},
+	} {
+		var want []SweepSeries
+		for _, w := range []int{1, 2, 5} {
+			robustWorkers = func() int { return w }
+			sc := baseScenario(t, "NaCl", "MgCl2", "glucose", "KCl", "Na2SO4")
+			sc.Feed = seawaterFeed(t)
+			sc.Orientations = []transport.Orientation{transport.ALFS, transport.ALDS}
+			s, err := Sweep(context.Background(), sc, lib(t), spec)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if want == nil {
+				want = s
+				continue
+			}
+			for k := range want {
+				for i := range want[k].Points {
+					a, b := want[k].Points[i], s[k].Points[i]
+					if a.Reason != b.Reason || (a.Metrics == nil) != (b.Metrics == nil) ||
+						a.Metrics != nil && (a.Metrics.JwMPerS != b.Metrics.JwMPerS || a.Metrics.SRSFKgPerM3 != b.Metrics.SRSFKgPerM3) {
+						t.Errorf("%v, %d workers, %s %v point %d differs", spec.Variable, w, want[k].Solute.ID, want[k].Orientation, i)
+					}
+				}
+			}
+		}
+	}
+}

@@ -4,6 +4,7 @@ import (
 	"context"
 	"drawsift/engine/limits"
 	"math"
+	"sync"
 
 	"drawsift/engine/library"
 	"drawsift/engine/thermo"
@@ -86,72 +87,114 @@ func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSp
 			series = append(series, SweepSeries{Solute: s, Orientation: o, Points: make([]SweepPoint, spec.Points)})
 		}
 	}
-	var scratch transport.Result
 	var e *env
 	var err error
-	if spec.Variable == SweepConcentration || spec.Variable == SweepS || spec.Variable == SweepCrossflow {
-		if spec.Variable == SweepS {
-			local.Membrane.SM = xs[0]
-		}
-		if spec.Variable == SweepCrossflow {
-			local.Channel.VelocityMPerS, local.Channel.FeedVelocityMPerS = xs[0], 0
-		}
-		if e, err = prepare(ctx, &local, lib); err != nil {
-			return nil, err
-		}
-	}
-	for i, x := range xs {
-		if err := ctx.Err(); err != nil {
-			return nil, err
-		}
-		switch spec.Variable {
-		case SweepTemperature:
+	if spec.Variable == SweepTemperature {
+		// Every temperature prepares the scenario afresh: one point at a
+		// time, every candidate.
+		var scratch transport.Result
+		for i, x := range xs {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
 			local.TemperatureK = x
 			if e, err = prepare(ctx, &local, lib); err != nil {
 				return nil, err
 			}
-		case SweepS:
-			local.Membrane.SM = x
-		case SweepCrossflow:
-			local.Channel.VelocityMPerS = x
-			if e.feedX != nil {
-				mt, err := channelK(local.Channel, true, e.feedX.DensityKgPerM3(e.feedM), e.feedX.ViscosityPaS(e.feedM), e.feedD)
-				if err != nil {
-					return nil, err
-				}
-				e.kFeed = mt.KMPerS
-			}
+			sweepPoint(e, sc.Orientations, spec, series, 0, len(e.cands), i, x, &scratch)
 		}
-		k := 0
-		for ci := range e.cands {
-			c := &e.cands[ci]
-			for _, o := range sc.Orientations {
-				pt := &series[k].Points[i]
-				k++
-				pt.X = x
-				var m Metrics
-				var ex *exclusion
-				switch {
-				case c.excl != nil:
-					ex = c.excl
-				case spec.Variable == SweepConcentration:
-					mm, err := c.x.ToMolality(x, spec.Unit)
-					if err != nil {
-						ex = &exclusion{ReasonInsoluble, err.Error()}
-					} else {
-						ex = e.metricsAt(c, o, mm, &nominal, &m, &scratch)
+		return series, nil
+	}
+	if spec.Variable == SweepS {
+		local.Membrane.SM = xs[0]
+	}
+	if spec.Variable == SweepCrossflow {
+		local.Channel.VelocityMPerS, local.Channel.FeedVelocityMPerS = xs[0], 0
+	}
+	if e, err = prepare(ctx, &local, lib); err != nil {
+		return nil, err
+	}
+	// The other variables keep the prepared candidates: they are shared out
+	// among the cores (robustWorkers), each worker with its own copy of the
+	// scenario and the env, so the series are the same whatever the count.
+	n := len(e.cands)
+	workers := min(robustWorkers(), n)
+	var wg sync.WaitGroup
+	errs := make([]error, workers)
+	for wk := 0; wk < workers; wk++ {
+		lo, hi := wk*n/workers, (wk+1)*n/workers
+		w, ws := e, &local
+		if workers > 1 {
+			own := local
+			ws = &own
+			w = e.forWorker()
+			w.sc = ws
+		}
+		wg.Add(1)
+		go func(wk int) {
+			defer wg.Done()
+			var scratch transport.Result
+			for i, x := range xs {
+				if err := ctx.Err(); err != nil {
+					errs[wk] = err
+					return
+				}
+				switch spec.Variable {
+				case SweepS:
+					ws.Membrane.SM = x
+				case SweepCrossflow:
+					ws.Channel.VelocityMPerS = x
+					if w.feedX != nil {
+						mt, err := channelK(ws.Channel, true, w.feedX.DensityKgPerM3(w.feedM), w.feedX.ViscosityPaS(w.feedM), w.feedD)
+						if err != nil {
+							errs[wk] = err
+							return
+						}
+						w.kFeed = mt.KMPerS
 					}
-				default:
-					ex = e.evaluate(c, o, &nominal, &m, &scratch)
 				}
-				if ex != nil {
-					pt.Reason = ex.Error()
-					continue
-				}
-				mc := m
-				pt.Metrics = &mc
+				sweepPoint(w, sc.Orientations, spec, series, lo, hi, i, x, &scratch)
 			}
+		}(wk)
+	}
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return nil, err
 		}
 	}
 	return series, nil
+}
+
+// sweepPoint evaluates candidates lo..hi−1 of e in every orientation at
+// point i (value x) into their series.
+func sweepPoint(e *env, oris []transport.Orientation, spec SweepSpec, series []SweepSeries, lo, hi, i int, x float64, scratch *transport.Result) {
+	for ci := lo; ci < hi; ci++ {
+		c := &e.cands[ci]
+		for oi, o := range oris {
+			pt := &series[ci*len(oris)+oi].Points[i]
+			pt.X = x
+			var m Metrics
+			var ex *exclusion
+			switch {
+			case c.excl != nil:
+				ex = c.excl
+			case spec.Variable == SweepConcentration:
+				mm, err := c.x.ToMolality(x, spec.Unit)
+				if err != nil {
+					ex = &exclusion{ReasonInsoluble, err.Error()}
+				} else {
+					ex = e.metricsAt(c, o, mm, &nominal, &m, scratch)
+				}
+			default:
+				ex = e.evaluate(c, o, &nominal, &m, scratch)
+			}
+			if ex != nil {
+				pt.Reason = ex.Error()
+				continue
+			}
+			mc := m
+			pt.Metrics = &mc
+		}
+	}
 }
