@@ -32,7 +32,9 @@ wasm: $(PAGE_WASM) $(PAGE_EXEC)
 $(PAGE_WASM): $(PAGE_SRC) go.mod go.sum
 	@mkdir -p build
 	GOOS=js GOARCH=wasm $(GO) build -tags stdjson -trimpath -buildvcs=false -ldflags='-s -w' -o $@ ./wasm/page
-	gzip -9 -k -f $@
+	@# zopfli writes standard gzip (RFC 1952) about 4 % smaller than gzip -9;
+	@# it is used when installed (apt: zopfli), else gzip -9.
+	@if command -v zopfli >/dev/null; then zopfli --i3 $@; else gzip -9 -k -f $@; fi
 	@if command -v brotli >/dev/null; then brotli -q 11 -k -f $@ && sha256sum $@ > $@.br.sha256; else rm -f $@.br $@.br.sha256; fi
 	@printf 'page wasm: %s bytes, %s gzip, %s brotli\n' "$$(wc -c < $@)" "$$(wc -c < $@.gz)" "$$(test -f $@.br && wc -c < $@.br || echo -)"
 
