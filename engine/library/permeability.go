@@ -2,6 +2,7 @@ package library
 
 import (
 	"math"
+	"sync"
 )
 
 // Ion data for transport: molar mass and limiting diffusion coefficient.
@@ -131,13 +132,21 @@ const naclD0 = 1.611e-9
 var naclHindrance = naclD0 * meanHindrance(StokesRadiusNM(naclD0))
 
 // HinderedFactor returns B_j/B_NaCl by HinderedRule for a species of
-// limiting diffusivity d0 (m²/s).
+// limiting diffusivity d0 (m²/s). Each value is computed once per process
+// (a 201-node quadrature; the library holds a few dozen distinct D⁰).
 func HinderedFactor(d0 float64) float64 {
 	if !(d0 > 0) {
 		return 1
 	}
-	return d0 * meanHindrance(StokesRadiusNM(d0)) / naclHindrance
+	if f, ok := hinderedMemo.Load(d0); ok {
+		return f.(float64)
+	}
+	f := d0 * meanHindrance(StokesRadiusNM(d0)) / naclHindrance
+	hinderedMemo.Store(d0, f)
+	return f
 }
+
+var hinderedMemo sync.Map // float64 → float64
 
 // BOrigin says where a B comes from.
 type BOrigin string
