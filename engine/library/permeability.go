@@ -133,20 +133,31 @@ var naclHindrance = naclD0 * meanHindrance(StokesRadiusNM(naclD0))
 
 // HinderedFactor returns B_j/B_NaCl by HinderedRule for a species of
 // limiting diffusivity d0 (m²/s). Each value is computed once per process
-// (a 201-node quadrature; the library holds a few dozen distinct D⁰).
+// (a 201-node quadrature; the library holds a few dozen distinct D⁰;
+// the memo keeps at most 1,024).
 func HinderedFactor(d0 float64) float64 {
 	if !(d0 > 0) {
 		return 1
 	}
-	if f, ok := hinderedMemo.Load(d0); ok {
-		return f.(float64)
+	hinderedMu.Lock()
+	f, ok := hinderedMemo[d0]
+	hinderedMu.Unlock()
+	if ok {
+		return f
 	}
-	f := d0 * meanHindrance(StokesRadiusNM(d0)) / naclHindrance
-	hinderedMemo.Store(d0, f)
+	f = d0 * meanHindrance(StokesRadiusNM(d0)) / naclHindrance
+	hinderedMu.Lock()
+	if len(hinderedMemo) < 1024 { // custom solutes bring their own D⁰: bounded
+		hinderedMemo[d0] = f
+	}
+	hinderedMu.Unlock()
 	return f
 }
 
-var hinderedMemo sync.Map // float64 → float64
+var (
+	hinderedMu   sync.Mutex
+	hinderedMemo = map[float64]float64{}
+)
 
 // BOrigin says where a B comes from.
 type BOrigin string
