@@ -140,9 +140,9 @@ func newJState(j, rf, rd float64) jState {
 	return jState{p: p, e: e, g: rf * pa, dg: -rf * rf * qa, h: rd * pb, dh: -rd * rd * qb, dp: -rf * p, de: -rd * e}
 }
 
-// profileU is profile with different coefficients at the two faces of
-// the active layer, N = bf·c_f − bd·c_d, for j ≥ 0. With the notation of
-// profile,
+// profileJ is profile with different coefficients at the two faces of
+// the active layer, N = bf·c_f − bd·c_d, for j ≥ 0, from a prepared
+// jState. With the notation of profile,
 //
 //	Vs = p + bf·G + bd·h·p
 //	N  = (bf·cF − bd·cD·e·p)/Vs
@@ -150,12 +150,6 @@ func newJState(j, rf, rd float64) jState {
 //	cd = [cD·e·(p + bf·G) + bf·h·cF]/Vs
 //
 // (profile is the case bf = bd). Requires bf, bd > 0 or one of them 0.
-func profileU(j, bf, bd, cF, cD, rf, rd float64, out *partials) {
-	st := newJState(j, rf, rd)
-	profileJ(&st, bf, bd, cF, cD, out)
-}
-
-// profileJ is profileU from a prepared jState.
 func profileJ(st *jState, bf, bd, cF, cD float64, out *partials) {
 	p, e, g, dg, h, dh, dp, de := st.p, st.e, st.g, st.dg, st.h, st.dh, st.dp, st.de
 	vs := p + bf*g + bd*h*p
