@@ -91,11 +91,18 @@ func (p *Problem) Free() []string {
 	return out
 }
 
-// rowField names a row's field; a row read from CSV also names its line.
+// rowErr puts a row's index before an error's field; a row read from
+// CSV also names its line.
 func rowErr(i int, r *Row, err error) error {
 	ie, ok := err.(*errs.InputError)
 	if !ok {
 		return err
+	}
+	// Request-level fields every row shares keep their own names.
+	for _, shared := range []string{"channel", "osmotic_model", "external_cp", "membrane"} {
+		if ie.Field == shared || strings.HasPrefix(ie.Field, shared+".") {
+			return err
+		}
 	}
 	c := ie.Prefix(fmt.Sprintf("data[%d]", i))
 	if r.line > 0 {
