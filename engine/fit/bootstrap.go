@@ -14,7 +14,7 @@ import (
 
 // BootstrapWork caps samples × measured fluxes: the work budget of one
 // bootstrap (each resample is a fit from the estimate).
-const BootstrapWork = 200000
+const BootstrapWork = 100000
 
 func (p *Problem) bootstrapSpec(b *BootstrapSpec) error {
 	n, err := limits.FitBootstrapSample.Or(b.Samples)

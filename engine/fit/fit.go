@@ -346,7 +346,7 @@ func (p *Problem) identifiability(res *Result) {
 	}
 	for i := range res.Correlation {
 		for c := i + 1; c < len(res.Correlation); c++ {
-			if r := res.Correlation[i][c]; math.Abs(r) > 0.95 {
+			if r := res.Correlation[i][c]; math.Abs(r) > 0.99 {
 				add("correlation", "%s and %s are strongly correlated (r = %.3f): the data determine a combination of them better than either", paramLabel(p.free[i]), paramLabel(p.free[c]), r)
 			}
 		}

@@ -48,8 +48,8 @@ func TestSciPyLeastSquares(t *testing.T) {
 				order = append(order, set)
 			}
 			row := Row{Orientation: r[col["orientation"]], TemperatureC: ptr(25),
-				Draw:         &scenario.Concentration{Solute: "NaCl", Concentration: ptr(num(r, "draw_mol_per_l")), Unit: "mol/L"},
-				KDrawMPerS:   ptr(num(r, "k_m_per_s")), KFeedMPerS: ptr(num(r, "k_m_per_s")), DiffusivityM2PerS: ptr(num(r, "d_m2_per_s")),
+				Draw:       &scenario.Concentration{Solute: "NaCl", Concentration: ptr(num(r, "draw_mol_per_l")), Unit: "mol/L"},
+				KDrawMPerS: ptr(num(r, "k_m_per_s")), KFeedMPerS: ptr(num(r, "k_m_per_s")), DiffusivityM2PerS: ptr(num(r, "d_m2_per_s")),
 				WaterFluxLMH: ptr(num(r, "water_flux_lmh")), ReverseSoluteFluxGMH: ptr(num(r, "reverse_solute_flux_gmh"))}
 			if c := num(r, "feed_mol_per_l"); c > 0 {
 				row.Feed = &scenario.Concentration{Solute: "NaCl", Concentration: ptr(c), Unit: "mol/L"}
