@@ -130,10 +130,7 @@ func DispatchProgress(ctx context.Context, op string, body []byte, progress func
 			e.Field = errs.Join("batch", e.Field)
 		}
 	case OpFit:
-		var req FitRequest
-		if e = decode(body, &req); e == nil {
-			resp, e = Fit(ctx, &req, progress)
-		}
+		resp, e = fitOp(ctx, body, progress)
 	case OpHealth:
 		resp = Health{Status: "ok", EngineVersion: EngineVersion, JSON: jsonx.Library}
 	default:

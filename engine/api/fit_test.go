@@ -1,3 +1,5 @@
+//go:build !nofit
+
 package api
 
 import (
@@ -84,9 +86,9 @@ func abs(x float64) float64 {
 // error (issue 13).
 func TestFitErrors(t *testing.T) {
 	for body, field := range map[string]string{
-		strings.Replace(fitBody, `"water_flux_lmh": 7.35`, `"water_flux_lmh": -7.35`, 1): "data[3].water_flux_lmh",
-		strings.Replace(fitBody, `"water_flux_lmh": 8.07`, `"water_flux_lmh": 8.07, "water_flux": 1`, 1):  "data[2].water_flux",
-		`{"data": [], "csv": "orientation,draw_solute\n"}`:                                                 "csv",
+		strings.Replace(fitBody, `"water_flux_lmh": 7.35`, `"water_flux_lmh": -7.35`, 1):                     "data[3].water_flux_lmh",
+		strings.Replace(fitBody, `"water_flux_lmh": 8.07`, `"water_flux_lmh": 8.07, "water_flux": 1`, 1):     "data[2].water_flux",
+		`{"data": [], "csv": "orientation,draw_solute\n"}`:                                                   "csv",
 		`{"csv": "orientation,draw_solute,draw_concentration_mol_per_l,water_flux_lmh\nAL-FS,NaCl,0.5,x\n"}`: "data[0].water_flux_lmh",
 	} {
 		out, e := Dispatch(context.Background(), OpFit, []byte(body))
