@@ -71,3 +71,23 @@ func runFit(t testing.TB, spec *Spec) *Result {
 }
 
 func relErr(got, want float64) float64 { return math.Abs(got-want) / math.Abs(want) }
+
+// fill sets each row's measured fluxes to what the flux operation's
+// resolution and transport.Solve give with membrane mem.
+func fill(t testing.TB, rows []Row, mem scenario.MembraneSpec) {
+	t.Helper()
+	for i := range rows {
+		r := &rows[i]
+		f, err := scenario.ResolveFlux(&scenario.FluxSpec{Membrane: &mem, Orientation: r.Orientation, Draw: r.Draw, Feed: r.Feed,
+			TemperatureC: r.TemperatureC, KDrawMPerS: r.KDrawMPerS, KFeedMPerS: r.KFeedMPerS})
+		if err != nil {
+			t.Fatal(err)
+		}
+		res, err := transport.Solve(&f.Input)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r.WaterFluxLMH = ptr(res.JwMPerS / thermo.MPerSPerLMH)
+		r.ReverseSoluteFluxGMH = ptr(res.JsMolPerM2S * f.Draw.X.MolarMassKgPerMol() * thermo.GPerM2HPerKgPerM2S)
+	}
+}
