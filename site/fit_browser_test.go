@@ -17,8 +17,8 @@ import (
 // the page shows are the native engine's for the request it sent, the
 // parity plots are drawn, the fitted membrane becomes the scenario's
 // (and the screen runs with it), and bad CSV is refused naming the row
-// and field. It waits on body data-fit, which the page sets after each
-// fit.
+// and field; a seeded bootstrap reports progress and matches the native
+// one. It waits on body data-fit, which the page sets after each fit.
 func TestPageFit(t *testing.T) {
 	b, run := openServed(t)
 	b.do(t, chromedp.Click(chromedp.ID("tab-fit")), chromedp.Click(chromedp.ID("btn-fit-example")), chromedp.Click(chromedp.ID("btn-fit")))
@@ -68,11 +68,29 @@ func TestPageFit(t *testing.T) {
 		t.Error("no undo offered for the scenario the fitted membrane replaced")
 	}
 
+	// A seeded bootstrap reports its progress through the worker and adds
+	// its intervals, equal to the native engine's for the same seed.
+	b.do(t, chromedp.Click(chromedp.ID("tab-fit")), chromedp.Click(chromedp.ID("fit-boot")),
+		chromedp.SetValue(chromedp.ID("fit-boot-n"), "300"), chromedp.Click(chromedp.ID("btn-fit")))
+	b.waitFor(t, `/^(done|error)-2$/.test(document.body.dataset.fit || "")`)
+	if got := eval[string](t, b, `document.body.dataset.fit`); got != "done-2" {
+		t.Fatalf("the bootstrap fit ended %s: %s", got, eval[string](t, b, `document.getElementById("fit-error").textContent`))
+	}
+	if n := eval[string](t, b, `document.body.dataset.fitProgress`); n == "" || n == "0" {
+		t.Errorf("no bootstrap progress reported (%q)", n)
+	}
+	breq := eval[map[string]any](t, b, `window.DrawsiftPage.fitLast().request`)
+	bwant := nativeJSON[api.FitResponse](t, api.OpFit, breq)
+	blow := eval[float64](t, b, `window.DrawsiftPage.fitLast().response.s_um.bootstrap.ci_low`)
+	if bwant.SUM.Bootstrap == nil || math.Abs(blow-bwant.SUM.Bootstrap.CILow) > 1e-6*blow {
+		t.Errorf("bootstrap S low: page %g, native %+v", blow, bwant.SUM.Bootstrap)
+	}
+
 	// Bad CSV: the engine's error names the row and field.
-	b.do(t, chromedp.Click(chromedp.ID("tab-fit")),
+	b.do(t, chromedp.Click(chromedp.ID("fit-boot")),
 		chromedp.SetValue(chromedp.ID("fit-csv"), "orientation,draw_solute,draw_concentration_mol_per_l,water_flux_lmh\nAL-FS,NaCl,0.5,-8\nAL-FS,NaCl,1,9\n"),
 		chromedp.Click(chromedp.ID("btn-fit")))
-	b.waitFor(t, `/^(done|error)-2$/.test(document.body.dataset.fit || "")`)
+	b.waitFor(t, `/^(done|error)-3$/.test(document.body.dataset.fit || "")`)
 	if msg := eval[string](t, b, `document.getElementById("fit-error").textContent`); !strings.Contains(msg, "data[0].water_flux_lmh") || !strings.Contains(msg, "CSV line 2") {
 		t.Errorf("bad CSV: %q", msg)
 	}
