@@ -1,7 +1,10 @@
 # The page: the engine as js/wasm for the browser, the single-file offline
 # bundle, and the page's size/speed benchmark. Included by the Makefile.
 #
-#   make wasm        build/drawsift.wasm + build/wasm_exec.js (same toolchain)
+#   make wasm        build/drawsift.wasm (the page's engine, without the fit
+#                    operation: -tags nofit keeps it inside its download budget),
+#                    build/drawsift-fit.wasm (the full engine, loaded by the Fit
+#                    tab only) + build/wasm_exec.js (same toolchain)
 #   make bundle      build/drawsift.html, the page as one file for file://
 #   make page-bench  wasm size, bundle size, navigation → first ranked result
 #                    in headless Chromium (a benchmark, not a test)
@@ -10,6 +13,7 @@
 
 PORT       ?= 8080
 PAGE_WASM  := build/drawsift.wasm
+FIT_WASM   := build/drawsift-fit.wasm
 PAGE_EXEC  := build/wasm_exec.js
 PAGE_HTML  := build/drawsift.html
 PAGE_SRC   := $(shell find engine data wasm/page -name '*.go' -o -name '*.json' 2>/dev/null)
@@ -26,17 +30,25 @@ SITE_TIMEOUT ?= 30m
 test-site:
 	$(GO) test -count=1 -timeout $(SITE_TIMEOUT) ./site/
 
-wasm: $(PAGE_WASM) $(PAGE_EXEC)
+wasm: $(PAGE_WASM) $(FIT_WASM) $(PAGE_EXEC)
 
-# -tags stdjson: encoding/json instead of go-json (about 1 MB gzip less).
+# -tags stdjson: encoding/json instead of go-json (about 1 MB gzip less);
+# nofit: the fit operation (about 90 kB gzip) lives in $(FIT_WASM).
 $(PAGE_WASM): $(PAGE_SRC) go.mod go.sum
+	@mkdir -p build
+	GOOS=js GOARCH=wasm $(GO) build -tags stdjson,nofit -trimpath -buildvcs=false -ldflags='-s -w' -o $@ ./wasm/page
+	gzip -9 -k -f $@
+	@if command -v brotli >/dev/null; then brotli -q 11 -k -f $@ && sha256sum $@ > $@.br.sha256; else rm -f $@.br $@.br.sha256; fi
+	@printf 'page wasm: %s bytes, %s gzip, %s brotli\n' "$$(wc -c < $@)" "$$(wc -c < $@.gz)" "$$(test -f $@.br && wc -c < $@.br || echo -)"
+
+$(FIT_WASM): $(PAGE_SRC) go.mod go.sum
 	@mkdir -p build
 	GOOS=js GOARCH=wasm $(GO) build -tags stdjson -trimpath -buildvcs=false -ldflags='-s -w' -o $@ ./wasm/page
 	@# zopfli writes standard gzip (RFC 1952) about 4 % smaller than gzip -9;
 	@# it is used when installed (apt: zopfli), else gzip -9.
 	@if command -v zopfli >/dev/null; then zopfli --i3 $@; else gzip -9 -k -f $@; fi
 	@if command -v brotli >/dev/null; then brotli -q 11 -k -f $@ && sha256sum $@ > $@.br.sha256; else rm -f $@.br $@.br.sha256; fi
-	@printf 'page wasm: %s bytes, %s gzip, %s brotli\n' "$$(wc -c < $@)" "$$(wc -c < $@.gz)" "$$(test -f $@.br && wc -c < $@.br || echo -)"
+	@printf 'fit-tab wasm: %s bytes, %s gzip, %s brotli\n' "$$(wc -c < $@)" "$$(wc -c < $@.gz)" "$$(test -f $@.br && wc -c < $@.br || echo -)"
 
 # wasm_exec.js must come from the toolchain that built the wasm.
 $(PAGE_EXEC): $(PAGE_WASM)

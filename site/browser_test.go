@@ -112,7 +112,10 @@ func pageBuild(t testing.TB) pageProducts {
 			}
 			return nil
 		}
-		if buildErr = run([]string{"GOOS=js", "GOARCH=wasm"}, "build", "-tags", "stdjson", "-trimpath", "-ldflags=-s -w", "-o", p.wasm, "./wasm/page"); buildErr != nil {
+		if buildErr = run([]string{"GOOS=js", "GOARCH=wasm"}, "build", "-tags", "stdjson,nofit", "-trimpath", "-ldflags=-s -w", "-o", p.wasm, "./wasm/page"); buildErr != nil {
+			return
+		}
+		if buildErr = run([]string{"GOOS=js", "GOARCH=wasm"}, "build", "-tags", "stdjson", "-trimpath", "-ldflags=-s -w", "-o", filepath.Join(dir, "drawsift-fit.wasm"), "./wasm/page"); buildErr != nil {
 			return
 		}
 		goroot, err := exec.Command("go", "env", "GOROOT").Output()

@@ -13,6 +13,7 @@ package main
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"flag"
 	"fmt"
 	"io"
@@ -29,14 +30,18 @@ commands:
   flux      water and reverse solute flux through an FO membrane
   screen    rank candidate draw solutes for a scenario (or many: JSON array or NDJSON)
   batch     run a JSON array of {"op": "osmotic"|"flux", "body": {...}} in one call
+  fit       fit a membrane's A, B and S (with confidence intervals) to measured fluxes:
+            drawsift fit --csv data.csv [-f options.json]
   defaults  print the engine's defaults and limits (what every field takes when omitted)
   serve     serve the JSON API at /v1/ and the page at / (drawsift serve -h)
   bundle    write the single-file offline page (drawsift bundle -o FILE.html)
   demo      print the built-in demo table
   version   print the engine version
 
-flags for osmotic, flux, screen, batch:
+flags for osmotic, flux, screen, batch, fit:
   -f FILE             read the request from FILE instead of standard input
+  --csv FILE          (fit) the measurements as CSV with units in the header; the
+                      request (-f, optional) then gives only the options
   --format FORMAT     json (default), csv or table
 `
 
@@ -54,7 +59,7 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	}
 	cmd, rest := args[0], args[1:]
 	switch cmd {
-	case api.OpOsmotic, api.OpFlux, api.OpScreen, api.OpBatch:
+	case api.OpOsmotic, api.OpFlux, api.OpScreen, api.OpBatch, api.OpFit:
 		return runOp(cmd, rest, stdin, stdout, stderr)
 	case api.OpDefaults:
 		if len(rest) > 0 {
@@ -102,6 +107,10 @@ func runOp(op string, args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	if op == api.OpScreen {
 		batch = addBatchFlags(fs)
 	}
+	var csvFile *string
+	if op == api.OpFit {
+		csvFile = fs.String("csv", "", "read the measurements from the CSV `FILE` (units in the header)")
+	}
 	if err := fs.Parse(args); err != nil {
 		return 1
 	}
@@ -115,6 +124,9 @@ func runOp(op string, args []string, stdin io.Reader, stdout, stderr io.Writer) 
 		return 1
 	}
 	var in io.Reader = stdin
+	if csvFile != nil && *csvFile != "" && *file == "" {
+		in = strings.NewReader("{}")
+	}
 	if demo != nil && *demo {
 		in = bytes.NewReader(demoScenario)
 	} else if *file != "" {
@@ -134,6 +146,12 @@ func runOp(op string, args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	if len(body) > maxRequestBytes {
 		writeErr(stdout, &api.Error{Field: "", Message: fmt.Sprintf("request larger than %d bytes", maxRequestBytes), Limit: maxRequestBytes})
 		return 2
+	}
+	if csvFile != nil && *csvFile != "" {
+		if body, err = withCSV(body, *csvFile); err != nil {
+			fmt.Fprintf(stderr, "drawsift %s: %v\n", op, err)
+			return 1
+		}
 	}
 	if batch != nil {
 		if code, handled := batch.runBatch(op, body, f, stdout, stderr); handled {
@@ -162,4 +180,31 @@ const maxRequestBytes = 64 << 20
 
 func writeErr(w io.Writer, e *api.Error) {
 	fmt.Fprintf(w, `{"error":{"field":%q,"message":%q}}`+"\n", e.Field, e.Message)
+}
+
+// withCSV puts the text of the CSV file into the fit request's "csv"
+// field (the request's other members kept as they are).
+func withCSV(body []byte, path string) ([]byte, error) {
+	text, err := os.ReadFile(path)
+	if err != nil {
+		return nil, err
+	}
+	if len(text) > maxRequestBytes {
+		return nil, fmt.Errorf("%s: larger than %d bytes", path, maxRequestBytes)
+	}
+	req := map[string]json.RawMessage{}
+	if len(bytes.TrimSpace(body)) > 0 {
+		if err := json.Unmarshal(body, &req); err != nil {
+			return nil, fmt.Errorf("the request with --csv must be a JSON object of options: %v", err)
+		}
+	}
+	if _, ok := req["data"]; ok {
+		return nil, fmt.Errorf("--csv and a request with \"data\" rows: give the measurements once")
+	}
+	enc, err := json.Marshal(string(text))
+	if err != nil {
+		return nil, err
+	}
+	req["csv"] = enc
+	return json.Marshal(req)
 }

@@ -188,10 +188,14 @@ func (h *siteHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	}
 	var f *siteFile
 	switch p {
-	case "/drawsift.wasm", "/wasm_exec.js":
+	case "/drawsift.wasm", "/wasm_exec.js", "/drawsift-fit.wasm":
 		src := h.wasmPath
-		if p == "/wasm_exec.js" {
+		switch p {
+		case "/wasm_exec.js":
 			src = h.execPath
+		case "/drawsift-fit.wasm":
+			// The full engine for the Fit tab, built beside the page's.
+			src = filepath.Join(filepath.Dir(h.wasmPath), "drawsift-fit.wasm")
 		}
 		var err error
 		if f, err = h.fromDisk(src); err != nil {

@@ -62,6 +62,7 @@ func TestSiteHandlerServesPage(t *testing.T) {
 		{"/plots.js", "text/javascript; charset=utf-8"},
 		{"/library.js", "text/javascript; charset=utf-8"},
 		{"/report.js", "text/javascript; charset=utf-8"},
+		{"/fit.js", "text/javascript; charset=utf-8"},
 		{"/files.js", "text/javascript; charset=utf-8"},
 		{"/worker.js", "text/javascript; charset=utf-8"},
 		{"/sw.js", "text/javascript; charset=utf-8"},
@@ -309,5 +310,28 @@ func TestSiteHandlerPrecompressed(t *testing.T) {
 	}
 	if b, _ := io.ReadAll(zr); !bytes.Equal(b, append(wasm, 'x')) {
 		t.Error("after a rebuild the served wasm is stale")
+	}
+}
+
+// TestSiteHandlerServesFitEngine: the Fit tab's engine (drawsift-fit.wasm,
+// built beside the page's by make wasm) is served from beside --wasm, as
+// application/wasm, and a missing one is a 404 that says how to build it.
+func TestSiteHandlerServesFitEngine(t *testing.T) {
+	wasmPath, _ := fakeBuild(t)
+	h, err := newSiteHandler(wasmPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r := get(t, h, "GET", "/drawsift-fit.wasm", nil); r.StatusCode != http.StatusNotFound {
+		t.Errorf("missing fit engine: status %d", r.StatusCode)
+	}
+	fit := []byte("\x00asm\x01\x00\x00\x00 fit engine")
+	if err := os.WriteFile(filepath.Join(filepath.Dir(wasmPath), "drawsift-fit.wasm"), fit, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	r := get(t, h, "GET", "/drawsift-fit.wasm", nil)
+	body, _ := io.ReadAll(r.Body)
+	if r.StatusCode != 200 || r.Header.Get("Content-Type") != "application/wasm" || !bytes.Equal(body, fit) {
+		t.Errorf("fit engine: status %d, type %q, %d bytes", r.StatusCode, r.Header.Get("Content-Type"), len(body))
 	}
 }

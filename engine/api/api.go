@@ -34,10 +34,12 @@ const (
 	OpDefaults = "defaults"
 	// OpBatch runs a list of osmotic and flux requests in one call.
 	OpBatch = "batch"
+	// OpFit fits a membrane's A, B and S to measured fluxes.
+	OpFit = "fit"
 )
 
 // Operations lists every operation Dispatch runs.
-var Operations = []string{OpOsmotic, OpFlux, OpScreen, OpSolutes, OpPresets, OpDefaults, OpBatch, OpHealth}
+var Operations = []string{OpOsmotic, OpFlux, OpScreen, OpSolutes, OpPresets, OpDefaults, OpBatch, OpFit, OpHealth}
 
 // Error kinds, mapped to HTTP statuses by the hosts.
 const (
@@ -127,6 +129,8 @@ func DispatchProgress(ctx context.Context, op string, body []byte, progress func
 		} else {
 			e.Field = errs.Join("batch", e.Field)
 		}
+	case OpFit:
+		resp, e = fitOp(ctx, body, progress)
 	case OpHealth:
 		resp = Health{Status: "ok", EngineVersion: EngineVersion, JSON: jsonx.Library}
 	default:

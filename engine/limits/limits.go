@@ -272,6 +272,18 @@ var (
 	// Hazard lists: only len(library.HazardFlags) (8) flags exist, so 32
 	// entries leave room for repeats (dropped) while bounding the work of
 	// matching them (our own choice).
+	// Fit (engine/fit): the measured fluxes, their uncertainties, the
+	// confidence level and the bootstrap's size.
+	FitRows            = Range{Field: "data", Min: 1, Max: 1000, Integer: true, Count: true, Why: "rows of one characterisation; bounds the work of a fit"}
+	FitWaterFlux       = Range{Field: "data[].water_flux_lmh", Unit: "LMH", Min: 0, MinOpen: true, Max: 1000, Why: "a measured forward water flux: positive, and beyond any FO membrane past 1000 LMH"}
+	FitReverseFlux     = Range{Field: "data[].reverse_solute_flux_gmh", Unit: "gMH", Min: 0, MinOpen: true, Max: 1e5, Why: "a measured reverse solute flux: positive (omit the field when not measured); unit-slip guard"}
+	FitWaterFluxSD     = Range{Field: "data[].water_flux_sd_lmh", Unit: "LMH", Min: 0, MinOpen: true, Max: 1000, Why: "a standard uncertainty: positive"}
+	FitReverseFluxSD   = Range{Field: "data[].reverse_solute_flux_sd_gmh", Unit: "gMH", Min: 0, MinOpen: true, Max: 1e5, Why: "a standard uncertainty: positive"}
+	FitRelError        = Range{Field: "measurement_error.water_flux_relative", Min: 0, Max: 1, Default: 0.05, HasDefault: true, Why: "relative standard uncertainty of each flux; equal relative weights make the sum of squared relative errors (Tiraferri et al. 2013)"}
+	FitAbsWaterFlux    = Range{Field: "measurement_error.water_flux_lmh", Unit: "LMH", Min: 0, Max: 100, Default: 0, HasDefault: true, Why: "an absolute floor of each water flux's uncertainty"}
+	FitAbsReverseFlux  = Range{Field: "measurement_error.reverse_solute_flux_gmh", Unit: "gMH", Min: 0, Max: 1e4, Default: 0, HasDefault: true, Why: "an absolute floor of each reverse solute flux's uncertainty"}
+	FitConfidence      = Range{Field: "confidence", Min: 0.5, Max: 0.999, Default: 0.95, HasDefault: true, Why: "the confidence level of the intervals"}
+	FitBootstrapSample = Range{Field: "bootstrap.samples", Min: 10, Max: 10000, Integer: true, Default: 1000, HasDefault: true, Why: "resamples; the work budget also caps samples × measured fluxes"}
 	HazardFlagCount    = Range{Field: "custom_solutes[].hazard_flags", Min: 0, Max: 32, Integer: true, Count: true, Why: "a list of known hazard flags; repeats are dropped"}
 	ExcludeHazardCount = Range{Field: "exclude_hazards", Min: 0, Max: 32, Integer: true, Count: true, Why: "a list of known hazard flags; repeats are dropped"}
 )
@@ -315,5 +327,6 @@ func Ranges() []*Range {
 		&Samples, &ARelSD, &BRelSD, &SRelSD, &OsmoticRelSD, &VantHoffOsmoticRelSD, &DiffusivityRelSD, &EstimatedBRelSD,
 		&Concentration, &SweepPoints, &CustomMolarMass, &CustomDiffusivity, &CustomVantHoff, &CustomSolubility, &CustomPrice, &PiTablePoints,
 		&HazardFlagCount, &ExcludeHazardCount, &CustomIonCharge, &CustomIonCount, &CustomIonEntries,
+		&FitRows, &FitWaterFlux, &FitReverseFlux, &FitWaterFluxSD, &FitReverseFluxSD, &FitRelError, &FitAbsWaterFlux, &FitAbsReverseFlux, &FitConfidence, &FitBootstrapSample,
 	}
 }

@@ -256,6 +256,7 @@
     setScenario(P.readForm());
     P.renderLibrary();
     P.buildSolutionPanel();
+    P.buildFitPanel();
     state.ready = true;
     if (init.note) P.offer(...init.note);
     await runScreen();

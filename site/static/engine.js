@@ -23,7 +23,10 @@
   let bundleBytes = null; // decompressed once, copied for each (re)start
 
   class Engine {
-    constructor() {
+    // wasm names the engine build to load: drawsift.wasm (the page's), or
+    // drawsift-fit.wasm (the full engine the Fit tab loads when used).
+    constructor(wasm) {
+      this.wasm = wasm || "drawsift.wasm";
       this.worker = null;
       this.pending = new Map();
       this.seq = 0;
@@ -37,6 +40,9 @@
     // start creates the worker and resolves with the engine's version.
     async start() {
       let w, init;
+      if (bundled() && this.wasm !== "drawsift.wasm") {
+        throw new Error("The single-file page carries the screening engine only; the Fit tab needs the served page (drawsift serve) or the CLI (drawsift fit).");
+      }
       if (bundled()) {
         const src = document.getElementById("ds-worker").textContent;
         const url = URL.createObjectURL(new Blob([src], { type: "text/javascript" }));
@@ -47,7 +53,7 @@
         init = () => w.postMessage({ type: "init", bytes: copy }, [copy]);
       } else {
         w = new Worker("worker.js");
-        const url = new URL("drawsift.wasm?v=" + encodeURIComponent(expected), document.baseURI).href;
+        const url = new URL(this.wasm + "?v=" + encodeURIComponent(expected), document.baseURI).href;
         init = () => w.postMessage({ type: "init", url: url });
       }
       this.worker = w;

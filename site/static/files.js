@@ -84,13 +84,16 @@
   // spreadsheet would run as a formula (=, +, -, @, tab or CR first) get a
   // leading quote (OWASP, "CSV Injection"): a custom solute named
   // "=HYPERLINK(…)" stays text. Numbers stay numbers.
+  // csvCell quotes one CSV cell; a text starting with =, +, -, @, a tab
+  // or a CR gets a leading ' (OWASP "CSV Injection"), a number is left alone.
+  function csvCell(s) {
+    s = String(s);
+    if (/^[=+\-@\t\r]/.test(s) && !/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(s)) s = "'" + s;
+    return /[",\n\r]/.test(s) ? '"' + s.replace(/"/g, '""') + '"' : s;
+  }
   function rankingCSV(res) {
     const cols = P.columns();
-    const q = s => {
-      s = String(s);
-      if (/^[=+\-@\t\r]/.test(s) && !/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(s)) s = "'" + s;
-      return /[",\n\r]/.test(s) ? '"' + s.replace(/"/g, '""') + '"' : s;
-    };
+    const q = csvCell;
     const lines = [cols.map(c => q(c.label + (c.unit ? " (" + c.unit + ")" : ""))).join(",")];
     for (const c of res.candidates) lines.push(cols.map(col => { const v = col.get(c); return col.text ? q(String(v)) : isFinite(v) ? String(v) : ""; }).join(","));
     lines.push("");
@@ -263,5 +266,5 @@
     return { sc: validateScenario(await loadDemo()), from: "demo" };
   }
 
-  Object.assign(P, { SHAPE_CUSTOM, saveCustom, offer, loadDemo, exportScenario, exportCustom, exportCSV, rankingCSV, exportJSON, applyScenario, importFile, copyShare, initialScenario });
+  Object.assign(P, { SHAPE_CUSTOM, saveCustom, offer, loadDemo, exportScenario, exportCustom, exportCSV, rankingCSV, exportJSON, csvCell, applyScenario, importFile, copyShare, initialScenario });
 })();

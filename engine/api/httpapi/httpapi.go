@@ -13,6 +13,7 @@
 //	GET  /v1/presets   the membrane and feed presets with their sources
 //	GET  /v1/defaults  the engine's defaults and limits
 //	POST /v1/batch     many osmotic and flux requests in one call
+//	POST /v1/fit       fit a membrane's A, B and S to measured fluxes
 //	GET  /v1/health    status and engine version
 //
 // Every failure is the contract's error object,
@@ -86,6 +87,7 @@ var routes = []route{
 	{"/v1/" + api.OpPresets, http.MethodGet, api.OpPresets},
 	{"/v1/" + api.OpDefaults, http.MethodGet, api.OpDefaults},
 	{"/v1/" + api.OpBatch, http.MethodPost, api.OpBatch},
+	{"/v1/" + api.OpFit, http.MethodPost, api.OpFit},
 	{"/v1/" + api.OpHealth, http.MethodGet, api.OpHealth},
 }
 
