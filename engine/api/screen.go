@@ -112,6 +112,57 @@ type ScreenCandidate struct {
 	OtherOrientations             []FluxMetrics        `json:"other_orientations,omitempty"`
 	Robustness                    *CandidateRobustness `json:"robustness,omitempty"`
 	Warnings                      []string             `json:"warnings"`
+	// Trust marks what makes the row less certain than a row computed
+	// from measured data within its range (empty when nothing does).
+	Trust []TrustMark `json:"trust"`
+}
+
+// TrustMark is one reason to trust a ranked row less: a stable code and
+// the words a person reads (the row's warnings give the detail).
+type TrustMark struct {
+	Code string `json:"code"`
+	Text string `json:"text"`
+}
+
+// Trust codes, in the order rows list them.
+var trustTexts = []struct {
+	code, text string
+	has        func(r *screen.Ranked, vantHoff bool) bool
+}{
+	{"van-t-hoff", "van 't Hoff only: no non-ideal osmotic model on record for this solute", func(r *screen.Ranked, _ bool) bool {
+		return r.Solute.Osmotic.Kind == library.ModelNone || warn.Has(r.Warnings, warn.NoModel)
+	}},
+	{"ideal-model", "ideal osmotic model (π = νcRT) chosen for the whole screen", func(_ *screen.Ranked, v bool) bool { return v }},
+	{"extrapolated", "used past its model's data or fit range (extrapolated)", func(r *screen.Ranked, _ bool) bool { return warn.Has(r.Warnings, warn.Extrapolated) }},
+	{"bridged", "between the model's data limit and the measured saturated solution (interpolated)", func(r *screen.Ranked, _ bool) bool { return warn.Has(r.Warnings, warn.Bridged) }},
+	{"temperature-25c", "25 °C data used at another temperature", func(r *screen.Ranked, _ bool) bool { return warn.Has(r.Warnings, warn.Temperature25C) }},
+	{"b-estimated", "solute permeability B estimated from the membrane's NaCl value", func(r *screen.Ranked, _ bool) bool { return r.BEstimated }},
+	{"blend", "blend transported as one solute at its fixed ratio", func(r *screen.Ranked, _ bool) bool { return r.Solute.IsBlend() }},
+	{"custom", "custom solute: data entered by the user", func(r *screen.Ranked, _ bool) bool { return r.Solute.Family == "custom" }},
+	{"solubility", "near or past its solubility somewhere in the module", func(r *screen.Ranked, _ bool) bool { return warn.Has(r.Warnings, warn.Solubility) }},
+	{"crossing", "feed solute crosses into the draw or water flows back: flux ratios leave their usual range", func(r *screen.Ranked, _ bool) bool {
+		return warn.Has(r.Warnings, warn.FeedToDraw) || warn.Has(r.Warnings, warn.ReverseFlow)
+	}},
+	{"no-price", "no price on record: scored worst on replenishment cost", func(r *screen.Ranked, _ bool) bool { return !r.HasPrice }},
+}
+
+// TrustCodes lists every trust code with its text, in order.
+func TrustCodes() []TrustMark {
+	out := make([]TrustMark, len(trustTexts))
+	for i, t := range trustTexts {
+		out[i] = TrustMark{t.code, t.text}
+	}
+	return out
+}
+
+func trustMarks(r *screen.Ranked, vantHoff bool) []TrustMark {
+	out := []TrustMark{}
+	for _, t := range trustTexts {
+		if t.has(r, vantHoff) {
+			out = append(out, TrustMark{t.code, t.text})
+		}
+	}
+	return out
 }
 
 // CandidateRobustness is the candidate's rank statistics over the samples.
@@ -336,6 +387,7 @@ func buildScreenResponse(req *ScreenRequest, sc *screen.Scenario, info *scenario
 			BEstimated:                    r.BEstimated,
 			HazardFlags:                   append([]string{}, r.Solute.HazardFlags...),
 			Warnings:                      warn.Strings(r.Warnings),
+			Trust:                         trustMarks(&r, sc.VantHoff),
 		}
 		if !math.IsInf(m.SolubilityMolPerKg, 1) {
 			c.SolubilityMolPerKg = ptr(m.SolubilityMolPerKg)

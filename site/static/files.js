@@ -91,11 +91,15 @@
       if (/^[=+\-@\t\r]/.test(s) && !/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(s)) s = "'" + s;
       return /[",\n\r]/.test(s) ? '"' + s.replace(/"/g, '""') + '"' : s;
     };
-    const lines = [cols.map(c => q(c.label + (c.unit ? " (" + c.unit + ")" : ""))).join(",")];
-    for (const c of res.candidates) lines.push(cols.map(col => { const v = col.get(c); return col.text ? q(String(v)) : isFinite(v) ? String(v) : ""; }).join(","));
+    const lines = [cols.map(c => q(c.label + (c.unit ? " (" + c.unit + ")" : ""))).concat(["trust"]).join(",")];
+    for (const c of res.candidates) lines.push(cols.map(col => { const v = col.get(c); return col.text ? q(String(v)) : isFinite(v) ? String(v) : ""; })
+      .concat([q((c.trust || []).map(m => m.code).join("; "))]).join(","));
     lines.push("");
     lines.push("excluded solute,reason,detail");
     for (const x of res.excluded) lines.push([x.solute, x.reason, x.detail || ""].map(q).join(","));
+    lines.push("");
+    lines.push("trust code,meaning");
+    for (const m of P.trustLegend(res)) lines.push([m.code, m.text].map(q).join(","));
     return lines.join("\n") + "\n";
   }
   function exportCSV() {

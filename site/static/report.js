@@ -74,6 +74,9 @@
     for (const b of t.querySelectorAll("thead button")) b.replaceWith(...Array.from(b.childNodes));
     for (const b of t.querySelectorAll(".bar")) b.remove();
     rr.appendChild(t);
+    const tl = $("trust-legend").cloneNode(true);
+    tl.removeAttribute("id");
+    rr.appendChild(tl);
     rr.appendChild(h("h3", { text: "Mineral saturation of the feed" }));
     const sat = $("scaling-table").cloneNode(true);
     sat.removeAttribute("id");

@@ -7,6 +7,43 @@
   const P = window.DrawsiftPage;
   const { $, state, h, clear, fmt, pUnit, pConv, fConv, fLabel, sfLabel, sfValue } = P;
 
+  // ---- trust marks -------------------------------------------------------------
+  // The engine lists, per ranked row, what makes it less certain (trust:
+  // [{code, text}]); the page shows one symbol per code, its words as the
+  // text equivalent, and a legend of the codes present beside the table.
+  // Symbols are display only; an unknown code shows "?" with its text.
+  const TRUST_SYMBOLS = {
+    "van-t-hoff": "ν", "ideal-model": "ι", extrapolated: "↗", bridged: "≈", "temperature-25c": "θ", "b-estimated": "β",
+    blend: "⊕", custom: "✎", solubility: "◐", crossing: "⇄", "no-price": "¤",
+  };
+  function trustSymbol(code) { return TRUST_SYMBOLS[code] || "?"; }
+  // trustMarks is the row's marks as inline symbols, each with its words.
+  function trustMarks(c) {
+    const marks = c.trust || [];
+    if (!marks.length) return null;
+    const box = h("span", { class: "trust", "data-trust": marks.map(m => m.code).join(" ") });
+    for (const m of marks) {
+      box.appendChild(h("span", { class: "trust-mark", "data-code": m.code, title: m.text, "aria-hidden": "true", text: trustSymbol(m.code) }));
+    }
+    box.appendChild(h("span", { class: "visually-hidden", text: " (read with care: " + marks.map(m => m.text).join("; ") + ")" }));
+    return box;
+  }
+  // trustLegend lists each code the rows carry, once, in the engine's order.
+  function trustLegend(res) {
+    const seen = new Map();
+    for (const c of res.candidates) for (const m of c.trust || []) if (!seen.has(m.code)) seen.set(m.code, m.text);
+    return Array.from(seen, ([code, text]) => ({ code, text }));
+  }
+  function renderTrustLegend(res) {
+    const lg = clear($("trust-legend"));
+    const marks = trustLegend(res);
+    if (!marks.length) { lg.appendChild(h("p", { text: "Trust marks: none — every row is computed from measured data within its range." })); return; }
+    lg.appendChild(h("p", { class: "legend-h", text: "Trust marks beside a solute: read that row with care (its notes under Warnings give the detail)." }));
+    const ul = h("ul", {});
+    for (const m of marks) ul.appendChild(h("li", { "data-code": m.code }, h("span", { class: "trust-mark", "aria-hidden": "true", text: trustSymbol(m.code) }), " " + m.text));
+    lg.appendChild(ul);
+  }
+
   function columns() {
     const other = state.result && state.result.candidates.length && state.result.candidates[0].other_orientations;
     const cols = [
@@ -97,7 +134,9 @@
       for (const col of cols) {
         const v = col.get(c);
         if (col.key === "solute") {
-          row.appendChild(h("th", { scope: "row", title: c.name + (c.pareto_optimal ? " — on the Pareto front" : "") }, c.solute));
+          row.appendChild(h("th", { scope: "row", title: c.name + (c.pareto_optimal ? " — on the Pareto front" : "") }, c.solute,
+            c.pareto_optimal ? h("span", { class: "pareto-mark", title: "on the Pareto front", "aria-hidden": "true", text: " ◆" }) : null,
+            c.pareto_optimal ? h("span", { class: "visually-hidden", text: " (on the Pareto front)" }) : null, trustMarks(c)));
         } else if (col.key === "score") {
           const td = h("td", { class: "score" }, v.toFixed(3));
           const bar = h("div", { class: "bar", role: "img", "aria-label": contribText(c) });
@@ -117,6 +156,7 @@
       }
       tb.appendChild(row);
     }
+    renderTrustLegend(res);
     const lg = clear($("contrib-legend"));
     for (const k of P.objectiveKeys()) {
       if (!(res.weights[k] > 0)) continue;
@@ -241,5 +281,5 @@
     $("robust-note").textContent = "Sampling: " + r.robustness.distributions + ".";
   }
 
-  Object.assign(P, { columns, renderResult, renderTable, renderScaling, runRobust, cancelRobust, renderRobust });
+  Object.assign(P, { trustSymbol, trustLegend, columns, renderResult, renderTable, renderScaling, runRobust, cancelRobust, renderRobust });
 })();
