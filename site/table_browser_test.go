@@ -8,6 +8,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/chromedp/cdproto/emulation"
 	"github.com/chromedp/chromedp"
 
 	"drawsift/engine/api"
@@ -83,4 +84,65 @@ func nativeRequest(sc map[string]any) map[string]any {
 	}
 	delete(req, "uncertainty")
 	return req
+}
+
+// TestPageColumns: the user hides a column and it stays hidden over a
+// reload; solute and score cannot be hidden and stay in view while the
+// table scrolls sideways on a tablet; every heading has a definition (its
+// tooltip and an entry in the glossary); ◆ is explained beside the table.
+func TestPageColumns(t *testing.T) {
+	b, _ := openServed(t)
+	if n := eval[int](t, b, `document.querySelectorAll("#col-boxes input:disabled").length`); n != 2 {
+		t.Errorf("%d fixed columns in the chooser, want 2 (solute, score)", n)
+	}
+	b.do(t, chromedp.Evaluate[chromedp.Void](`document.getElementById("col-chooser").open = true`),
+		chromedp.Click(chromedp.CSS(`#col-boxes input[data-key="viscosity_mpa_s"]`)))
+	b.waitFor(t, `!document.querySelector('#ranking thead th[data-key="viscosity_mpa_s"]')`)
+	b.do(t, chromedp.Reload())
+	b.waitRun(t, "")
+	if eval[bool](t, b, `!!document.querySelector('#ranking thead th[data-key="viscosity_mpa_s"]') || document.querySelector('#col-boxes input[data-key="viscosity_mpa_s"]').checked`) {
+		t.Error("the hidden column is back after a reload")
+	}
+	heads := eval[[]string](t, b, `Array.from(document.querySelectorAll("#ranking thead th button")).map(b => b.dataset.key + "=" + (b.title || ""))`)
+	gloss := eval[[]string](t, b, `Array.from(document.querySelectorAll("#glossary-list dt[data-key]")).map(d => d.dataset.key)`)
+	for _, hd := range heads {
+		k, def, _ := strings.Cut(hd, "=")
+		if len(def) < 15 {
+			t.Errorf("heading %s has no definition: %q", k, def)
+		}
+		if !slices.Contains(gloss, k) {
+			t.Errorf("the glossary lacks %s: %v", k, gloss)
+		}
+	}
+	if !slices.Contains(gloss, "viscosity_mpa_s") {
+		t.Error("the glossary drops a hidden column")
+	}
+	if k := eval[string](t, b, `document.getElementById("pareto-key").textContent`); !strings.Contains(k, "◆") || !strings.Contains(k, "Pareto") {
+		t.Errorf("◆ is not explained beside the table: %q", k)
+	}
+	// Sideways scroll at 768 px: solute and score keep their place.
+	if _, err := chromedp.Call(b.ctx, emulation.SetDeviceMetricsOverride, emulation.SetDeviceMetricsOverrideParams{Width: 768, Height: 900, DeviceScaleFactor: 1}); err != nil {
+		t.Fatal(err)
+	}
+	b.waitFor(t, `innerWidth === 768`)
+	b.do(t, chromedp.Evaluate[chromedp.Void](`document.getElementById("col-chooser").open = false; document.querySelector("#col-boxes input[data-key='viscosity_mpa_s']").click()`))
+	b.waitFor(t, `!!document.querySelector('#ranking thead th[data-key="viscosity_mpa_s"]')`)
+	pos := `(() => { const w = document.querySelector("#panel-ranking .table-wrap"), r = document.querySelector("#ranking tbody tr");
+		return [w.scrollWidth - w.clientWidth, r.querySelector("th").getBoundingClientRect().left - w.getBoundingClientRect().left, r.querySelector("td.score").getBoundingClientRect().left - w.getBoundingClientRect().left]; })()`
+	before := eval[[]float64](t, b, pos)
+	if before[0] < 50 {
+		t.Fatalf("at 768 px the table does not scroll sideways (%v px): nothing to check", before[0])
+	}
+	b.do(t, chromedp.Evaluate[chromedp.Void](`(w => { w.scrollLeft = w.scrollWidth; })(document.querySelector("#panel-ranking .table-wrap"))`))
+	b.waitFor(t, `(w => w.scrollLeft > 0)(document.querySelector("#panel-ranking .table-wrap"))`)
+	after := eval[[]float64](t, b, pos)
+	if d1, d2 := after[1]-before[1], after[2]-before[2]; d1 < -1 || d1 > 1 || d2 < -1 || d2 > 1 {
+		t.Errorf("solute and score moved by %.0f and %.0f px while the table scrolled", d1, d2)
+	}
+	// The sticky cells are opaque and do not overlap each other.
+	if bad := eval[string](t, b, `(() => { const r = document.querySelector("#ranking tbody tr"), th = r.querySelector("th").getBoundingClientRect(), sc = r.querySelector("td.score").getBoundingClientRect();
+		return th.right > sc.left + 1 ? "overlap " + th.right + " > " + sc.left : getComputedStyle(r.querySelector("td.score")).backgroundColor === "rgba(0, 0, 0, 0)" ? "transparent" : ""; })()`); bad != "" {
+		t.Errorf("sticky columns: %s", bad)
+	}
+	b.screenshot(t, "scrolled")
 }

@@ -73,6 +73,7 @@
     t.removeAttribute("id");
     for (const b of t.querySelectorAll("thead button")) b.replaceWith(...Array.from(b.childNodes));
     for (const b of t.querySelectorAll(".bar")) b.remove();
+    for (const c of t.querySelectorAll(".stick")) { c.classList.remove("stick"); c.style.left = ""; }
     rr.appendChild(t);
     const tl = $("trust-legend").cloneNode(true);
     tl.removeAttribute("id");
