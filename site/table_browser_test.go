@@ -146,3 +146,34 @@ func TestPageColumns(t *testing.T) {
 	}
 	b.screenshot(t, "scrolled")
 }
+
+// TestPageScoreNormalisation: beside the score the page says it is
+// relative to the screened set; choosing reference values in the scenario
+// ranks as the engine does natively with the same field, records it in the
+// stored scenario, shows NaCl (the reference) at 0.5 and says so.
+func TestPageScoreNormalisation(t *testing.T) {
+	b, run := openServed(t)
+	if n := eval[string](t, b, `document.getElementById("score-note").textContent`); !strings.Contains(n, "relative to the screened set") {
+		t.Errorf("score note %q", n)
+	}
+	if u := eval[string](t, b, `document.querySelector('#ranking thead th[data-key="score"]').textContent`); !strings.Contains(u, "within set") {
+		t.Errorf("score heading %q", u)
+	}
+	b.do(t, chromedp.SetValue(chromedp.ID("score-norm"), "reference"),
+		chromedp.Evaluate[chromedp.Void](`document.getElementById("score-norm").dispatchEvent(new Event("change", {bubbles: true}))`))
+	b.waitRun(t, run)
+	sc := pageScenario(t, b)
+	if sc["score_normalisation"] != "reference" {
+		t.Fatalf("stored scenario: score_normalisation %v", sc["score_normalisation"])
+	}
+	sameRanking(t, eval[[]pageRow](t, b, jsRows), native(t, sc))
+	if s := eval[float64](t, b, `Number(document.querySelector('#ranking tbody tr[data-solute="NaCl"]').dataset.score)`); s < 0.5-1e-9 || s > 0.5+1e-9 {
+		t.Errorf("NaCl, the reference, scores %v", s)
+	}
+	if n := eval[string](t, b, `document.getElementById("score-note").textContent`); !strings.Contains(n, "set-independent") || !strings.Contains(n, "NaCl") {
+		t.Errorf("score note %q", n)
+	}
+	if u := eval[string](t, b, `document.querySelector('#ranking thead th[data-key="score"]').textContent`); !strings.Contains(u, "vs NaCl") {
+		t.Errorf("score heading %q", u)
+	}
+}

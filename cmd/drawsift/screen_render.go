@@ -199,6 +199,10 @@ func screenCSV(w io.Writer, r *api.ScreenResponse, bulk map[string]float64) erro
 	cw.Write([]string{})
 	scen, _ := json.Marshal(r.Scenario)
 	cw.Write([]string{"engine_version", r.EngineVersion})
+	cw.Write([]string{"score_normalisation", r.ScoreNormalisation})
+	if ref := r.ScoreReference; ref != nil {
+		cw.Write([]string{"score reference", fmt.Sprintf("%s at %s mol/L: %s", ref.Solute, num(ref.ConcentrationMolPerL), ref.Rule)})
+	}
 	for _, k := range minerals(bulk) {
 		cw.Write([]string{"feed (bulk) saturation index: " + k, num(bulk[k])})
 	}
@@ -289,6 +293,11 @@ func screenTable(w io.Writer, r *api.ScreenResponse, bulk map[string]float64) er
 		for _, m := range lg {
 			fmt.Fprintf(&b, "  %s = %s\n", m.Code, m.Text)
 		}
+	}
+	if r.ScoreReference != nil {
+		fmt.Fprintf(&b, "score: each metric against the reference draw %s at the same basis (%.3g mol/L; it scores 0.5), independent of the other candidates\n", r.ScoreReference.Solute, r.ScoreReference.ConcentrationMolPerL)
+	} else {
+		fmt.Fprintln(&b, "score: relative to the screened set (min–max per metric): adding or removing candidates can reorder the others; \"score_normalisation\": \"reference\" scores against NaCl at the same basis")
 	}
 	fmt.Fprintln(&b, "max SI: the highest saturation index (log10 IAP/Ksp) at the feed-side membrane face and its mineral; \"over\": supersaturated, may scale")
 	if rob {

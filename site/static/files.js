@@ -56,6 +56,7 @@
       candidates: ["array", { anyOf: [str_, SHAPE_BLEND] }],
       custom_solutes: ["array", SHAPE_CUSTOM],
       basis: { object: { kind: v => ["osmotic-pressure", "concentration", "water-flux"].includes(v) ? "" : "must be osmotic-pressure, concentration or water-flux", value: num_, unit: str_, multiple_of_feed: num_ }, required: ["kind"], hint: true },
+      score_normalisation: oneOf("score_normalisations"),
       osmotic_model: v => P.defaults().osmotic_models.includes(v) || P.defaults().osmotic_model_aliases[v] ? "" : oneOf("osmotic_models")(v),
       weights: v => {
         if (v === null || typeof v !== "object" || Array.isArray(v)) return "must be an object of weights";

@@ -59,6 +59,7 @@
       "k " + kText(sc.k_draw_m_per_s, "draw side") + "; " + kText(sc.k_feed_m_per_s, "feed side"));
     row("Basis of comparison", state.basisText || "");
     row("Candidates", (sc.candidates || []).map(c => P.isBlend(c) ? c.id + " (" + P.blendText(c) + ")" : c).join(", "));
+    row("Score", P.scoreBasisText());
     row("Weights", Object.keys(res.weights).filter(k => res.weights[k] > 0).map(k => P.objLabel(k) + " " + res.weights[k]).join(", "));
     row("Osmotic model", sc.osmotic_model || P.defaults().osmotic_model);
     row("Solutes excluded by hazard", (sc.exclude_hazards || []).length ? sc.exclude_hazards.join(", ") : "none");

@@ -74,7 +74,7 @@
       { key: "rank", label: "Rank", unit: "", get: c => c.rank, fmt: v => String(v), def: "Position by score, 1 = best." },
       { key: "solute", label: "Solute", unit: "", get: c => c.solute, text: true,
         def: "The draw solute or blend (library ID). ◆ marks the Pareto front; boxed symbols are trust marks (see the legend under the table)." },
-      { key: "score", label: "Score", unit: "0–1", get: c => c.score, fmt: v => v.toFixed(3), def: scoreDef() },
+      { key: "score", label: "Score", unit: res.score_normalisation === "reference" ? "0–1, vs " + (res.score_reference ? res.score_reference.solute : "reference") : "0–1, within set", get: c => c.score, fmt: v => v.toFixed(3), def: scoreDef() },
       { key: "concentration_mol_per_l", label: "Draw conc.", unit: "mol/L", get: c => c.concentration_mol_per_l,
         def: "Concentration of the bulk draw that meets the basis of comparison, in moles of solute (formula units) per litre of solution." },
       { key: "concentration_g_per_l", label: "Draw conc.", unit: "g/L", get: c => c.concentration_g_per_l, def: "The same concentration in grams of solute per litre of solution." },
