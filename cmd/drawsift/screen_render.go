@@ -201,7 +201,7 @@ func screenCSV(w io.Writer, r *api.ScreenResponse, bulk map[string]float64) erro
 	cw.Write([]string{"engine_version", r.EngineVersion})
 	cw.Write([]string{"score_normalisation", r.ScoreNormalisation})
 	if ref := r.ScoreReference; ref != nil {
-		cw.Write([]string{"score reference", fmt.Sprintf("%s at %s mol/L: %s", ref.Solute, num(ref.ConcentrationMolPerL), ref.Rule)})
+		cw.Write([]string{"score reference", fmt.Sprintf("%s at %s mol/L: %s", ref.Solute, num(ref.ConcentrationMolPerL), r.ModelChoices["normalisation"])})
 	}
 	for _, k := range minerals(bulk) {
 		cw.Write([]string{"feed (bulk) saturation index: " + k, num(bulk[k])})
