@@ -744,6 +744,30 @@ func TestPagePrintReport(t *testing.T) {
 	if !strings.Contains(text, squash("Mineral saturation of the feed")) || !strings.Contains(text, "gypsum") {
 		t.Error("the PDF's text lacks the mineral saturation table")
 	}
+	// Compact: the caption says what the table is (not how to sort it), each
+	// note is printed once with the candidates it concerns, and the whole
+	// report — inputs, ranking, saturation, exclusions, warnings, four plots
+	// two to a page, sources — fits a few A4 pages.
+	if strings.Contains(text, squash("select a column heading to sort")) {
+		t.Error("the on-screen caption is printed")
+	}
+	notes := eval[[]string](t, b, `Array.from(document.querySelectorAll("#rp-results .rp-warnings li")).map(li => li.textContent)`)
+	seen := map[string]bool{}
+	for _, n := range notes {
+		if seen[n] {
+			t.Errorf("the report repeats the note %q", n)
+		}
+		seen[n] = true
+	}
+	if c := strings.Count(text, squash("Sherwood correlation quoted from memory")); c > 2 {
+		t.Errorf("the report prints the Sherwood note %d times", c)
+	}
+	pages := len(regexp.MustCompile(`/Type\s*/Page[^s]`).FindAll(pdf, -1))
+	t.Logf("the report prints on %d A4 pages", pages)
+	b.screenshot(t, "print")
+	if pages > 6 {
+		t.Errorf("the report takes %d A4 pages, want at most 6", pages)
+	}
 	dir := filepath.Join(moduleRoot(t), "testdata", "artifacts")
 	os.MkdirAll(dir, 0o755)
 	os.WriteFile(filepath.Join(dir, "report.pdf"), pdf, 0o644)
