@@ -4,6 +4,7 @@ package site_test
 
 import (
 	"fmt"
+	"strings"
 	"testing"
 
 	"github.com/chromedp/cdproto/emulation"
@@ -73,5 +74,38 @@ func TestPagePlotsFit(t *testing.T) {
 			t.Errorf("at %d px: %v", w, faults)
 		}
 		b.screenshot(t, fmt.Sprintf("%dpx", w))
+	}
+}
+
+// TestPageRobustnessChart: the robustness run draws each candidate's rank
+// interval (5th–95th percentile), median and nominal rank beside P(top 3),
+// matching the table, fitting its figure at 360 and 1,400 px, and the
+// chart goes into the printed report.
+func TestPageRobustnessChart(t *testing.T) {
+	b, _ := openServed(t)
+	b.do(t, chromedp.SetValue(chromedp.ID("unc-samples"), "200"),
+		chromedp.Evaluate[chromedp.Void](`document.getElementById("unc-samples").dispatchEvent(new Event("input", {bubbles: true}))`))
+	b.settle(t)
+	robustRun(t, b)
+	b.waitFor(t, `document.body.dataset.robust === "done" || document.body.dataset.robust === "error"`)
+	chart := eval[[][]string](t, b, `Array.from(document.querySelectorAll('#robust-chart g.interval')).map(g => [g.dataset.name, g.dataset.lo, g.dataset.hi])`)
+	table := eval[[][]string](t, b, `Array.from(document.querySelectorAll('#robust-table tbody tr')).map(tr => [tr.dataset.solute, tr.cells[4].textContent, tr.cells[6].textContent])`)
+	if len(chart) == 0 || fmt.Sprint(chart) != fmt.Sprint(table) {
+		t.Errorf("chart rows %v, table %v", chart, table)
+	}
+	for _, w := range []int64{360, 1400} {
+		if _, err := chromedp.Call(b.ctx, emulation.SetDeviceMetricsOverride, emulation.SetDeviceMetricsOverrideParams{Width: w, Height: 900, DeviceScaleFactor: 1}); err != nil {
+			t.Fatal(err)
+		}
+		b.waitFor(t, fmt.Sprintf(`innerWidth === %d`, w))
+		b.do(t, chromedp.Evaluate[chromedp.Void](`window.DrawsiftPage.renderRobust()`))
+		faults := eval[[]string](t, b, strings.Replace(jsPlotFaults, `"#plots figure, #sweep-plot figure"`, `"#robust-chart figure"`, 1))
+		if len(faults) > 0 {
+			t.Errorf("at %d px: %v", w, faults)
+		}
+	}
+	b.do(t, chromedp.Evaluate[chromedp.Void](`window.dispatchEvent(new Event("beforeprint"))`))
+	if n := eval[int](t, b, `document.querySelectorAll("#rp-plots g.interval").length`); n != len(table) {
+		t.Errorf("the report's robustness chart has %d rows, want %d", n, len(table))
 	}
 }

@@ -147,9 +147,10 @@
     const y0 = f.H - lg.height + 12;
     for (const p of lg.places) {
       const it = p.it, x = p.x, y = y0 + p.row * lg.rowH;
-      if (it.bar) el("rect", { x: x, y: y - 8, width: 16, height: 9, fill: it.color }, g);
-      else el("line", { x1: x, x2: x + 16, y1: y - 4, y2: y - 4, stroke: it.color, "stroke-width": 2.2, "stroke-dasharray": it.dash || null }, g);
-      if (it.marker) el("circle", { cx: x + 8, cy: y - 4, r: 3.5, fill: it.color }, g);
+      if (it.bar) el("rect", { x: x, y: y - 8, width: 16, height: 9, fill: it.color, "fill-opacity": 0.45 }, g);
+      else if (!it.diamond && !it.dot) el("line", { x1: x, x2: x + 16, y1: y - 4, y2: y - 4, stroke: it.color, "stroke-width": 2.2, "stroke-dasharray": it.dash || null }, g);
+      if (it.marker || it.dot) el("circle", { cx: x + 8, cy: y - 4, r: 3.5, fill: it.color }, g);
+      if (it.diamond) el("path", { d: "M" + (x + 8) + " " + (y - 9) + "L" + (x + 13) + " " + (y - 4) + "L" + (x + 8) + " " + (y + 1) + "L" + (x + 3) + " " + (y - 4) + "Z", fill: "#ffffff", stroke: it.color, "stroke-width": 1.5 }, g);
       if (it.ring) el("circle", { cx: x + 8, cy: y - 4, r: 6, fill: "none", stroke: it.color, "stroke-width": 1.5 }, g);
       const t = text(g, x + 22, y, it.name, { "font-size": 12 });
       if (it.full) el("title", {}, t).textContent = it.full;
@@ -250,6 +251,46 @@
     return svg;
   }
 
+  // intervals draws one row per item [{name, lo, mid, hi, mark, note,
+  // color}] on a shared axis from o.from to o.to: a bar from lo to hi, a
+  // dot at mid, a diamond at mark, the name on the left and the note on
+  // the right. Used for rank intervals (rank 1 on the left).
+  function intervals(o) {
+    const W = o.width || 560, rowH = 22, n = o.items.length;
+    const nameW = Math.min(W * 0.3, 12 + Math.max(...o.items.map(i => textW(i.name)))), noteW = 12 + Math.max(0, ...o.items.map(i => textW(i.note || "")));
+    const L = withLegend(Object.assign({}, o, { height: 44 + n * rowH + 44 }), [{ name: o.barLabel || "5th–95th percentile", color: MUTED, bar: true },
+      { name: o.midLabel || "median", color: INK, dot: true }, { name: o.markLabel || "nominal", color: INK, diamond: true }]);
+    o = L.o;
+    const svg = root(o);
+    const H = o.height;
+    el("rect", { x: 0, y: 0, width: W, height: H, fill: "#ffffff" }, svg);
+    text(svg, 8, 20, o.title, { "font-size": W < 420 ? 13 : 15, "font-weight": 600 });
+    const m = { l: nameW, r: noteW, t: 36 };
+    const pw = W - m.l - m.r, ph = n * rowH;
+    const span = Math.max(1, o.to - o.from);
+    const sx = v => m.l + (v - o.from) / span * pw;
+    const g = el("g", {}, svg);
+    const step = Math.max(1, Math.ceil(span / Math.max(2, Math.floor(pw / 28))));
+    for (let v = o.from; v <= o.to; v += step) {
+      el("line", { x1: sx(v), x2: sx(v), y1: m.t, y2: m.t + ph, stroke: GRID, "stroke-width": 1 }, g);
+      text(g, sx(v), m.t + ph + 16, String(v), { class: "tick", "text-anchor": "middle", fill: MUTED, "font-size": 12 });
+    }
+    el("rect", { class: "plot-area", x: m.l, y: m.t, width: pw, height: ph, fill: "none", stroke: INK, "stroke-width": 1 }, g);
+    text(svg, m.l + pw / 2, m.t + ph + 34, o.xLabel, { class: "axis-label", "text-anchor": "middle", "font-size": 12 });
+    o.items.forEach((it, i) => {
+      const y = m.t + i * rowH + rowH / 2;
+      const row = el("g", { class: "interval", "data-name": it.name, "data-lo": it.lo, "data-hi": it.hi }, svg);
+      text(row, m.l - 6, y + 4, it.name, { "text-anchor": "end", "font-size": 12 });
+      el("rect", { x: sx(it.lo) - 3, y: y - 5, width: Math.max(6, sx(it.hi) - sx(it.lo) + 6), height: 10, rx: 5, fill: it.color || MUTED, "fill-opacity": 0.45 }, row);
+      el("circle", { cx: sx(it.mid), cy: y, r: 4, fill: INK }, row);
+      const d = 5, cx = sx(it.mark);
+      el("path", { d: "M" + cx + " " + (y - d) + "L" + (cx + d) + " " + y + "L" + cx + " " + (y + d) + "L" + (cx - d) + " " + y + "Z", fill: "none", stroke: INK, "stroke-width": 1.5 }, row);
+      if (it.note) text(row, W - noteW + 8, y + 4, it.note, { "font-size": 12, fill: MUTED });
+    });
+    legend(svg, { H: H }, L.lg);
+    return svg;
+  }
+
   // serialise returns standalone SVG text for export.
   function serialise(svg) {
     const c = svg.cloneNode(true);
@@ -279,5 +320,5 @@
     });
   }
 
-  window.DrawsiftCharts = { line, bars, scatter, serialise, toPNG, niceTicks, PALETTE };
+  window.DrawsiftCharts = { line, bars, scatter, intervals, serialise, toPNG, niceTicks, PALETTE };
 })();

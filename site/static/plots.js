@@ -51,7 +51,8 @@
   async function renderPlots(seq) {
     const res = state.result;
     const box = clear($("plots"));
-    state.plots = {};
+    // The robustness chart (results.js) stays in the report.
+    state.plots = state.plots.robustness ? { robustness: state.plots.robustness } : {};
     if (!res || !res.candidates.length) return;
     const W = plotWidth(box, 4);
     state.plotWidth = W;

@@ -399,6 +399,22 @@
     }
     t.caption.textContent = "Ranks over " + r.robustness.samples + " Monte Carlo samples (seed " + r.robustness.seed + ").";
     $("robust-note").textContent = "Sampling: " + r.robustness.distributions + ".";
+    drawRobustChart();
+  }
+  // drawRobustChart shows each candidate's rank interval (5th–95th
+  // percentile), median and nominal rank, with P(top 3) beside it.
+  function drawRobustChart() {
+    const box = clear($("robust-chart"));
+    const r = state.robust;
+    delete state.plots.robustness;
+    if (!r) return;
+    const n = r.candidates.length;
+    const W = Math.round(Math.max(260, Math.min(900, (box.clientWidth || $("results-area").clientWidth - 34) - 18)));
+    const items = r.candidates.map(c => { const q = c.robustness || {}; return { name: c.solute, lo: q.rank_p05, mid: q.rank_median, hi: q.rank_p95, mark: c.rank,
+      note: "P(top 3) " + (100 * q.probability_top3).toFixed(0) + " %", color: P.colourOf(c.solute) }; });
+    const svg = P.C.intervals({ width: W, title: "Rank over " + r.robustness.samples + " samples", xLabel: "rank (1 = best)", from: 1, to: n, items: items,
+      markLabel: "nominal rank", desc: "For each candidate, the 5th to 95th percentile of its rank over the Monte Carlo samples, its median and its nominal rank, with the probability of a top-3 place." });
+    box.appendChild(P.figure("robustness", svg, "Bar: ranks from the 5th to the 95th percentile; dot: median; diamond: nominal rank. A short bar near 1 is a robust choice."));
   }
 
   Object.assign(P, { scoreBasisText, trustSymbol, trustLegend, columns, shownColumns, showAllColumns, placeSticky, renderResult, renderTable, renderScaling, runRobust, cancelRobust, renderRobust });
