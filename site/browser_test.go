@@ -903,6 +903,12 @@ func TestBundleFromFile(t *testing.T) {
 	}
 	b.waitPlots(t)
 	b.screenshot(t, "bundle")
+	// A share link from the file says it works only where the file is.
+	b.do(t, chromedp.Click(chromedp.ID("btn-share")))
+	b.waitFor(t, `document.body.dataset.share === "file"`)
+	if msg := eval[string](t, b, `document.getElementById("banner").textContent`); !strings.Contains(msg, "opened from a file") {
+		t.Errorf("the file page's share link says %q", msg)
+	}
 	mu.Lock()
 	defer mu.Unlock()
 	for _, u := range urls {

@@ -4,6 +4,7 @@ package site_test
 
 import (
 	"fmt"
+	"regexp"
 	"slices"
 	"strings"
 	"testing"
@@ -175,5 +176,30 @@ func TestPageScoreNormalisation(t *testing.T) {
 	}
 	if u := eval[string](t, b, `document.querySelector('#ranking thead th[data-key="score"]').textContent`); !strings.Contains(u, "vs NaCl") {
 		t.Errorf("score heading %q", u)
+	}
+}
+
+// TestPageControls: the membrane menu puts what tells presets apart first
+// (each option distinct within its first 24 characters, the full name as
+// its title); the menus the engine fills say "Loading…" until it has.
+func TestPageControls(t *testing.T) {
+	b, _ := openServed(t)
+	opts := eval[[][]string](t, b, `Array.from(document.querySelectorAll("#mem-preset option")).map(o => [o.textContent, o.title])`)
+	seen := map[string]string{}
+	for _, o := range opts {
+		k := o[0]
+		if r := []rune(k); len(r) > 24 {
+			k = string(r[:24])
+		}
+		if prev, ok := seen[k]; ok {
+			t.Errorf("membrane options %q and %q look the same in a narrow menu", prev, o[0])
+		}
+		seen[k] = o[0]
+	}
+	served := eval[string](t, b, `fetch("index.html").then(r => r.text())`)
+	for _, id := range []string{"feed-preset", "mem-preset", "feed-unit", "basis-unit", "u-pressure", "score-norm"} {
+		if !regexp.MustCompile(`<select id="` + id + `"[^>]*><option value="">Loading…</option>`).MatchString(served) {
+			t.Errorf("the %s menu has no loading state before the engine answers", id)
+		}
 	}
 }

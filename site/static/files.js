@@ -268,12 +268,17 @@
     const frag = await S.encodeShare(state.scenario);
     const url = location.href.replace(/#.*$/, "") + "#s=" + frag;
     history.replaceState(null, "", "#s=" + frag);
+    // A link to a page opened from a file names that file on this
+    // computer: it opens only where the same file sits at the same place.
+    const local = location.protocol === "file:";
+    if (local) P.banner("This page was opened from a file, so the link points to that file on this computer: it opens the scenario only where the same drawsift.html sits at the same place. To share, send the file with the link, or export the scenario file.");
     try {
       await navigator.clipboard.writeText(url);
-      P.status("Share link copied (" + url.length + " characters).");
+      P.status("Share link copied (" + url.length + " characters" + (local ? "; works only beside this file" : "") + ").");
     } catch (e) {
-      P.status("Share link is in the address bar.");
+      P.status("Share link is in the address bar" + (local ? " (works only beside this file)" : "") + ".");
     }
+    document.body.dataset.share = local ? "file" : "web";
   }
 
   // ---- the scenario the page opens with: a share link's, else the stored

@@ -87,12 +87,20 @@
     if (!pu.value) { pu.selectedIndex = 0; state.prefs.pressure = pu.value; }
   }
 
+  // presetLabel puts what tells a membrane preset apart first: the usual
+  // short names of the chemistry (TFC, CTA), the qualifier, then A and S,
+  // so a narrow menu does not cut it off. The full name is the option's title.
+  function presetLabel(m) {
+    const short = m.name.replace(/thin-film composite/i, "TFC").replace(/cellulose triacetate/i, "CTA").replace(/\s*FO membrane\s*/i, " ").replace(/\s+/g, " ").trim();
+    return short + " — A " + m.a_lmh_per_bar + ", S " + m.s_um + " µm";
+  }
+
   function fillPresets() {
     const fp = clear($("feed-preset"));
-    for (const f of state.feeds) fp.appendChild(h("option", { value: "preset:" + f.id, text: f.name }));
+    for (const f of state.feeds) fp.appendChild(h("option", { value: "preset:" + f.id, text: f.name, title: f.name }));
     fp.appendChild(h("option", { value: "custom", text: "Custom: a solute at a concentration, with ions" }));
     const mp = clear($("mem-preset"));
-    for (const m of state.membranes) mp.appendChild(h("option", { value: m.id, text: m.name }));
+    for (const m of state.membranes) mp.appendChild(h("option", { value: m.id, text: presetLabel(m), title: m.name }));
     mp.appendChild(h("option", { value: "custom", text: "Custom A, B, S" }));
     const pick = clear($("feed-solute-pick"));
     for (const s of state.library) pick.appendChild(h("option", { value: s.id, text: s.id + " — " + s.name }));
