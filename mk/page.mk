@@ -31,6 +31,7 @@ wasm: $(PAGE_WASM) $(PAGE_EXEC)
 # -tags stdjson: encoding/json instead of go-json (about 1 MB gzip less).
 $(PAGE_WASM): $(PAGE_SRC) go.mod go.sum
 	@mkdir -p build
+	@echo "building the page's engine $@ (GOOS=js GOARCH=wasm)…"
 	GOOS=js GOARCH=wasm $(GO) build -tags stdjson -trimpath -buildvcs=false -ldflags='-s -w' -o $@ ./wasm/page
 	gzip -9 -k -f $@
 	@if command -v brotli >/dev/null; then brotli -q 11 -k -f $@ && sha256sum $@ > $@.br.sha256; else rm -f $@.br $@.br.sha256; fi
