@@ -3,7 +3,9 @@
 package site_test
 
 import (
+	"encoding/json"
 	"fmt"
+	"math"
 	"regexp"
 	"slices"
 	"strings"
@@ -13,6 +15,8 @@ import (
 	"github.com/chromedp/chromedp"
 
 	"drawsift/engine/api"
+	"drawsift/engine/thermo"
+	"drawsift/engine/water"
 )
 
 // setField sets a form field through the DOM (an input event), as a user's
@@ -201,5 +205,63 @@ func TestPageControls(t *testing.T) {
 		if !regexp.MustCompile(`<select id="` + id + `"[^>]*><option value="">Loading…</option>`).MatchString(served) {
 			t.Errorf("the %s menu has no loading state before the engine answers", id)
 		}
+	}
+}
+
+// TestPageCustomOsmolality: a custom solute typed with decimal commas, its
+// data as measured osmolality (mOsm/kg), and a hazard flag: the numbers
+// are read as meant, the osmolality becomes π = R·T·ρ_w·osmolality (the
+// engine's definition of π from water activity; ρ_w here from
+// engine/water, IAPWS-95), the hazard flag reaches the engine, so
+// excluding that hazard leaves the solute out.
+func TestPageCustomOsmolality(t *testing.T) {
+	b, run := openServed(t)
+	b.do(t, chromedp.Click(chromedp.ID("tab-candidates")),
+		chromedp.Evaluate[chromedp.Void](`document.getElementById("custom-box").open = true`))
+	for id, v := range map[string]string{"cs-id": "Draw-O", "cs-mm": "100,5", "cs-nu": "2", "cs-d": "1,2", "cs-sol": "5", "cs-pmin": "0,5", "cs-pmax": "1,5",
+		"cs-table": "0,5; 900\n1,0; 1850\n1,5; 2900", "cs-table-t": "25"} {
+		b.do(t, chromedp.SetValue(chromedp.ID(id), v))
+	}
+	b.do(t, chromedp.SetValue(chromedp.ID("cs-table-col"), "mosm"), chromedp.SetValue(chromedp.ID("cs-table-unit"), "mol/kg"),
+		chromedp.Click(chromedp.ID("cs-hz-toxic")), chromedp.Click(chromedp.CSS(`#custom-form button[type=submit]`)))
+	b.waitFor(t, `!!window.DrawsiftPage.state.custom.find(c => c.id === "Draw-O") || document.getElementById("cs-error").textContent !== ""`)
+	if msg := eval[string](t, b, `document.getElementById("cs-error").textContent`); msg != "" {
+		t.Fatalf("the custom solute was refused: %s", msg)
+	}
+	type point struct {
+		C  float64 `json:"concentration"`
+		Pi float64 `json:"osmotic_pressure_bar"`
+	}
+	var cs struct {
+		M     float64  `json:"molar_mass_g_per_mol"`
+		D     float64  `json:"diffusivity_m2_per_s"`
+		PMin  float64  `json:"price_usd_per_kg_min"`
+		Flags []string `json:"hazard_flags"`
+		Table struct {
+			Points []point `json:"points"`
+		} `json:"osmotic_table"`
+	}
+	js := eval[string](t, b, `JSON.stringify(window.DrawsiftPage.state.custom.find(c => c.id === "Draw-O"))`)
+	if err := json.Unmarshal([]byte(js), &cs); err != nil {
+		t.Fatal(err)
+	}
+	if cs.M != 100.5 || math.Abs(cs.D-1.2e-9) > 1e-21 || cs.PMin != 0.5 || !slices.Equal(cs.Flags, []string{"toxic"}) {
+		t.Errorf("decimal commas or flags misread: %s", js)
+	}
+	tK := 298.15
+	for i, mosm := range []float64{900, 1850, 2900} {
+		want := thermo.GasConstant * tK * water.Density(tK) * mosm / 1000 / thermo.PascalPerBar
+		if len(cs.Table.Points) != 3 || math.Abs(cs.Table.Points[i].Pi-want) > 1e-5*want {
+			t.Errorf("point %d: %v, want π %.6g bar", i, cs.Table.Points, want)
+		}
+	}
+	run = b.waitRun(t, run)
+	if !eval[bool](t, b, `!!document.querySelector('#ranking tbody tr[data-solute="Draw-O"]')`) {
+		t.Fatal("the custom solute is not ranked")
+	}
+	b.do(t, chromedp.Click(chromedp.ID("hz-toxic")))
+	b.waitRun(t, run)
+	if r := eval[string](t, b, `(li => li ? li.querySelector(".reason").textContent : "")(document.querySelector('#excluded li[data-solute="Draw-O"]'))`); !strings.Contains(r, "hazard") {
+		t.Errorf("excluding toxic: Draw-O left out for %q", r)
 	}
 }

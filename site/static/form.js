@@ -165,6 +165,7 @@
     buildWeights();
     buildScoreNorm();
     buildRules();
+    P.buildCustomHazards();
     applyLimits();
   }
 
