@@ -4,7 +4,6 @@ package site_test
 
 import (
 	"encoding/json"
-	"fmt"
 	"math"
 	"regexp"
 	"slices"
@@ -18,13 +17,6 @@ import (
 	"drawsift/engine/thermo"
 	"drawsift/engine/water"
 )
-
-// setField sets a form field through the DOM (an input event), as a user's
-// edit does.
-func setField(t testing.TB, b *browserSession, id, v string) {
-	t.Helper()
-	b.do(t, chromedp.Evaluate[chromedp.Void](fmt.Sprintf(`(e => { e.value = %q; e.dispatchEvent(new Event("input", {bubbles: true})); e.dispatchEvent(new Event("change", {bubbles: true})); })(document.getElementById(%q))`, v, id)))
-}
 
 // TestPageTrustMarks: every ranked row shows the engine's trust marks (a
 // symbol with its words as text), the legend beside the table lists each
