@@ -14,13 +14,21 @@ PORT ?= 8080
 all: build
 
 build:
+	@echo "building $(BIN)/drawsift (native)…"
 	$(GO) build $(GOFLAGS) -o $(BIN)/drawsift ./cmd/drawsift
 
 # The main job on the built-in demo: the page (engine as WebAssembly in
 # the browser) with the demo scenario loaded on first visit, served with
 # the HTTP API on 127.0.0.1:$(PORT). The same screen on the terminal:
 # make demo-screen.
-run: build wasm
+# The two builds run side by side (-j2), each fetching only the modules it
+# imports (not the test and lint tools); on a cold machine the first run
+# fills the module and build caches, which dominates.
+run:
+	@echo "make run: building the CLI and the page's engine (WebAssembly) side by side."
+	@echo "  A first run fetches Go modules and fills the build cache (minutes on a cold machine); later runs take seconds."
+	@$(MAKE) --no-print-directory -j2 build wasm
+	@echo "serving the page and the API at http://127.0.0.1:$(PORT)/ — Ctrl-C stops"
 	./$(BIN)/drawsift serve --addr 127.0.0.1:$(PORT) --wasm $(PAGE_WASM)
 
 # The ranked demo screen of a brackish-water field station, in the terminal.

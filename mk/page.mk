@@ -36,6 +36,7 @@ wasm: $(PAGE_WASM) $(FIT_WASM) $(PAGE_EXEC)
 # nofit: the fit operation (about 90 kB gzip) lives in $(FIT_WASM).
 $(PAGE_WASM): $(PAGE_SRC) go.mod go.sum
 	@mkdir -p build
+	@echo "building the page's engine $@ (GOOS=js GOARCH=wasm)…"
 	GOOS=js GOARCH=wasm $(GO) build -tags stdjson,nofit -trimpath -buildvcs=false -ldflags='-s -w' -o $@ ./wasm/page
 	gzip -9 -k -f $@
 	@if command -v brotli >/dev/null; then brotli -q 11 -k -f $@ && sha256sum $@ > $@.br.sha256; else rm -f $@.br $@.br.sha256; fi

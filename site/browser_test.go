@@ -747,6 +747,30 @@ func TestPagePrintReport(t *testing.T) {
 	if !strings.Contains(text, squash("Mineral saturation of the feed")) || !strings.Contains(text, "gypsum") {
 		t.Error("the PDF's text lacks the mineral saturation table")
 	}
+	// Compact: the caption says what the table is (not how to sort it), each
+	// note is printed once with the candidates it concerns, and the whole
+	// report — inputs, ranking, saturation, exclusions, warnings, four plots
+	// two to a page, sources — fits a few A4 pages.
+	if strings.Contains(text, squash("select a column heading to sort")) {
+		t.Error("the on-screen caption is printed")
+	}
+	notes := eval[[]string](t, b, `Array.from(document.querySelectorAll("#rp-results .rp-warnings li")).map(li => li.textContent)`)
+	seen := map[string]bool{}
+	for _, n := range notes {
+		if seen[n] {
+			t.Errorf("the report repeats the note %q", n)
+		}
+		seen[n] = true
+	}
+	if c := strings.Count(text, squash("Sherwood correlation quoted from memory")); c > 2 {
+		t.Errorf("the report prints the Sherwood note %d times", c)
+	}
+	pages := len(regexp.MustCompile(`/Type\s*/Page[^s]`).FindAll(pdf, -1))
+	t.Logf("the report prints on %d A4 pages", pages)
+	b.screenshot(t, "print")
+	if pages > 6 {
+		t.Errorf("the report takes %d A4 pages, want at most 6", pages)
+	}
 	dir := filepath.Join(moduleRoot(t), "testdata", "artifacts")
 	os.MkdirAll(dir, 0o755)
 	os.WriteFile(filepath.Join(dir, "report.pdf"), pdf, 0o644)
@@ -882,6 +906,12 @@ func TestBundleFromFile(t *testing.T) {
 	}
 	b.waitPlots(t)
 	b.screenshot(t, "bundle")
+	// A share link from the file says it works only where the file is.
+	b.do(t, chromedp.Click(chromedp.ID("btn-share")))
+	b.waitFor(t, `document.body.dataset.share === "file"`)
+	if msg := eval[string](t, b, `document.getElementById("banner").textContent`); !strings.Contains(msg, "opened from a file") {
+		t.Errorf("the file page's share link says %q", msg)
+	}
 	mu.Lock()
 	defer mu.Unlock()
 	for _, u := range urls {
@@ -1182,28 +1212,62 @@ func TestPageExports(t *testing.T) {
 	rows := eval[[]pageRow](t, b, jsRows)
 	b.do(t, chromedp.Click(chromedp.ID("btn-csv")))
 	csv := string(wait("drawsift-ranking.csv"))
-	lines := strings.Split(strings.TrimSpace(csv), "\n")
-	if !strings.HasPrefix(lines[0], "Rank,Solute,Score (0–1),Draw conc. (mol/L)") || !strings.Contains(lines[0], "(LMH)") {
-		t.Errorf("CSV header %q", lines[0])
+	// UTF-8 with a byte-order mark; a header block with the cautions and
+	// the scenario; then the one table with the CLI's columns; numbers
+	// with at most 6 significant digits.
+	if !strings.HasPrefix(csv, "\ufeffDrawsift screening result,") {
+		t.Errorf("CSV starts %q", csv[:min(len(csv), 60)])
 	}
-	if !strings.HasPrefix(lines[1], "1,"+rows[0].Solute+",") {
-		t.Errorf("CSV first row %q, want %s first", lines[1], rows[0].Solute)
+	lines := strings.Split(strings.TrimSpace(strings.TrimPrefix(csv, "\ufeff")), "\r\n")
+	head := -1
+	for i, l := range lines {
+		if strings.HasPrefix(l, "rank,solute,") {
+			head = i
+			break
+		}
+	}
+	if head < 0 || !strings.Contains(csv, "\r\ncaution,") || !strings.Contains(csv, "\r\nscenario (JSON),") || lines[head-1] != "" {
+		t.Fatalf("CSV header block or table missing:\n%s", csv)
+	}
+	cli := exec.Command(p.bin, "screen", "--format", "csv")
+	body, _ := json.Marshal(nativeRequest(pageScenario(t, b)))
+	cli.Stdin = bytes.NewReader(body)
+	cliOut, err := cli.Output()
+	if err != nil {
+		t.Fatalf("drawsift screen --format csv: %v", err)
+	}
+	if want := strings.SplitN(string(cliOut), "\n", 2)[0]; strings.TrimSuffix(want, "\r") != lines[head] {
+		t.Errorf("CSV columns differ from the CLI's:\npage %s\ncli  %s", lines[head], want)
+	}
+	if !strings.HasPrefix(lines[head+1], "1,"+rows[0].Solute+",") {
+		t.Errorf("CSV first row %q, want %s first", lines[head+1], rows[0].Solute)
+	}
+	for _, l := range lines[head+1 : head+len(rows)+1] {
+		for _, cell := range strings.Split(l, ",") {
+			if _, err := strconv.ParseFloat(cell, 64); err != nil {
+				continue
+			}
+			mant := strings.TrimLeft(strings.NewReplacer("-", "", ".", "").Replace(strings.SplitN(strings.ToLower(cell), "e", 2)[0]), "0")
+			if len(mant) > 6 {
+				t.Errorf("CSV cell %s has more than 6 significant digits", cell)
+			}
+		}
 	}
 	// CSV formula injection: a solute named as a formula is exported as
 	// quoted text, an excluded one too; numeric cells stay numbers.
 	evil := eval[string](t, b, `(() => { const P = window.DrawsiftPage, r = P.state.result;
 		const c = Object.assign({}, r.candidates[0], {solute: '=HYPERLINK("http://example.invalid","x")', name: "@name"});
 		return P.rankingCSV(Object.assign({}, r, {candidates: [c], excluded: [{solute: "+1+1", reason: "-cmd", detail: "\t=2"}]})); })()`)
-	for _, bad := range []string{`,=HYPERLINK`, `,"=HYPERLINK`, ",@name", "\n+1+1", ",-cmd", ",\t=2"} {
+	for _, bad := range []string{`,=HYPERLINK`, `,"=HYPERLINK`, ",@name", ",+1+1", ",-cmd", ",\t=2"} {
 		if strings.Contains(evil, bad) {
 			t.Errorf("CSV holds a formula cell %q: %s", bad, evil)
 		}
 	}
-	if !strings.Contains(evil, `"'=HYPERLINK(""http://example.invalid"",""x"")"`) || !strings.Contains(evil, "\n'+1+1,'-cmd,'\t=2") {
+	if !strings.Contains(evil, `"'=HYPERLINK(""http://example.invalid"",""x"")"`) || !strings.Contains(evil, ",'+1+1,") || !strings.Contains(evil, ",'-cmd: \t=2") {
 		t.Errorf("formula cells not quoted as text: %s", evil)
 	}
-	if row := strings.Split(evil, "\n")[1]; !strings.HasPrefix(row, "1,") {
-		t.Errorf("rank is no longer a number: %q", row)
+	if !strings.Contains(evil, "\r\n1,\"'=HYPERLINK") {
+		t.Errorf("rank is no longer a number: %s", evil)
 	}
 	b.do(t, chromedp.Click(chromedp.ID("btn-json")))
 	var res struct {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"encoding/json"
 	"strings"
 	"testing"
@@ -146,5 +147,72 @@ func TestCLINonFiniteInputs(t *testing.T) {
 				t.Errorf("field %q limit %v, want %q %q (%s)", e.Error.Field, e.Error.Limit, tc.field, tc.limit, e.Error.Message)
 			}
 		})
+	}
+}
+
+// TestCLIHelp: drawsift help lists every command; each command's -h and
+// help COMMAND print its usage (with request fields, units and defaults
+// for the request commands) and exit 0; a mistyped command says what to
+// type; solutes and presets print tables, or JSON with --json.
+func TestCLIHelp(t *testing.T) {
+	call := func(args ...string) (string, string, int) {
+		var out, errb bytes.Buffer
+		code := run(args, strings.NewReader(""), &out, &errb)
+		return out.String(), errb.String(), code
+	}
+	list, _, code := call("help")
+	if code != 0 {
+		t.Fatalf("help exits %d", code)
+	}
+	for _, c := range commands {
+		if !strings.Contains(list, "\n  "+c.name+" ") {
+			t.Errorf("help lacks %s:\n%s", c.name, list)
+		}
+		args := []string{c.name, "--help"}
+		if c.name == "help" {
+			args = []string{"help", "help"}
+		}
+		out, _, code := call(args...)
+		if code != 0 || !strings.HasPrefix(out, "usage: drawsift "+c.name) {
+			t.Errorf("%v: exit %d, %q", args, code, out[:min(len(out), 80)])
+		}
+		if c.name != "serve" && c.name != "bundle" && c.name != "help" {
+			if h, _, _ := call("help", c.name); h != out {
+				t.Errorf("help %s differs from %s --help", c.name, c.name)
+			}
+		}
+	}
+	scr, _, _ := call("screen", "-h")
+	for _, want := range []string{"temperature_c", "[°C]; default 25", "basis.value (osmotic-pressure)", "[bar]", "score_normalisation", "--demo", "example:"} {
+		if !strings.Contains(scr, want) {
+			t.Errorf("screen -h lacks %q", want)
+		}
+	}
+	if b, _, _ := call("bundle", "-h"); strings.Contains(b, "`") || !strings.Contains(b, "-wasm PATH") {
+		t.Errorf("bundle -h is garbled:\n%s", b)
+	}
+	_, msg, code := call("scren")
+	if code != 1 || !strings.Contains(msg, "Did you mean screen?") || !strings.Contains(msg, "drawsift help") {
+		t.Errorf("a mistyped command: exit %d, %q", code, msg)
+	}
+	sol, _, code := call("solutes")
+	if code != 0 || !strings.Contains(sol, "NaCl") || !strings.Contains(sol, "van 't Hoff only") {
+		t.Errorf("solutes: exit %d\n%s", code, sol)
+	}
+	js, _, _ := call("solutes", "--json")
+	var lib struct {
+		Solutes []struct {
+			ID string `json:"id"`
+		} `json:"solutes"`
+	}
+	if err := json.Unmarshal([]byte(js), &lib); err != nil || len(lib.Solutes) < 10 {
+		t.Errorf("solutes --json: %v, %d solutes", err, len(lib.Solutes))
+	}
+	pre, _, code := call("presets")
+	if code != 0 || !strings.Contains(pre, "tfc-standard") || !strings.Contains(pre, "seawater") {
+		t.Errorf("presets: exit %d\n%s", code, pre)
+	}
+	if _, msg, code := call("presets", "--yaml"); code != 1 || !strings.Contains(msg, "drawsift presets --json") {
+		t.Errorf("presets --yaml: exit %d, %q", code, msg)
 	}
 }

@@ -29,10 +29,15 @@ built from their SHA-256 hashes.
 func runBundle(args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("bundle", flag.ContinueOnError)
 	fs.SetOutput(stderr)
-	fs.Usage = func() { fmt.Fprint(stderr, bundleUsage); fs.PrintDefaults() }
+	fs.Usage = func() { fmt.Fprint(fs.Output(), bundleUsage+"\nflags:\n"); fs.PrintDefaults() }
 	out := fs.String("o", "", "write the page to `FILE`.html (required)")
-	wasm := fs.String("wasm", "build/drawsift.wasm", "the page's engine, built by `make wasm` (`PATH`)")
-	exec := fs.String("wasm-exec", "", "wasm_exec.js of the toolchain that built the wasm (`PATH`; default: beside the wasm)")
+	wasm := fs.String("wasm", "build/drawsift.wasm", "the page's engine `PATH`, as built by make wasm")
+	exec := fs.String("wasm-exec", "", "`PATH` of wasm_exec.js from the toolchain that built the wasm (default: beside the wasm)")
+	if wantsHelp(args) {
+		fs.SetOutput(stdout)
+		fs.Usage()
+		return 0
+	}
 	if err := fs.Parse(args); err != nil {
 		return 1
 	}

@@ -3,7 +3,10 @@
 //	drawsift osmotic [-f FILE] [--format json|csv|table]   osmotic properties of one solution
 //	drawsift flux    [-f FILE] [--format json|csv|table]   FO water and solute flux
 //	drawsift screen  [-f FILE] [--format json|csv|table]   rank candidate draw solutes
+//	drawsift solutes [--json]                              the solute library
+//	drawsift presets [--json]                              membrane and feed presets
 //	drawsift demo                                          the built-in demo table
+//	drawsift help [COMMAND]                                every command, or one command's fields
 //
 // Requests are the contract's JSON (see the README), read from standard
 // input or FILE. Errors are printed as the contract's error object on
@@ -23,28 +26,6 @@ import (
 	"drawsift/engine/api"
 )
 
-const usage = `usage: drawsift <command> [flags]
-
-commands:
-  osmotic   osmotic pressure and properties of one solution (request JSON on stdin or -f)
-  flux      water and reverse solute flux through an FO membrane
-  screen    rank candidate draw solutes for a scenario (or many: JSON array or NDJSON)
-  batch     run a JSON array of {"op": "osmotic"|"flux", "body": {...}} in one call
-  fit       fit a membrane's A, B and S (with confidence intervals) to measured fluxes:
-            drawsift fit --csv data.csv [-f options.json]
-  defaults  print the engine's defaults and limits (what every field takes when omitted)
-  serve     serve the JSON API at /v1/ and the page at / (drawsift serve -h)
-  bundle    write the single-file offline page (drawsift bundle -o FILE.html)
-  demo      print the built-in demo table
-  version   print the engine version
-
-flags for osmotic, flux, screen, batch, fit:
-  -f FILE             read the request from FILE instead of standard input
-  --csv FILE          (fit) the measurements as CSV with units in the header; the
-                      request (-f, optional) then gives only the options
-  --format FORMAT     json (default), csv or table
-`
-
 func main() {
 	os.Exit(run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
 }
@@ -54,10 +35,16 @@ func main() {
 // 1 a usage or I/O error.
 func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if len(args) == 0 {
-		fmt.Fprint(stderr, usage)
+		printUsage(stderr)
 		return 1
 	}
 	cmd, rest := args[0], args[1:]
+	// drawsift COMMAND -h / --help: the command's help (serve and bundle
+	// print their flags themselves).
+	if c := findCommand(cmd); c != nil && cmd != "serve" && cmd != "bundle" && cmd != "help" && wantsHelp(rest) {
+		printHelp(stdout, c)
+		return 0
+	}
 	switch cmd {
 	case api.OpOsmotic, api.OpFlux, api.OpScreen, api.OpBatch, api.OpFit:
 		return runOp(cmd, rest, stdin, stdout, stderr)
@@ -77,20 +64,38 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 			return 1
 		}
 		return 0
+	case api.OpSolutes, api.OpPresets:
+		return runList(cmd, rest, stdout, stderr)
 	case "serve":
 		return runServe(rest, stdout, stderr)
 	case "bundle":
 		return runBundle(rest, stdout, stderr)
 	case "demo":
+		if len(rest) > 0 {
+			fmt.Fprintf(stderr, "drawsift demo: unexpected argument %q; type drawsift demo for the table, or drawsift screen --demo for the demo screen\n", rest[0])
+			return 1
+		}
 		return runDemo(stdout, stderr)
 	case "version", "--version":
 		fmt.Fprintln(stdout, "drawsift engine", api.EngineVersion)
 		return 0
 	case "help", "-h", "--help":
-		fmt.Fprint(stdout, usage)
-		return 0
+		if len(rest) == 0 {
+			printUsage(stdout)
+			return 0
+		}
+		if c := findCommand(rest[0]); c != nil {
+			if c.name == "serve" || c.name == "bundle" {
+				return run([]string{c.name, "-h"}, stdin, stdout, stderr)
+			}
+			printHelp(stdout, c)
+			return 0
+		}
+		fmt.Fprintf(stderr, "drawsift help: no command %q. %sType drawsift help for the list.\n", rest[0], suggest(rest[0]))
+		return 1
 	}
-	fmt.Fprintf(stderr, "drawsift: unknown command %q\n\n%s", cmd, usage)
+	fmt.Fprintf(stderr, "drawsift: unknown command %q. %sType drawsift help for the list.\n\n", cmd, suggest(cmd))
+	printUsage(stderr)
 	return 1
 }
 

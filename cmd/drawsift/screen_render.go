@@ -59,6 +59,7 @@ var screenColumns = []struct {
 	{"feed-face saturation indices (mineral=log10 SI)", func(c *api.ScreenCandidate) string { return scalingText(c.Scaling, "=") }},
 	{"B (LMH)", func(c *api.ScreenCandidate) string { return num(c.BLMH) }},
 	{"B estimated", func(c *api.ScreenCandidate) string { return strconv.FormatBool(c.BEstimated) }},
+	{"trust", func(c *api.ScreenCandidate) string { return trustCodes(c.Trust) }},
 	{"hazard flags", func(c *api.ScreenCandidate) string { return strings.Join(c.HazardFlags, "; ") }},
 	{"P(first) (fraction)", func(c *api.ScreenCandidate) string {
 		if c.Robustness == nil {
@@ -79,6 +80,30 @@ var screenColumns = []struct {
 		return fmt.Sprintf("%d-%d", c.Robustness.RankP05, c.Robustness.RankP95)
 	}},
 	{"excluded reason", func(c *api.ScreenCandidate) string { return "" }},
+}
+
+// trustCodes joins a row's trust codes ("van-t-hoff; b-estimated").
+func trustCodes(ms []api.TrustMark) string {
+	codes := make([]string, len(ms))
+	for i, m := range ms {
+		codes[i] = m.Code
+	}
+	return strings.Join(codes, "; ")
+}
+
+// trustLegend lists each trust code the rows carry with its text, once.
+func trustLegend(cs []api.ScreenCandidate) []api.TrustMark {
+	var out []api.TrustMark
+	seen := map[string]bool{}
+	for _, c := range cs {
+		for _, m := range c.Trust {
+			if !seen[m.Code] {
+				seen[m.Code] = true
+				out = append(out, m)
+			}
+		}
+	}
+	return out
 }
 
 func num(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) }
@@ -174,6 +199,10 @@ func screenCSV(w io.Writer, r *api.ScreenResponse, bulk map[string]float64) erro
 	cw.Write([]string{})
 	scen, _ := json.Marshal(r.Scenario)
 	cw.Write([]string{"engine_version", r.EngineVersion})
+	cw.Write([]string{"score_normalisation", r.ScoreNormalisation})
+	if ref := r.ScoreReference; ref != nil {
+		cw.Write([]string{"score reference", fmt.Sprintf("%s at %s mol/L: %s", ref.Solute, num(ref.ConcentrationMolPerL), r.ModelChoices["normalisation"])})
+	}
 	for _, k := range minerals(bulk) {
 		cw.Write([]string{"feed (bulk) saturation index: " + k, num(bulk[k])})
 	}
@@ -188,6 +217,9 @@ func screenCSV(w io.Writer, r *api.ScreenResponse, bulk map[string]float64) erro
 	}
 	for _, s := range r.Sources {
 		cw.Write([]string{"source: " + s.Field, s.Reference})
+	}
+	for _, m := range trustLegend(r.Candidates) {
+		cw.Write([]string{"trust: " + m.Code, m.Text})
 	}
 	for _, w := range r.Warnings {
 		cw.Write([]string{"warning", w})
@@ -250,6 +282,22 @@ func screenTable(w io.Writer, r *api.ScreenResponse, bulk map[string]float64) er
 	}
 	for i, id := range notes {
 		fmt.Fprintf(&b, "[%d] %s\n", i+1, id)
+	}
+	if lg := trustLegend(r.Candidates); len(lg) > 0 {
+		fmt.Fprintln(&b, "trust marks (rows to read with care):")
+		for _, c := range r.Candidates {
+			if len(c.Trust) > 0 {
+				fmt.Fprintf(&b, "  %s: %s\n", c.Solute, trustCodes(c.Trust))
+			}
+		}
+		for _, m := range lg {
+			fmt.Fprintf(&b, "  %s = %s\n", m.Code, m.Text)
+		}
+	}
+	if r.ScoreReference != nil {
+		fmt.Fprintf(&b, "score: each metric against the reference draw %s at the same basis (%.3g mol/L; it scores 0.5), independent of the other candidates\n", r.ScoreReference.Solute, r.ScoreReference.ConcentrationMolPerL)
+	} else {
+		fmt.Fprintln(&b, "score: relative to the screened set (min–max per metric): adding or removing candidates can reorder the others; \"score_normalisation\": \"reference\" scores against NaCl at the same basis")
 	}
 	fmt.Fprintln(&b, "max SI: the highest saturation index (log10 IAP/Ksp) at the feed-side membrane face and its mineral; \"over\": supersaturated, may scale")
 	if rob {

@@ -48,12 +48,17 @@ type serveConfig struct {
 func runServe(args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("serve", flag.ContinueOnError)
 	fs.SetOutput(stderr)
-	fs.Usage = func() { fmt.Fprint(stderr, serveUsage); fs.PrintDefaults() }
+	fs.Usage = func() { fmt.Fprint(fs.Output(), serveUsage+"\nflags:\n"); fs.PrintDefaults() }
 	var cfg serveConfig
 	fs.StringVar(&cfg.addr, "addr", "127.0.0.1:8080", "listen on `HOST:PORT` (port 0 picks a free one)")
-	fs.StringVar(&cfg.wasm, "wasm", "build/drawsift.wasm", "serve the page's engine from `PATH`, built by `make wasm`")
+	fs.StringVar(&cfg.wasm, "wasm", "build/drawsift.wasm", "serve the page's engine from `PATH`, built by make wasm")
 	cors := fs.String("cors", "", "allow browser calls from `ORIGIN` (comma-separated list, or *); off by default")
 	fs.Int64Var(&cfg.maxBody, "max-body", httpapi.DefaultMaxBodyBytes, "cap request bodies at `BYTES`")
+	if wantsHelp(args) {
+		fs.SetOutput(stdout)
+		fs.Usage()
+		return 0
+	}
 	if err := fs.Parse(args); err != nil {
 		return 1
 	}

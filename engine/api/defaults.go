@@ -51,6 +51,10 @@ type DefaultsResponse struct {
 	Orientations     []string               `json:"orientations"`
 	OsmoticModel     string                 `json:"osmotic_model"`
 	OsmoticModels    []string               `json:"osmotic_models"`
+	// ScoreNormalisations: the accepted score_normalisation values, the
+	// default first; ScoreReferenceSolute is the "reference" draw.
+	ScoreNormalisations  []string `json:"score_normalisations"`
+	ScoreReferenceSolute string   `json:"score_reference_solute"`
 	// OsmoticModelAliases: other accepted spellings → the model's name.
 	OsmoticModelAliases map[string]string `json:"osmotic_model_aliases"`
 	// The basis a scenario without one gets: a multiple of the feed's π
@@ -73,7 +77,8 @@ func Defaults() *DefaultsResponse {
 		Channel:        scenario.DefaultChannel(),
 		MembranePreset: t.MembranePreset, FeedPreset: t.FeedPreset,
 		Orientation: t.Orientation, Orientations: t.Orientations,
-		OsmoticModel: t.OsmoticModel, OsmoticModels: t.OsmoticModels, OsmoticModelAliases: scenario.OsmoticModelAliases,
+		OsmoticModel: t.OsmoticModel, OsmoticModels: t.OsmoticModels,
+		ScoreNormalisations: screen.ScoreNormalisationNames, ScoreReferenceSolute: screen.ReferenceSolute, OsmoticModelAliases: scenario.OsmoticModelAliases,
 		BasisWithFeed:       BasisSpec{Kind: "osmotic-pressure", MultipleOfFeed: ptr(limits.BasisMultiple.Default)},
 		BasisWithoutFeed:    BasisSpec{Kind: "osmotic-pressure", Value: ptr(limits.BasisPressure.Default), Unit: limits.BasisPressure.Unit},
 		HazardFlags:         t.HazardFlags,

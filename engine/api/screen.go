@@ -32,6 +32,10 @@ type ScreenResponse struct {
 	Sweep                 []SweepSeries      `json:"sweep,omitempty"`
 	Warnings              []string           `json:"warnings"`
 	Cautions              []string           `json:"cautions"`
+	// ScoreNormalisation is how the metrics were scaled: "set" (min–max
+	// over the ranked candidates) or "reference" (against ScoreReference).
+	ScoreNormalisation string          `json:"score_normalisation"`
+	ScoreReference     *ScoreReference `json:"score_reference,omitempty"`
 	// What reproduces the run.
 	Scenario      *ScreenRequest    `json:"scenario"`
 	ModelChoices  map[string]string `json:"model_choices"`
@@ -46,6 +50,15 @@ type BasisReport struct {
 	Concentration            *float64 `json:"concentration,omitempty"`
 	Unit                     string   `json:"unit,omitempty"`
 	TargetWaterFluxLMH       *float64 `json:"target_water_flux_lmh,omitempty"`
+}
+
+// ScoreReference is the reference draw the "reference" normalisation
+// scores against: its concentration at the basis and its value of every
+// objective (in the objective's unit, as in the defaults' objectives).
+type ScoreReference struct {
+	Solute               string             `json:"solute"`
+	ConcentrationMolPerL float64            `json:"concentration_mol_per_l"`
+	Values               map[string]float64 `json:"values"`
 }
 
 // RobustnessReport describes the Monte Carlo run.
@@ -119,6 +132,69 @@ type ScreenCandidate struct {
 	OtherOrientations             []FluxMetrics        `json:"other_orientations,omitempty"`
 	Robustness                    *CandidateRobustness `json:"robustness,omitempty"`
 	Warnings                      []string             `json:"warnings"`
+	// Trust marks what makes the row less certain than a row computed
+	// from measured data within its range (empty when nothing does).
+	Trust []TrustMark `json:"trust"`
+}
+
+// TrustMark is one reason to trust a ranked row less: a stable code and
+// the words a person reads (the row's warnings give the detail).
+type TrustMark struct {
+	Code string `json:"code"`
+	Text string `json:"text"`
+}
+
+// trustTexts are the trust codes and their texts, in the order rows list them.
+var trustTexts = [...]TrustMark{
+	{"van-t-hoff", "van 't Hoff only: no non-ideal osmotic model on record for this solute"},
+	{"ideal-model", "ideal osmotic model (π = νcRT) chosen for the whole screen"},
+	{"extrapolated", "used past its model's data or fit range (extrapolated)"},
+	{"bridged", "between the model's data limit and the measured saturated solution (interpolated)"},
+	{"temperature-25c", "25 °C data used at another temperature"},
+	{"b-estimated", "solute permeability B estimated from the membrane's NaCl value"},
+	{"blend", "blend transported as one solute at its fixed ratio"},
+	{"custom", "custom solute: data entered by the user"},
+	{"solubility", "near or past its solubility somewhere in the module"},
+	{"crossing", "feed solute crosses into the draw or water flows back: flux ratios leave their usual range"},
+	{"no-price", "no price on record: scored worst on replenishment cost"},
+}
+
+// TrustCodes lists every trust code with its text, in order.
+func TrustCodes() []TrustMark { return append([]TrustMark(nil), trustTexts[:]...) }
+
+// trustMarks gives the row's marks: from its record, its B and the codes
+// of its warnings (one pass).
+func trustMarks(r *screen.Ranked, vantHoff bool) []TrustMark {
+	var has [len(trustTexts)]bool
+	has[0] = r.Solute.Osmotic.Kind == library.ModelNone
+	has[1] = vantHoff
+	has[5] = r.BEstimated
+	has[6] = r.Solute.IsBlend()
+	has[7] = r.Solute.Family == "custom"
+	has[10] = !r.HasPrice
+	for _, w := range r.Warnings {
+		switch w.Code {
+		case warn.NoModel:
+			has[0] = true
+		case warn.Extrapolated:
+			has[2] = true
+		case warn.Bridged:
+			has[3] = true
+		case warn.Temperature25C:
+			has[4] = true
+		case warn.Solubility:
+			has[8] = true
+		case warn.FeedToDraw, warn.ReverseFlow:
+			has[9] = true
+		}
+	}
+	out := []TrustMark{}
+	for i, h := range has {
+		if h {
+			out = append(out, trustTexts[i])
+		}
+	}
+	return out
 }
 
 // CandidateRobustness is the candidate's rank statistics over the samples.
@@ -308,6 +384,16 @@ func buildScreenResponse(req *ScreenRequest, sc *screen.Scenario, info *scenario
 		Candidates:             []ScreenCandidate{},
 		Excluded:               []ScreenExcluded{},
 	}
+	resp.ScoreNormalisation = screen.ScoreNormalisationNames[sc.Normalisation]
+	if ref := res.Reference; ref != nil {
+		sr := &ScoreReference{Solute: ref.Solute.ID, ConcentrationMolPerL: ref.Metrics.MolarityMolPerM3 / 1000, Values: map[string]float64{}}
+		for o := screen.Objective(0); o < screen.NumObjectives; o++ {
+			if ref.Known[o] {
+				sr.Values[o.Key()] = ref.Values[o]
+			}
+		}
+		resp.ScoreReference = sr
+	}
 	for k := screen.Mineral(0); k < screen.NumMinerals; k++ {
 		if res.FeedScaling.Has[k] {
 			resp.FeedSaturationIndices[k.Name()] = res.FeedScaling.SI[k]
@@ -346,6 +432,7 @@ func buildScreenResponse(req *ScreenRequest, sc *screen.Scenario, info *scenario
 			BEstimated:                    r.BEstimated,
 			HazardFlags:                   append([]string{}, r.Solute.HazardFlags...),
 			Warnings:                      warn.Strings(r.Warnings),
+			Trust:                         trustMarks(&r, sc.VantHoff),
 		}
 		if !math.IsInf(m.SolubilityMolPerKg, 1) {
 			c.SolubilityMolPerKg = ptr(m.SolubilityMolPerKg)
@@ -404,7 +491,7 @@ func buildScreenResponse(req *ScreenRequest, sc *screen.Scenario, info *scenario
 		"scaling":              screen.ScalingMethod,
 		"regeneration_energy":  fmt.Sprintf("minimum (reversible) work to recover %.0f %% of the diluted draw's water: W/V = (1/r)∫₀ʳ π dr′, π = −(RT/V̄w) ln aw along the re-concentration", 100*sc.RegenerationRecovery),
 		"replenishment_cost":   "specific reverse solute flux (g/L = kg/m³) × bulk price (USD/kg) = USD per m³ of product water; the price range carried through as min–max, the mid value scored",
-		"normalisation":        "min–max per objective over the ranked candidates, 1 = best; score = Σ weight × normalised value / Σ weights",
+		"normalisation":        normalisationText(res),
 		"pareto":               "non-dominated set on the chosen objectives (unknown values count as worst)",
 		"validity":             map[bool]string{false: "candidates needed above their osmotic model's data limit are excluded", true: "candidates above their osmotic model's data limit are kept and flagged"}[sc.AllowExtrapolation],
 		"json_library":         "see health operation",
@@ -439,6 +526,13 @@ func buildScreenResponse(req *ScreenRequest, sc *screen.Scenario, info *scenario
 		resp.Sources = append(resp.Sources, soluteSources(r.Solute)...)
 	}
 	return resp
+}
+
+func normalisationText(res *screen.Result) string {
+	if res.Reference != nil {
+		return "against the reference draw " + screen.ReferenceSolute + " at the same basis (set-independent): " + screen.ReferenceFormula
+	}
+	return "min–max per objective over the ranked candidates (relative to the screened set), 1 = best; score = Σ weight × normalised value / Σ weights"
 }
 
 func osmoticSDText(u *screen.Uncertainty) string {

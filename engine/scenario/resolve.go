@@ -65,6 +65,10 @@ type Spec struct {
 	Seed        *uint64          `json:"seed,omitempty"` // default 1
 	// Sweep asks for series of every metric against one variable.
 	Sweep *SweepSpec `json:"sweep,omitempty"`
+	// ScoreNormalisation: "set" (default: min–max over the ranked
+	// candidates) or "reference" (each metric against the reference draw,
+	// NaCl at the same basis; screen.NormaliseAgainst).
+	ScoreNormalisation string `json:"score_normalisation,omitempty"`
 }
 
 // FeedSpec is the scenario's feed water.
@@ -191,6 +195,9 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 		return nil, nil, err
 	}
 	sc.TemperatureK = tK
+	if sc.Normalisation, err = ParseScoreNormalisation(req.ScoreNormalisation); err != nil {
+		return nil, nil, err
+	}
 	osm, err := ParseOsmoticModel(req.OsmoticModel)
 	if err != nil {
 		return nil, nil, err
@@ -902,4 +909,16 @@ func prefixed(prefix string, err error) error {
 		return ie.Prefix(prefix)
 	}
 	return err
+}
+
+// ParseScoreNormalisation reads score_normalisation ("" is "set").
+func ParseScoreNormalisation(v string) (screen.ScoreNormalisation, error) {
+	switch v {
+	case "", "set":
+		return screen.NormaliseSet, nil
+	case "reference":
+		return screen.NormaliseReference, nil
+	}
+	return 0, &errs.InputError{Field: "score_normalisation", Limit: screen.ScoreNormalisationNames,
+		Msg: "score_normalisation must be \"set\" (relative to the screened candidates) or \"reference\" (against NaCl at the same basis)"}
 }

@@ -1,6 +1,10 @@
 package screen
 
-import "math"
+import (
+	"math"
+
+	"drawsift/engine/library"
+)
 
 // Normalise maps each objective's column to [0, 1], 1 the best:
 //
@@ -115,4 +119,81 @@ func better(a, b int, scores []float64, names []string) bool {
 		return scores[a] > scores[b]
 	}
 	return names[a] < names[b]
+}
+
+// ScoreNormalisation chooses how each metric is scaled before weighting.
+type ScoreNormalisation int
+
+// Normalisations.
+const (
+	// NormaliseSet scales min–max over the ranked candidates (Normalise):
+	// a score says how a candidate stands within this set.
+	NormaliseSet ScoreNormalisation = iota
+	// NormaliseReference scales against the reference draw's values
+	// (NormaliseAgainst): a score does not depend on the other candidates.
+	NormaliseReference
+)
+
+// ScoreNormalisationNames are the request names, in the order of the constants.
+var ScoreNormalisationNames = []string{"set", "reference"}
+
+// ReferenceSolute is the reference draw of NormaliseReference: NaCl, the
+// usual benchmark draw of forward-osmosis screening (common practice; e.g.
+// Achilli, Cath & Childress 2010 compare every draw with NaCl), brought to
+// the same basis, membrane, feed and orientation as the candidates.
+const ReferenceSolute = "NaCl"
+
+// Reference is the reference draw's result at the scenario's basis.
+type Reference struct {
+	Solute  *library.Solute
+	Metrics Metrics
+	Values  [NumObjectives]float64
+	Known   [NumObjectives]bool
+}
+
+// ReferenceFormula states NormaliseAgainst in words.
+const ReferenceFormula = "q = v/r (maximised) or r/v (minimised), 10^(r−v) for the saturation index; normalised q/(1+q), so the reference scores 0.5 and twice as good 0.67"
+
+// NormaliseAgainst maps each value v to [0, 1] against the reference's r
+// (ReferenceFormula), independently of the other rows. An unknown v gives
+// 0; v ≤ 0 on a ratio metric counts as worst if maximised, best if
+// minimised; an unknown or non-positive r gives 0.5 (no comparison).
+func NormaliseAgainst(vals [][NumObjectives]float64, known [][NumObjectives]bool, ref *Reference, out [][NumObjectives]float64) {
+	for i := range vals {
+		for o := Objective(0); o < NumObjectives; o++ {
+			v, r, q := vals[i][o], ref.Values[o], 0.0
+			switch {
+			case !known[i][o]:
+				out[i][o] = 0
+				continue
+			case !ref.Known[o] || o != ObjScaling && !(r > 0):
+				q = 1
+			case o == ObjScaling:
+				q = math.Pow(10, r-v) // minimised, log units
+			case !(v > 0):
+				q = math.Inf(1)
+				if o.Maximise() {
+					q = 0
+				}
+			case o.Maximise():
+				q = v / r
+			default:
+				q = r / v
+			}
+			if math.IsInf(q, 1) {
+				out[i][o] = 1
+			} else {
+				out[i][o] = q / (1 + q)
+			}
+		}
+	}
+}
+
+// normaliseRows applies the scenario's normalisation.
+func normaliseRows(mode ScoreNormalisation, ref *Reference, vals [][NumObjectives]float64, known [][NumObjectives]bool, out [][NumObjectives]float64) {
+	if mode == NormaliseReference && ref != nil {
+		NormaliseAgainst(vals, known, ref, out)
+		return
+	}
+	Normalise(vals, known, out)
 }

@@ -103,6 +103,7 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 	ws := make([]*robustWorker, workers)
 	for i := range ws {
 		ws[i] = newRobustWorker(e, ci)
+		ws[i].ref = res.Reference
 	}
 	every := max(1, total/100)
 	for done := 0; done < total; {
@@ -202,6 +203,7 @@ type robustWorker struct {
 	m       Metrics
 	scratch transport.Result
 	contrib [NumObjectives]float64
+	ref     *Reference // the nominal reference draw (NormaliseReference)
 }
 
 func newRobustWorker(e *env, ci []int) *robustWorker {
@@ -234,7 +236,7 @@ func (w *robustWorker) sample(perts []perturb, ranks []int32, s, total int) {
 			}
 		}
 	}
-	Normalise(w.vals, w.known, w.norm)
+	normaliseRows(e.sc.Normalisation, w.ref, w.vals, w.known, w.norm)
 	for k := range w.cands {
 		w.idx[k] = k
 		if w.ok[k] {

@@ -68,6 +68,8 @@ type Result struct {
 	Samples int
 	// FeedScaling holds the saturation indices of the bulk feed.
 	FeedScaling Scaling
+	// Reference is the reference draw at the basis (NormaliseReference).
+	Reference *Reference
 }
 
 // ErrNoCandidate means no candidate could be ranked: every one failed a
@@ -127,7 +129,12 @@ func Run(ctx context.Context, sc *Scenario, lib *library.Library, progress func(
 		}
 		return res, &errs.InputError{Field: field, Msg: fmt.Sprintf("%v: no candidate can be evaluated at this basis (see excluded)", ErrNoCandidate)}
 	}
-	rankRows(res.Ranked, &sc.Weights, sc.Pareto)
+	if sc.Normalisation == NormaliseReference {
+		if res.Reference, err = referenceDraw(ctx, sc, lib); err != nil {
+			return nil, err
+		}
+	}
+	rankRows(res.Ranked, sc, res.Reference)
 	if u := sc.Uncertainty; u != nil && u.Samples > 0 {
 		if err := e.robustness(ctx, res, progress); err != nil {
 			return nil, err
@@ -137,7 +144,8 @@ func Run(ctx context.Context, sc *Scenario, lib *library.Library, progress func(
 }
 
 // rankRows normalises, scores, orders and marks the Pareto front.
-func rankRows(rows []Ranked, w *Weights, pareto []Objective) {
+func rankRows(rows []Ranked, sc *Scenario, ref *Reference) {
+	w, pareto := &sc.Weights, sc.Pareto
 	n := len(rows)
 	vals := make([][NumObjectives]float64, n)
 	known := make([][NumObjectives]bool, n)
@@ -145,7 +153,7 @@ func rankRows(rows []Ranked, w *Weights, pareto []Objective) {
 	for i := range rows {
 		vals[i], known[i] = rows[i].Values, rows[i].Known
 	}
-	Normalise(vals, known, norm)
+	normaliseRows(sc.Normalisation, ref, vals, known, norm)
 	front := ParetoFront(vals, known, pareto)
 	scores := make([]float64, n)
 	names := make([]string, n)
@@ -166,6 +174,33 @@ func rankRows(rows []Ranked, w *Weights, pareto []Objective) {
 		sorted[k].Rank = k + 1
 	}
 	copy(rows, sorted)
+}
+
+// referenceDraw evaluates the reference draw (ReferenceSolute) at the
+// scenario's basis, membrane, feed and ranking orientation, with the
+// nominal values; an *errs.InputError on "score_normalisation" when it
+// cannot be evaluated there.
+func referenceDraw(ctx context.Context, sc *Scenario, lib *library.Library) (*Reference, error) {
+	s, ok := lib.Lookup(ReferenceSolute)
+	if !ok {
+		return nil, inputErr("score_normalisation", ScoreNormalisationNames, "the reference draw %s is not in the library", ReferenceSolute)
+	}
+	rs := *sc
+	rs.Candidates, rs.Uncertainty, rs.ExcludeHazards, rs.Orientations = []*library.Solute{s}, nil, nil, sc.Orientations[:1]
+	e, err := prepare(ctx, &rs, lib)
+	if err != nil {
+		return nil, err
+	}
+	ref := &Reference{Solute: s}
+	var scratch transport.Result
+	if ex := e.evaluate(&e.cands[0], rs.Orientations[0], &nominal, &ref.Metrics, &scratch); ex != nil {
+		return nil, inputErr("score_normalisation", `"set"`, "the reference draw %s cannot be evaluated at this basis (%s: %s); score against the set instead (\"set\")",
+			ReferenceSolute, ex.reason, ex.detail)
+	}
+	for o := Objective(0); o < NumObjectives; o++ {
+		ref.Values[o], ref.Known[o] = ref.Metrics.Objective(o)
+	}
+	return ref, nil
 }
 
 // metricWarnings flags a candidate's results worth a second look.

@@ -234,6 +234,8 @@ type Scenario struct {
 	RegenerationRecovery float64
 	Uncertainty          *Uncertainty
 	Seed                 uint64
+	// Normalisation: NormaliseSet (default) or NormaliseReference.
+	Normalisation ScoreNormalisation
 }
 
 // inputErr builds the *errs.InputError of a scenario the screen cannot

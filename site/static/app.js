@@ -88,6 +88,8 @@
     state.prefs.tab = name;
     S.save(S.KEY_PREFS, state.prefs);
     if (name === "solution") P.refreshSolution();
+    if (name === "ranking") P.placeSticky();
+    if (name === "plots") P.refit();
   }
 
   // Starting values the form suggests when the basis kind changes to one
@@ -171,6 +173,8 @@
     $("file-import").addEventListener("change", ev => { const f = ev.target.files[0]; ev.target.value = ""; if (f) P.importFile(f); });
     $("btn-share").addEventListener("click", () => P.copyShare().catch(e => P.banner(e.message)));
     $("btn-print").addEventListener("click", () => { if (stale("The printed report is")) return; P.renderReport(); window.print(); });
+    $("btn-cols-all").addEventListener("click", () => P.showAllColumns());
+    window.addEventListener("resize", P.debounce(() => { P.placeSticky(); P.refit(); }, 150));
     $("btn-csv").addEventListener("click", () => { if (!stale("The CSV export is")) P.exportCSV(); });
     $("btn-json").addEventListener("click", () => { if (!stale("The JSON export is")) P.exportJSON(); });
     window.addEventListener("beforeprint", P.renderReport);

@@ -44,30 +44,78 @@
     return v.toFixed(Math.min(d, 6));
   }
 
+  // A label's width in px at 12 px (an estimate: no layout is asked for).
+  function textW(str, size) { return 0.6 * (size || 12) * String(str).length; }
+
+  // layoutLegend flows the legend items left to right in rows under the
+  // plot (never over the data); returns each item's place and the height.
+  function layoutLegend(items, W, x0) {
+    const rowH = 17, places = [];
+    let x = x0, row = 0;
+    for (let it of items) {
+      // A name longer than the chart is wide is cut, in full in its tooltip.
+      const room = Math.floor((W - x0 - 6 - 40) / textW("m", 12));
+      if (it.name.length > room) it = Object.assign({}, it, { full: it.name, name: it.name.slice(0, Math.max(4, room - 1)) + "…" });
+      const w = 26 + textW(it.name, 12) + 14;
+      if (x > x0 && x + w > W - 6) { row++; x = x0; }
+      places.push({ it: it, x: x, row: row });
+      x += w;
+    }
+    return { places: places, height: items.length ? (row + 1) * rowH + 8 : 0, rowH: rowH };
+  }
+
+  // ticksFor chooses tick values whose labels fit the axis length.
+  function ticksFor(lo, hi, len, perLabel, vertical) {
+    let n = Math.max(2, Math.floor(len / (vertical ? 48 : 64)));
+    for (;;) {
+      const t = niceTicks(lo, hi, n);
+      const widest = vertical ? 16 : Math.max(...t.ticks.map(v => textW(fmtTick(v, t.step)))) + perLabel;
+      if (n <= 2 || len / Math.max(1, t.ticks.length - 1) >= widest) return t;
+      n--;
+    }
+  }
+
   // frame draws the plot area, axes, grid and labels and returns scales.
-  function frame(svg, o, xr, yr) {
+  // The chart is drawn at the width it is shown (o.width, px), so its text
+  // keeps its size on a phone; the legend (o.legendItems) goes below the
+  // axes, outside the plot area.
+  function frame(svg, o, xr, yr, lg) {
     const W = o.width || 560, H = o.height || 360;
-    const m = { l: 62, r: 14, t: 34, b: o.categorical ? 64 : 48 };
+    // A title too long for the width breaks at a space into two lines.
+    const tSize = W < 420 ? 13 : 15;
+    let lines = [o.title];
+    if (textW(o.title, tSize) > W - 16) {
+      const mid = o.title.length / 2, cuts = [];
+      for (let i = 0; i < o.title.length; i++) if (o.title[i] === " ") cuts.push(i);
+      if (cuts.length) {
+        const c = cuts.reduce((a, b) => Math.abs(b - mid) < Math.abs(a - mid) ? b : a);
+        lines = [o.title.slice(0, c), o.title.slice(c + 1)];
+      }
+    }
+    const m = { l: 62, r: 18, t: 34 + 17 * (lines.length - 1), b: (o.categorical ? o.catBottom || 64 : 48) + (lg ? lg.height : 0) };
     const pw = W - m.l - m.r, ph = H - m.t - m.b;
-    const xt = niceTicks(xr[0], xr[1], 6), yt = niceTicks(yr[0], yr[1], 5);
+    const xt = ticksFor(xr[0], xr[1], pw, 12, false), yt = ticksFor(yr[0], yr[1], ph, 0, true);
     const sx = v => m.l + (v - xt.lo) / (xt.hi - xt.lo) * pw;
     const sy = v => m.t + ph - (v - yt.lo) / (yt.hi - yt.lo) * ph;
     el("rect", { x: 0, y: 0, width: W, height: H, fill: "#ffffff" }, svg);
-    text(svg, 8, 20, o.title, { "font-size": 15, "font-weight": 600 });
+    lines.forEach((l, i) => text(svg, 8, 20 + 17 * i, l, { "font-size": tSize, "font-weight": 600 }));
     const g = el("g", { "aria-hidden": "true" }, svg);
     for (const v of yt.ticks) {
       el("line", { x1: m.l, x2: m.l + pw, y1: sy(v), y2: sy(v), stroke: GRID, "stroke-width": 1 }, g);
-      text(g, m.l - 6, sy(v) + 4, fmtTick(v, yt.step), { "text-anchor": "end", fill: MUTED, "font-size": 12 });
+      text(g, m.l - 6, sy(v) + 4, fmtTick(v, yt.step), { class: "tick", "text-anchor": "end", fill: MUTED, "font-size": 12 });
     }
     if (!o.categorical) {
       for (const v of xt.ticks) {
         el("line", { x1: sx(v), x2: sx(v), y1: m.t, y2: m.t + ph, stroke: GRID, "stroke-width": 1 }, g);
-        text(g, sx(v), m.t + ph + 17, fmtTick(v, xt.step), { "text-anchor": "middle", fill: MUTED, "font-size": 12 });
+        // The last label ends at the frame's edge rather than past the figure.
+        const lab = fmtTick(v, xt.step), half = textW(lab) / 2;
+        const anchor = sx(v) + half > W - 2 ? "end" : "middle";
+        text(g, anchor === "end" ? Math.min(sx(v) + half, W - 2) : sx(v), m.t + ph + 20, lab, { class: "tick", "text-anchor": anchor, fill: MUTED, "font-size": 12 });
       }
     }
-    el("rect", { x: m.l, y: m.t, width: pw, height: ph, fill: "none", stroke: INK, "stroke-width": 1 }, g);
-    text(svg, m.l + pw / 2, H - 8, o.xLabel, { "text-anchor": "middle", "font-size": 13 });
-    const yl = text(svg, 0, 0, o.yLabel, { "text-anchor": "middle", "font-size": 13, transform: "translate(16," + (m.t + ph / 2) + ") rotate(-90)" });
+    el("rect", { class: "plot-area", x: m.l, y: m.t, width: pw, height: ph, fill: "none", stroke: INK, "stroke-width": 1 }, g);
+    text(svg, m.l + pw / 2, m.t + ph + (o.categorical ? 58 : 38), o.xLabel, { class: "axis-label", "text-anchor": "middle", "font-size": W < 420 ? 12 : 13 });
+    const yl = text(svg, 0, 0, o.yLabel, { class: "axis-label", "text-anchor": "middle", "font-size": 13, transform: "translate(16," + (m.t + ph / 2) + ") rotate(-90)" });
     yl.setAttribute("x", 0);
     return { sx, sy, m, pw, ph, W, H, xt, yt };
   }
@@ -91,28 +139,39 @@
     return [lo, hi];
   }
 
-  function legend(svg, f, items) {
-    // Legend inside the top-left of the plot area, one row per series.
-    const g = el("g", {}, svg);
-    let y = f.m.t + 14;
-    const x = f.m.l + 10;
-    const w = Math.min(f.pw - 12, 28 + 6.6 * Math.max(...items.map(i => i.name.length)));
-    el("rect", { x: x - 6, y: f.m.t + 4, width: w, height: items.length * 16 + 6, fill: "#ffffff", "fill-opacity": 0.92, stroke: GRID }, g);
-    for (const it of items) {
-      if (it.bar) el("rect", { x: x, y: y - 8, width: 16, height: 9, fill: it.color }, g);
-      else el("line", { x1: x, x2: x + 16, y1: y - 4, y2: y - 4, stroke: it.color, "stroke-width": 2.2, "stroke-dasharray": it.dash || null }, g);
-      if (it.marker) el("circle", { cx: x + 8, cy: y - 4, r: 3.5, fill: it.color }, g);
-      text(g, x + 22, y, it.name, { "font-size": 12 });
-      y += 16;
+  // legend draws the laid-out items below the axes (class "legend", so a
+  // test or a reader can find it).
+  function legend(svg, f, lg) {
+    if (!lg || !lg.places.length) return;
+    const g = el("g", { class: "legend" }, svg);
+    const y0 = f.H - lg.height + 12;
+    for (const p of lg.places) {
+      const it = p.it, x = p.x, y = y0 + p.row * lg.rowH;
+      if (it.bar) el("rect", { x: x, y: y - 8, width: 16, height: 9, fill: it.color, "fill-opacity": 0.45 }, g);
+      else if (!it.diamond && !it.dot) el("line", { x1: x, x2: x + 16, y1: y - 4, y2: y - 4, stroke: it.color, "stroke-width": 2.2, "stroke-dasharray": it.dash || null }, g);
+      if (it.marker || it.dot) el("circle", { cx: x + 8, cy: y - 4, r: 3.5, fill: it.color }, g);
+      if (it.diamond) el("path", { d: "M" + (x + 8) + " " + (y - 9) + "L" + (x + 13) + " " + (y - 4) + "L" + (x + 8) + " " + (y + 1) + "L" + (x + 3) + " " + (y - 4) + "Z", fill: "#ffffff", stroke: it.color, "stroke-width": 1.5 }, g);
+      if (it.ring) el("circle", { cx: x + 8, cy: y - 4, r: 6, fill: "none", stroke: it.color, "stroke-width": 1.5 }, g);
+      const t = text(g, x + 22, y, it.name, { "font-size": 12 });
+      if (it.full) el("title", {}, t).textContent = it.full;
     }
+  }
+  // withLegend sizes the chart for its legend: o.height is the plot's own
+  // height, the legend's rows are added below.
+  function withLegend(o, items) {
+    const W = o.width || 560;
+    const lg = layoutLegend(items, W, 12);
+    return { o: Object.assign({}, o, { height: (o.height || Math.round(Math.max(250, Math.min(360, W * 0.64)))) + lg.height }), lg: lg };
   }
 
   // line draws series [{name, color, dash, points: [[x, y], ...]}].
   function line(o) {
+    const L = withLegend(o, o.legend === false ? [] : (o.legendItems || o.series).slice(0, 24));
+    o = L.o;
     const svg = root(o);
     const xs = [], ys = [];
     for (const s of o.series) for (const p of s.points) { xs.push(p[0]); ys.push(p[1]); }
-    const f = frame(svg, o, extent(xs, o.xZero !== false), extent(ys, o.yZero !== false));
+    const f = frame(svg, o, extent(xs, o.xZero !== false), extent(ys, o.yZero !== false), L.lg);
     const clip = "k" + Math.random().toString(36).slice(2, 8);
     const cp = el("clipPath", { id: clip }, el("defs", {}, svg));
     el("rect", { x: f.m.l, y: f.m.t, width: f.pw, height: f.ph }, cp);
@@ -124,27 +183,36 @@
       el("path", { d: d, fill: "none", stroke: s.color, "stroke-width": 2, "stroke-dasharray": s.dash || null, "stroke-linejoin": "round" }, g);
       if (s.markers) for (const p of pts) el("circle", { cx: f.sx(p[0]), cy: f.sy(p[1]), r: 2.6, fill: s.color }, g);
     }
-    if (o.legend !== false) legend(svg, f, (o.legendItems || o.series).slice(0, 14));
+    legend(svg, f, L.lg);
     return svg;
   }
 
   // bars draws one bar per category [{name, value, color}], with optional
   // error bars [lo, hi].
   function bars(o) {
-    o = Object.assign({ categorical: true, height: 380 }, o);
+    o = Object.assign({ categorical: true }, o);
+    if (!o.height) o.height = Math.round(Math.max(280, Math.min(380, (o.width || 560) * 0.68)));
     const svg = root(o);
     const vals = [];
     for (const c of o.data) { vals.push(c.value); if (c.range) vals.push(c.range[0], c.range[1]); }
+    // Category names turn steeper where bars are narrow, so neighbours do
+    // not overlap; the bottom margin fits the longest name.
+    const n = o.data.length, bw0 = ((o.width || 560) - 80) / Math.max(n, 1);
+    const angle = bw0 < 34 ? 60 : 30, longest = Math.max(1, ...o.data.map(c => textW(c.name)));
+    o.catBottom = Math.max(40, Math.ceil(longest * Math.sin(angle * Math.PI / 180) + 22));
     const f = frame(svg, o, [0, 1], extent(vals, true));
-    const n = o.data.length, bw = f.pw / Math.max(n, 1);
+    const bw = f.pw / Math.max(n, 1);
     o.data.forEach((c, i) => {
       const x = f.m.l + i * bw + bw * 0.15, w = bw * 0.7;
       const y0 = f.sy(Math.max(0, f.yt.lo)), y1 = f.sy(c.value);
-      el("rect", { x: x, y: Math.min(y0, y1), width: w, height: Math.abs(y0 - y1), fill: c.color || PALETTE[0] }, svg);
+      const bar = el("rect", { x: x, y: Math.min(y0, y1), width: w, height: Math.abs(y0 - y1), fill: c.color || PALETTE[0] }, svg);
+      const val = o.format ? o.format(c.value) : String(c.value);
+      el("title", {}, bar).textContent = c.name + ": " + val;
       const lab = text(svg, x + w / 2, f.m.t + f.ph + 14, c.name, { "text-anchor": "end", "font-size": 12,
-        transform: "rotate(-30 " + (x + w / 2) + " " + (f.m.t + f.ph + 14) + ")" });
+        transform: "rotate(-" + angle + " " + (x + w / 2) + " " + (f.m.t + f.ph + 14) + ")" });
       lab.setAttribute("dy", "0.3em");
-      text(svg, x + w / 2, Math.min(y0, y1) - 4, o.format ? o.format(c.value) : String(c.value), { "text-anchor": "middle", "font-size": 11, fill: MUTED });
+      // The value above its bar where it fits (else in the bar's tooltip).
+      if (textW(val, 11) <= bw) text(svg, x + w / 2, Math.min(y0, y1) - 4, val, { "text-anchor": "middle", "font-size": 11, fill: MUTED });
     });
     return svg;
   }
@@ -152,8 +220,10 @@
   // scatter draws labelled points [{name, x, y, color, front}] and joins the
   // points on the front with a step line.
   function scatter(o) {
+    const L = withLegend(o, [{ name: "ringed: on the Pareto front", color: INK, ring: true }, { name: "dashed: the front", color: INK, dash: "5 3" }]);
+    o = L.o;
     const svg = root(o);
-    const f = frame(svg, o, extent(o.points.map(p => p.x), true), extent(o.points.map(p => p.y), true));
+    const f = frame(svg, o, extent(o.points.map(p => p.x), true), extent(o.points.map(p => p.y), true), L.lg);
     const front = o.points.filter(p => p.front).sort((a, b) => a.x - b.x);
     if (front.length > 1) {
       const d = front.map((p, i) => (i ? "L" : "M") + f.sx(p.x).toFixed(1) + " " + f.sy(p.y).toFixed(1)).join("");
@@ -167,7 +237,7 @@
     for (const p of order) {
       const cx = f.sx(p.x), cy = f.sy(p.y);
       if (p.front) el("circle", { cx: cx, cy: cy, r: 7.5, fill: "none", stroke: INK, "stroke-width": 1.5 }, svg);
-      el("circle", { cx: cx, cy: cy, r: 4.5, fill: p.color || PALETTE[0] }, svg);
+      el("circle", { class: "point", "data-name": p.name, cx: cx, cy: cy, r: 4.5, fill: p.color || PALETTE[0] }, svg);
       const w = 6.8 * p.name.length + 4, hgt = 13;
       let x = cx + 9;
       if (x + w > f.m.l + f.pw) x = cx - 9 - w;
@@ -177,7 +247,47 @@
       if (Math.abs(y - (cy - 6)) > 10) el("line", { x1: cx, y1: cy, x2: x, y2: y - 4, stroke: GRID, "stroke-width": 1 }, svg);
       text(svg, x, y, p.name, { "font-size": 12 });
     }
-    legend(svg, f, [{ name: "on the Pareto front", color: INK, marker: true }, { name: "front (dashed)", color: INK, dash: "5 3" }]);
+    legend(svg, f, L.lg);
+    return svg;
+  }
+
+  // intervals draws one row per item [{name, lo, mid, hi, mark, note,
+  // color}] on a shared axis from o.from to o.to: a bar from lo to hi, a
+  // dot at mid, a diamond at mark, the name on the left and the note on
+  // the right. Used for rank intervals (rank 1 on the left).
+  function intervals(o) {
+    const W = o.width || 560, rowH = 22, n = o.items.length;
+    const nameW = Math.min(W * 0.3, 12 + Math.max(...o.items.map(i => textW(i.name)))), noteW = 12 + Math.max(0, ...o.items.map(i => textW(i.note || "")));
+    const L = withLegend(Object.assign({}, o, { height: 44 + n * rowH + 44 }), [{ name: o.barLabel || "5th–95th percentile", color: MUTED, bar: true },
+      { name: o.midLabel || "median", color: INK, dot: true }, { name: o.markLabel || "nominal", color: INK, diamond: true }]);
+    o = L.o;
+    const svg = root(o);
+    const H = o.height;
+    el("rect", { x: 0, y: 0, width: W, height: H, fill: "#ffffff" }, svg);
+    text(svg, 8, 20, o.title, { "font-size": W < 420 ? 13 : 15, "font-weight": 600 });
+    const m = { l: nameW, r: noteW, t: 36 };
+    const pw = W - m.l - m.r, ph = n * rowH;
+    const span = Math.max(1, o.to - o.from);
+    const sx = v => m.l + (v - o.from) / span * pw;
+    const g = el("g", {}, svg);
+    const step = Math.max(1, Math.ceil(span / Math.max(2, Math.floor(pw / 28))));
+    for (let v = o.from; v <= o.to; v += step) {
+      el("line", { x1: sx(v), x2: sx(v), y1: m.t, y2: m.t + ph, stroke: GRID, "stroke-width": 1 }, g);
+      text(g, sx(v), m.t + ph + 16, String(v), { class: "tick", "text-anchor": "middle", fill: MUTED, "font-size": 12 });
+    }
+    el("rect", { class: "plot-area", x: m.l, y: m.t, width: pw, height: ph, fill: "none", stroke: INK, "stroke-width": 1 }, g);
+    text(svg, m.l + pw / 2, m.t + ph + 34, o.xLabel, { class: "axis-label", "text-anchor": "middle", "font-size": 12 });
+    o.items.forEach((it, i) => {
+      const y = m.t + i * rowH + rowH / 2;
+      const row = el("g", { class: "interval", "data-name": it.name, "data-lo": it.lo, "data-hi": it.hi }, svg);
+      text(row, m.l - 6, y + 4, it.name, { "text-anchor": "end", "font-size": 12 });
+      el("rect", { x: sx(it.lo) - 3, y: y - 5, width: Math.max(6, sx(it.hi) - sx(it.lo) + 6), height: 10, rx: 5, fill: it.color || MUTED, "fill-opacity": 0.45 }, row);
+      el("circle", { cx: sx(it.mid), cy: y, r: 4, fill: INK }, row);
+      const d = 5, cx = sx(it.mark);
+      el("path", { d: "M" + cx + " " + (y - d) + "L" + (cx + d) + " " + y + "L" + cx + " " + (y + d) + "L" + (cx - d) + " " + y + "Z", fill: "none", stroke: INK, "stroke-width": 1.5 }, row);
+      if (it.note) text(row, W - noteW + 8, y + 4, it.note, { "font-size": 12, fill: MUTED });
+    });
+    legend(svg, { H: H }, L.lg);
     return svg;
   }
 
@@ -225,5 +335,5 @@
     });
   }
 
-  window.DrawsiftCharts = { line, bars, scatter, parity, serialise, toPNG, niceTicks, PALETTE };
+  window.DrawsiftCharts = { line, bars, scatter, parity, intervals, serialise, toPNG, niceTicks, PALETTE };
 })();

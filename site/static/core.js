@@ -128,7 +128,7 @@
   // the page needs is missing (an engine older than the page).
   function setDefaults(d) {
     for (const k of ["limits", "weights", "objectives", "pareto_objectives", "channel", "hazard_flags", "pressure_units_pa", "concentration_units",
-      "basis_with_feed", "basis_without_feed", "osmotic_models", "osmotic_model_aliases"]) {
+      "basis_with_feed", "basis_without_feed", "osmotic_models", "osmotic_model_aliases", "score_normalisations", "score_reference_solute"]) {
       if (!d || d[k] === undefined) throw new Error("the engine's defaults lack " + k);
     }
     if (!(d.pressure_units_pa.bar > 0) || !(d.gas_constant_j_per_mol_k > 0)) throw new Error("the engine's defaults lack the bar or the gas constant");

@@ -56,6 +56,7 @@
       candidates: ["array", { anyOf: [str_, SHAPE_BLEND] }],
       custom_solutes: ["array", SHAPE_CUSTOM],
       basis: { object: { kind: v => ["osmotic-pressure", "concentration", "water-flux"].includes(v) ? "" : "must be osmotic-pressure, concentration or water-flux", value: num_, unit: str_, multiple_of_feed: num_ }, required: ["kind"], hint: true },
+      score_normalisation: oneOf("score_normalisations"),
       osmotic_model: v => P.defaults().osmotic_models.includes(v) || P.defaults().osmotic_model_aliases[v] ? "" : oneOf("osmotic_models")(v),
       weights: v => {
         if (v === null || typeof v !== "object" || Array.isArray(v)) return "must be an object of weights";
@@ -80,7 +81,13 @@
   function exportCustom() {
     S.download("drawsift-custom-solutes.json", JSON.stringify({ drawsift_custom_solutes: state.custom }, null, 2) + "\n");
   }
-  // rankingCSV is the ranked table of a result as CSV text. Text cells a
+  // rankingCSV is a result as CSV text for a spreadsheet: a header block
+  // (what, engine, cautions, score basis, the scenario as JSON), the one
+  // table of candidates — ranked, then those left out — with the same
+  // columns as `drawsift screen --format csv` (cmd/drawsift/screen_render.go),
+  // then the trust codes, model choices, warnings and sources, each block
+  // after a blank line. Numbers keep 6 significant digits (the CLI's %g),
+  // so no binary noise (59.99999999993226) reaches the sheet. Text cells a
   // spreadsheet would run as a formula (=, +, -, @, tab or CR first) get a
   // leading quote (OWASP, "CSV Injection"): a custom solute named
   // "=HYPERLINK(…)" stays text. Numbers stay numbers.
@@ -91,20 +98,58 @@
     if (/^[=+\-@\t\r]/.test(s) && !/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(s)) s = "'" + s;
     return /[",\n\r]/.test(s) ? '"' + s.replace(/"/g, '""') + '"' : s;
   }
+  const n6 = v => v === undefined || v === null || !isFinite(v) ? "" : String(Number(Number(v).toPrecision(6)));
+  const CSV_COLUMNS = [
+    ["rank", c => String(c.rank)], ["solute", c => c.solute], ["score (0-1)", c => n6(c.score)], ["pareto_optimal", c => String(!!c.pareto_optimal)],
+    ["orientation", c => c.orientation], ["concentration (mol/L)", c => n6(c.concentration_mol_per_l)], ["concentration (g/L)", c => n6(c.concentration_g_per_l)],
+    ["molality (mol/kg)", c => n6(c.molality_mol_per_kg)], ["solubility (mol/kg)", c => n6(c.solubility_mol_per_kg)],
+    ["solubility margin (fraction)", c => n6(c.solubility_margin_fraction)], ["osmotic pressure (bar)", c => n6(c.osmotic_pressure_bar)],
+    ["van 't Hoff (bar)", c => n6(c.van_t_hoff_bar)], ["osmotic pressure per mol/L (bar L/mol)", c => n6(c.osmotic_pressure_per_mol_per_l_bar_l_per_mol)],
+    ["van 't Hoff per mol/L (bar L/mol)", c => n6(c.van_t_hoff_per_mol_per_l_bar_l_per_mol)], ["osmotic pressure per g/L (bar L/g)", c => n6(c.osmotic_pressure_per_g_per_l_bar_l_per_g)],
+    ["van 't Hoff per g/L (bar L/g)", c => n6(c.van_t_hoff_per_g_per_l_bar_l_per_g)], ["water flux (LMH)", c => n6(c.water_flux_lmh)],
+    ["flux efficiency (fraction)", c => n6(c.flux_efficiency)], ["reverse solute flux (g/m2/h)", c => n6(c.reverse_solute_flux_gmh)],
+    ["reverse solute flux (mmol/m2/h)", c => n6(c.reverse_solute_flux_mmol_per_m2_h)], ["specific reverse solute flux (g/L)", c => n6(c.specific_reverse_solute_flux_g_per_l)],
+    ["replenishment cost (USD/m3)", c => n6(c.replenishment_cost_usd_per_m3)], ["replenishment cost min (USD/m3)", c => n6(c.replenishment_cost_min_usd_per_m3)],
+    ["replenishment cost max (USD/m3)", c => n6(c.replenishment_cost_max_usd_per_m3)], ["viscosity (mPa s)", c => n6(c.viscosity_mpa_s)],
+    ["min regeneration energy (kWh/m3)", c => n6(c.min_regeneration_energy_kwh_per_m3)], ["max saturation index (log10)", c => n6(c.max_saturation_index)],
+    ["max saturation index mineral", c => { const s = (c.scaling || []).slice().sort((a, b) => b.saturation_index - a.saturation_index); return s.length ? s[0].mineral : ""; }],
+    ["feed-face saturation indices (mineral=log10 SI)", c => (c.scaling || []).slice().sort((a, b) => b.saturation_index - a.saturation_index || (a.mineral < b.mineral ? -1 : 1)).map(s => s.mineral + "=" + s.saturation_index.toFixed(2)).join("; ")],
+    ["B (LMH)", c => n6(c.b_lmh)], ["B estimated", c => String(!!c.b_estimated)], ["trust", c => (c.trust || []).map(m => m.code).join("; ")],
+    ["hazard flags", c => (c.hazard_flags || []).join("; ")],
+    ["P(first) (fraction)", c => c.robustness ? n6(c.robustness.probability_first) : ""], ["P(top 3) (fraction)", c => c.robustness ? n6(c.robustness.probability_top3) : ""],
+    ["rank 5-95 % interval", c => c.robustness ? c.robustness.rank_p05 + "-" + c.robustness.rank_p95 : ""], ["excluded reason", () => ""],
+  ];
   function rankingCSV(res) {
-    const cols = P.columns();
     const q = csvCell;
-    const lines = [cols.map(c => q(c.label + (c.unit ? " (" + c.unit + ")" : ""))).join(",")];
-    for (const c of res.candidates) lines.push(cols.map(col => { const v = col.get(c); return col.text ? q(String(v)) : isFinite(v) ? String(v) : ""; }).join(","));
+    const lines = [];
+    const row = cells => lines.push(cells.map(q).join(","));
+    row(["Drawsift screening result", "exported " + new Date().toISOString().replace("T", " ").slice(0, 16) + " UTC"]);
+    row(["engine_version", res.engine_version]);
+    for (const c of res.cautions || []) row(["caution", c]);
+    row(["score_normalisation", res.score_normalisation || "set"]);
+    row(["score", P.scoreBasisText()]);
+    row(["basis", state.basisText || (res.basis && res.basis.kind) || ""]);
+    row(["scenario (JSON)", JSON.stringify(res.scenario)]);
     lines.push("");
-    lines.push("excluded solute,reason,detail");
-    for (const x of res.excluded) lines.push([x.solute, x.reason, x.detail || ""].map(q).join(","));
-    return lines.join("\n") + "\n";
+    row(CSV_COLUMNS.map(c => c[0]));
+    for (const c of res.candidates) row(CSV_COLUMNS.map(col => col[1](c)));
+    for (const x of res.excluded) row(CSV_COLUMNS.map(col => col[0] === "solute" ? x.solute : col[0] === "excluded reason" ? x.reason + (x.detail ? ": " + x.detail : "") : ""));
+    lines.push("");
+    row(["trust code", "meaning"]);
+    for (const m of P.trustLegend(res)) row([m.code, m.text]);
+    lines.push("");
+    for (const k of Object.keys(res.model_choices || {}).sort()) row(["model choice: " + k, res.model_choices[k]]);
+    for (const k of Object.keys(res.feed_saturation_indices || {}).sort()) row(["feed (bulk) saturation index: " + k, n6(res.feed_saturation_indices[k])]);
+    for (const w of res.warnings || []) row(["warning", w]);
+    for (const c of res.candidates) for (const w of c.warnings || []) row(["warning: " + c.solute, w]);
+    for (const s of res.sources || []) row(["source: " + s.field, s.reference]);
+    // A byte-order mark: spreadsheets then read the file as UTF-8 (π, ³, °C).
+    return "\ufeff" + lines.join("\r\n") + "\r\n";
   }
   function exportCSV() {
-    const res = state.result;
+    const res = state.robust || state.result;
     if (!res) return;
-    S.download("drawsift-ranking.csv", rankingCSV(res), "text/csv");
+    S.download("drawsift-ranking.csv", rankingCSV(res), "text/csv;charset=utf-8");
   }
   function exportJSON() {
     const res = state.robust || state.result;
@@ -226,12 +271,17 @@
     const frag = await S.encodeShare(state.scenario);
     const url = location.href.replace(/#.*$/, "") + "#s=" + frag;
     history.replaceState(null, "", "#s=" + frag);
+    // A link to a page opened from a file names that file on this
+    // computer: it opens only where the same file sits at the same place.
+    const local = location.protocol === "file:";
+    if (local) P.banner("This page was opened from a file, so the link points to that file on this computer: it opens the scenario only where the same drawsift.html sits at the same place. To share, send the file with the link, or export the scenario file.");
     try {
       await navigator.clipboard.writeText(url);
-      P.status("Share link copied (" + url.length + " characters).");
+      P.status("Share link copied (" + url.length + " characters" + (local ? "; works only beside this file" : "") + ").");
     } catch (e) {
-      P.status("Share link is in the address bar.");
+      P.status("Share link is in the address bar" + (local ? " (works only beside this file)" : "") + ".");
     }
+    document.body.dataset.share = local ? "file" : "web";
   }
 
   // ---- the scenario the page opens with: a share link's, else the stored

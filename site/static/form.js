@@ -87,12 +87,20 @@
     if (!pu.value) { pu.selectedIndex = 0; state.prefs.pressure = pu.value; }
   }
 
+  // presetLabel puts what tells a membrane preset apart first: the usual
+  // short names of the chemistry (TFC, CTA), the qualifier, then A and S,
+  // so a narrow menu does not cut it off. The full name is the option's title.
+  function presetLabel(m) {
+    const short = m.name.replace(/thin-film composite/i, "TFC").replace(/cellulose triacetate/i, "CTA").replace(/\s*FO membrane\s*/i, " ").replace(/\s+/g, " ").trim();
+    return short + " — A " + m.a_lmh_per_bar + ", S " + m.s_um + " µm";
+  }
+
   function fillPresets() {
     const fp = clear($("feed-preset"));
-    for (const f of state.feeds) fp.appendChild(h("option", { value: "preset:" + f.id, text: f.name }));
+    for (const f of state.feeds) fp.appendChild(h("option", { value: "preset:" + f.id, text: f.name, title: f.name }));
     fp.appendChild(h("option", { value: "custom", text: "Custom: a solute at a concentration, with ions" }));
     const mp = clear($("mem-preset"));
-    for (const m of state.membranes) mp.appendChild(h("option", { value: m.id, text: m.name }));
+    for (const m of state.membranes) mp.appendChild(h("option", { value: m.id, text: presetLabel(m), title: m.name }));
     mp.appendChild(h("option", { value: "custom", text: "Custom A, B, S" }));
     const pick = clear($("feed-solute-pick"));
     for (const s of state.library) pick.appendChild(h("option", { value: s.id, text: s.id + " — " + s.name }));
@@ -128,6 +136,15 @@
     }
   }
 
+  // buildScoreNorm lists the engine's score normalisations, in words.
+  function buildScoreNorm() {
+    const D = P.defaults(), sel = clear($("score-norm"));
+    const words = { set: "relative to the screened set (min–max)", reference: "against reference values (" + D.score_reference_solute + " at the same basis)" };
+    for (const n of D.score_normalisations) sel.appendChild(h("option", { value: n, text: words[n] || n }));
+    $("score-norm-hint").textContent = "Relative to the set, the best candidate on a metric gets 1 and the worst 0, so adding or removing a candidate can reorder the others. " +
+      "Against reference values, each metric is compared with " + D.score_reference_solute + " brought to the same basis (it scores 0.5; twice as good 0.67), whatever else is screened.";
+  }
+
   // buildRules makes the hazard and Pareto checkboxes: one per flag and
   // objective the engine lists.
   function buildRules() {
@@ -146,7 +163,9 @@
   function buildForm() {
     fillUnits();
     buildWeights();
+    buildScoreNorm();
     buildRules();
+    P.buildCustomHazards();
     applyLimits();
   }
 
@@ -214,6 +233,7 @@
     $("both-orient").checked = !!(sc.orientations && sc.orientations.length);
     $("temp").value = sc.temperature_c !== undefined ? sc.temperature_c : P.dflt("temperature_c");
     $("osm-model").value = sc.osmotic_model || D.osmotic_model;
+    $("score-norm").value = D.score_normalisations.includes(sc.score_normalisation) ? sc.score_normalisation : D.score_normalisations[0];
     const ch = Object.assign({}, D.channel, sc.channel || {});
     $("ch-h").value = ch.height_mm; $("ch-w").value = ch.width_mm; $("ch-l").value = ch.length_mm;
     $("ch-u").value = ch.crossflow_velocity_m_per_s; $("ch-spacer").checked = !!ch.spacer;
@@ -354,6 +374,7 @@
     const kind = $("basis-kind").value, unit = $("basis-unit").value;
     sc.basis = unit === "xfeed" ? { kind: kind, multiple_of_feed: num("basis-value") } : { kind: kind, value: num("basis-value"), unit: unit };
     sc.osmotic_model = $("osm-model").value;
+    sc.score_normalisation = $("score-norm").value;
     sc.weights = {};
     for (const k of P.objectiveKeys()) sc.weights[k] = Number($("w-" + k).value);
     sc.uncertainty = { samples: num("unc-samples"), a_rel_sd: num("unc-a"), b_rel_sd: num("unc-b"), s_rel_sd: num("unc-s"),
@@ -464,7 +485,7 @@
     "basis.kind": "basis-kind", "channel.height_mm": "ch-h", "channel.width_mm": "ch-w", "channel.length_mm": "ch-l",
     "channel.crossflow_velocity_m_per_s": "ch-u", "uncertainty.samples": "unc-samples", "uncertainty.a_rel_sd": "unc-a",
     "uncertainty.b_rel_sd": "unc-b", "uncertainty.s_rel_sd": "unc-s", "uncertainty.osmotic_rel_sd": "unc-pi",
-    "uncertainty.diffusivity_rel_sd": "unc-d", "seed": "seed", "osmotic_model": "osm-model",
+    "uncertainty.diffusivity_rel_sd": "unc-d", "seed": "seed", "osmotic_model": "osm-model", "score_normalisation": "score-norm",
   };
   function groupOf(field) {
     const f = field || "";
@@ -472,7 +493,7 @@
     if (f.startsWith("membrane")) return "membrane";
     if (/^(temperature_c|orientation|channel|external_cp|k_|osmotic_model)/.test(f)) return "operation";
     if (f.startsWith("basis")) return "basis";
-    if (f.startsWith("weights")) return "weights";
+    if (f.startsWith("weights") || f.startsWith("score_")) return "weights";
     if (/^(uncertainty|seed)/.test(f)) return "uncertainty";
     return "";
   }

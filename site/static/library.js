@@ -92,15 +92,49 @@
   // ---- custom solutes -------------------------------------------------------------------
   // parseTable reads pasted "concentration, π" lines; the number of points
   // is the engine's range for a measured table.
-  function parseTable(text) {
+  // decimal reads a number written with a decimal point or comma ("0,5").
+  function decimal(str) {
+    const t = String(str).trim().replace(/\s+/g, "");
+    if (t === "") return undefined;
+    return /^[+-]?\d*,\d+([eE][+-]?\d+)?$/.test(t) ? Number(t.replace(",", ".")) : /,/.test(t) ? NaN : Number(t);
+  }
+  // numIn is a form field's number (decimal comma accepted).
+  function numIn(id) { return decimal($(id).value); }
+  // mosmToBar converts a measured osmolality to π: ln a_w = −M_w·Σνmφ
+  // (osmolality in osmol/kg), π = −(RT/V̄_w) ln a_w = R·T·ρ_w·osmolality —
+  // the engine's own definition of π (engine/thermo). ρ_w(t) by Kell
+  // (1975) J. Chem. Eng. Data 20:97 (coefficients from memory; within
+  // 5 ppm of IAPWS-95 at 25 °C, python3-iapws); R from the engine.
+  function waterDensity(t) {
+    return (999.83952 + 16.945176 * t - 7.9870401e-3 * t * t - 46.170461e-6 * t ** 3 + 105.56302e-9 * t ** 4 - 280.54253e-12 * t ** 5) / (1 + 16.879850e-3 * t);
+  }
+  function mosmToBar(mosm, tC) {
+    const D = P.defaults();
+    return D.gas_constant_j_per_mol_k * (tC + 273.15) * waterDensity(tC) * mosm / 1000 / D.pressure_units_pa.bar;
+  }
+  // splitPair splits a table line in two: at ";" or a tab; else at the
+  // comma when decimals use points or the comma is followed by a space
+  // ("0.5, 24"); else at spaces, commas then being decimal commas
+  // ("0,5 24"); else at the comma ("1,24").
+  function splitPair(line) {
+    if (/[;\t]/.test(line)) return line.split(/\s*[;\t]\s*/);
+    if (/\./.test(line) || /,\s/.test(line)) return line.split(/\s*,\s*/);
+    if (/\s/.test(line)) return line.split(/\s+/);
+    return line.split(",");
+  }
+  function parseTable(text, col, tC) {
     const pts = [];
     const lines = text.split(/\r?\n/);
     for (let i = 0; i < lines.length; i++) {
       const line = lines[i].replace(/#.*/, "").trim();
       if (!line) continue;
-      const parts = line.split(/[\s,;\t]+/).filter(Boolean);
-      if (parts.length !== 2) throw new Error("line " + (i + 1) + ": expected two numbers (concentration, π), got “" + line.slice(0, 40) + "”");
-      const c = Number(parts[0]), p = Number(parts[1]);
+      // Separated by ";", tabs or spaces, a comma may be a decimal comma;
+      // else the comma separates the two numbers.
+      const parts = splitPair(line).filter(Boolean);
+      if (parts.length !== 2) throw new Error("line " + (i + 1) + ": expected two numbers (concentration, " + (col === "mosm" ? "osmolality" : "π") + "), got “" + line.slice(0, 40) + "”");
+      const c = decimal(parts[0]), v = decimal(parts[1]);
+      if (col === "mosm" && !(v > 0 && isFinite(v))) throw new Error("line " + (i + 1) + ": numbers must be finite and > 0");
+      const p = col === "mosm" ? mosmToBar(v, tC) : v;
       if (!isFinite(c) || !isFinite(p) || c <= 0 || p <= 0) throw new Error("line " + (i + 1) + ": numbers must be finite and > 0");
       // The engine's own bounds on a table's concentrations and pressures.
       if (!P.inLimit("concentration", c)) throw new Error("line " + (i + 1) + ": concentration " + c + " is outside " + P.limitText("concentration"));
@@ -126,6 +160,7 @@
       const id = $("cs-id").value.trim();
       if (!/^[A-Za-z0-9()+\-_.·]{1,40}$/.test(id)) throw new Error("Identifier: use letters, digits and ( ) + - _ . only (at most 40)");
       if (P.solute(id)) throw new Error("Identifier: “" + id + "” is already in the library or your custom solutes");
+      const num = numIn;
       const mm = num("cs-mm");
       within("Molar mass", mm, "custom_solutes[].molar_mass_g_per_mol");
       const nu = num("cs-nu");
@@ -145,11 +180,13 @@
       }
       const t = $("cs-table").value.trim();
       if (t) {
-        const pts = parseTable(t);
         const tt = num("cs-table-t");
         if (tt !== undefined) within("Table temperature", tt, "temperature_c");
+        const pts = parseTable(t, $("cs-table-col").value, tt !== undefined ? tt : P.dflt("temperature_c"));
         cs.osmotic_table = { unit: $("cs-table-unit").value, temperature_c: tt !== undefined ? tt : P.dflt("temperature_c"), points: pts };
       }
+      const flags = P.hazardFlags().filter(f => $("cs-hz-" + f).checked);
+      if (flags.length) cs.hazard_flags = flags;
       const hz = $("cs-hazards").value.split(/\n/).map(s => s.trim()).filter(Boolean);
       if (hz.length) cs.hazards = hz;
       const rg = $("cs-regen").value.split(",").map(s => s.trim()).filter(Boolean);
@@ -184,5 +221,12 @@
     renderLibrary();
   }
 
-  Object.assign(P, { renderLibrary, toggleCandidate, bulkInclude, addCustom });
+  // buildCustomHazards makes a check box per engine hazard flag in the
+  // custom-solute form.
+  function buildCustomHazards() {
+    const box = clear($("cs-hz-boxes"));
+    for (const f of P.hazardFlags()) box.appendChild(h("label", { class: "check" }, h("input", { type: "checkbox", id: "cs-hz-" + f, "data-flag": f }), P.hazardWords(f)));
+  }
+
+  Object.assign(P, { renderLibrary, toggleCandidate, bulkInclude, addCustom, buildCustomHazards, decimal, mosmToBar });
 })();

@@ -19,6 +19,15 @@
     return C.PALETTE[(i < 0 ? 0 : i) % C.PALETTE.length];
   }
 
+  // plotWidth is the width (px) each chart of box is drawn at: the width
+  // it is shown at, so its text keeps its size from a 360 px phone up. The
+  // grid (app.css) holds columns of at least 22rem (352 px) and 1rem gaps.
+  function plotWidth(box, figures) {
+    const w = box.clientWidth || ($("results-area").clientWidth - 34);
+    const cols = Math.max(1, Math.min(figures, Math.floor((w + 16) / (352 + 16))));
+    return Math.round(Math.max(260, Math.min(1600, (w - (cols - 1) * 16) / cols - 18)));
+  }
+
   // figure wraps a plot with its caption and export buttons; the plots of
   // the ranking (all but own ones) go into the printed report.
   function figure(key, svg, note, own) {
@@ -42,8 +51,11 @@
   async function renderPlots(seq) {
     const res = state.result;
     const box = clear($("plots"));
-    state.plots = {};
+    // The robustness chart (results.js) stays in the report.
+    state.plots = state.plots.robustness ? { robustness: state.plots.robustness } : {};
     if (!res || !res.candidates.length) return;
+    const W = plotWidth(box, 4);
+    state.plotWidth = W;
     const ids = plotted();
     const cmax = Math.max(0.2, Math.min(10, Number(state.prefs.cmax) || 3));
     const tC = state.scenario.temperature_c !== undefined ? state.scenario.temperature_c : P.dflt("temperature_c");
@@ -90,17 +102,17 @@
       if (cs.osmotic_table) series.push({ name: id + " (measured, " + cs.osmotic_table.unit + ")", color: colourOf(id), markers: true, points: cs.osmotic_table.points.map(p => [p.concentration, pConv(p.osmotic_pressure_bar)]) });
       legendItems.push({ name: id + " (custom" + (cs.osmotic_table ? "; dots: measured π" : "") + ")", color: colourOf(id), marker: !!cs.osmotic_table });
     }
-    legendItems.push({ name: "solid: real; dashed: van 't Hoff", color: "#16202a" });
-    box.appendChild(figure("osmotic-pressure", C.line({ title: "Osmotic pressure vs concentration, " + tC + " °C", xLabel: "draw concentration (mol/L)", yLabel: "π (" + pu + ")",
+    legendItems.push({ name: "real", color: "#16202a" }, { name: "van 't Hoff", color: "#16202a", dash: "6 4" });
+    box.appendChild(figure("osmotic-pressure", C.line({ width: W, title: "Osmotic pressure vs concentration, " + tC + " °C", xLabel: "draw concentration (mol/L)", yLabel: "π (" + pu + ")",
       series: series, legendItems: legendItems, desc: "Real (solid) and van 't Hoff (dashed) osmotic pressure of the top candidates." }),
       "Real model as in the ranking; points past solubility or the model's data are left out."));
 
     // SRSF bars at the basis, and the Jw–SRSF trade-off.
-    box.appendChild(figure("srsf", C.bars({ title: "Solute lost per litre of water at the basis", xLabel: "", yLabel: "Js/Jw (g/L)",
+    box.appendChild(figure("srsf", C.bars({ width: W, title: "Solute lost per litre of water at the basis", xLabel: "", yLabel: "Js/Jw (g/L)",
       data: res.candidates.map(c => ({ name: c.solute, value: c.specific_reverse_solute_flux_g_per_l, color: colourOf(c.solute) })), format: v => fmt(v, 2),
       desc: "Specific reverse solute flux of each ranked candidate, " + res.orientation + "." }), "Lower is better. " + res.orientation + ", at the basis of comparison."));
     const pts = res.candidates.map(c => ({ name: c.solute, x: c.specific_reverse_solute_flux_g_per_l, y: fConv(c.water_flux_lmh), color: colourOf(c.solute), front: c.pareto_optimal }));
-    box.appendChild(figure("tradeoff", C.scatter({ title: "Water flux vs solute loss", xLabel: "Js/Jw (g/L) — lower is better", yLabel: "Jw (" + fLabel() + ") — higher is better",
+    box.appendChild(figure("tradeoff", C.scatter({ width: W, title: "Water flux vs solute loss", xLabel: "Js/Jw (g/L) — lower is better", yLabel: "Jw (" + fLabel() + ") — higher is better",
       points: pts, desc: "Each ranked candidate; ringed points are Pareto-optimal on " + res.pareto_objectives.join(", ") + "." }),
       "Ringed: Pareto-optimal on " + res.pareto_objectives.map(P.objLabel).join(", ") + "."));
 
@@ -121,8 +133,8 @@
       }
       fluxLegend.push({ name: id, color: colourOf(id) });
     }
-    fluxLegend.push({ name: "solid: AL-FS (FO mode); dashed: AL-DS (PRO mode)", color: "#16202a" });
-    box.appendChild(figure("water-flux", C.line({ title: "Water flux vs draw concentration, both orientations", xLabel: "draw concentration (mol/L)", yLabel: "Jw (" + fLabel() + ")",
+    fluxLegend.push({ name: "AL-FS (FO mode)", color: "#16202a" }, { name: "AL-DS (PRO mode)", color: "#16202a", dash: "6 4" });
+    box.appendChild(figure("water-flux", C.line({ width: W, title: "Water flux vs draw concentration, both orientations", xLabel: "draw concentration (mol/L)", yLabel: "Jw (" + fLabel() + ")",
       series: fluxSeries, legendItems: fluxLegend, desc: "Water flux of the top candidates against bulk draw concentration, FO mode solid, PRO mode dashed." }),
       "Same membrane, feed, channel and temperature as the ranking; points failing a hard limit are left out."));
     document.body.dataset.plots = "done-" + seq;
@@ -166,14 +178,31 @@
     if (failed) { $("sweep-status").textContent = "Failed: " + (failed.field ? failed.field + ": " : "") + failed.message; document.body.dataset.sweep = "failed"; return; }
     if (aborted) { $("sweep-status").textContent = "Cancelled."; document.body.dataset.sweep = "cancelled"; return; }
     const names = { concentration: "draw concentration (mol/L)", temperature: "temperature (°C)", s: "structural parameter S (µm)", crossflow: "crossflow velocity (m/s)" };
-    const box = clear($("sweep-plot"));
-    box.appendChild(figure("sweep", C.line({ title: "Water flux vs " + names[variable].replace(/ \(.*/, "") + ", " + state.result.orientation, xLabel: names[variable], yLabel: "Jw (" + fLabel() + ")",
-      series: series, xZero: false, desc: "Sweep of " + names[variable] + " for the plotted candidates." }), variable === "concentration" ? "The basis is set aside: every candidate at the same concentration." : "The basis of comparison is re-applied at each point."));
+    state.sweepPlot = { opts: { title: "Water flux vs " + names[variable].replace(/ \(.*/, "") + ", " + state.result.orientation, xLabel: names[variable], yLabel: "Jw (" + fLabel() + ")",
+      series: series, xZero: false, desc: "Sweep of " + names[variable] + " for the plotted candidates." },
+      note: variable === "concentration" ? "The basis is set aside: every candidate at the same concentration." : "The basis of comparison is re-applied at each point." };
+    drawSweep();
     $("sweep-status").textContent = "Done.";
     document.body.dataset.sweep = "done";
     P.renderReport();
   }
+  // drawSweep draws the last sweep at the width it is shown.
+  function drawSweep() {
+    const sp = state.sweepPlot;
+    if (!sp) return;
+    const box = clear($("sweep-plot"));
+    const W = plotWidth(box, 1);
+    state.sweepWidth = W;
+    box.appendChild(figure("sweep", C.line(Object.assign({ width: W }, sp.opts)), sp.note));
+  }
+  // refit redraws the charts when the width they are shown at has changed
+  // by more than a tenth (a phone turned, a window resized).
+  function refit() {
+    const off = (w, now) => w && Math.abs(now - w) > 0.1 * w;
+    if (state.result && off(state.plotWidth, plotWidth($("plots"), 4))) renderPlots(state.runSeq);
+    if (state.sweepPlot && off(state.sweepWidth, plotWidth($("sweep-plot"), 1))) drawSweep();
+  }
   function cancelSweep() { if (sweepAbort) sweepAbort.abort(); }
 
-  Object.assign(P, { plotted, colourOf, figure, renderPlots, runSweep, cancelSweep });
+  Object.assign(P, { plotted, colourOf, figure, renderPlots, runSweep, cancelSweep, refit });
 })();

@@ -59,6 +59,7 @@
       "k " + kText(sc.k_draw_m_per_s, "draw side") + "; " + kText(sc.k_feed_m_per_s, "feed side"));
     row("Basis of comparison", state.basisText || "");
     row("Candidates", (sc.candidates || []).map(c => P.isBlend(c) ? c.id + " (" + P.blendText(c) + ")" : c).join(", "));
+    row("Score", P.scoreBasisText());
     row("Weights", Object.keys(res.weights).filter(k => res.weights[k] > 0).map(k => P.objLabel(k) + " " + res.weights[k]).join(", "));
     row("Osmotic model", sc.osmotic_model || P.defaults().osmotic_model);
     row("Solutes excluded by hazard", (sc.exclude_hazards || []).length ? sc.exclude_hazards.join(", ") : "none");
@@ -71,9 +72,15 @@
     const rr = clear($("rp-results"));
     const t = $("ranking").cloneNode(true);
     t.removeAttribute("id");
+    // The on-screen caption tells how to sort: the report says what it is.
+    t.caption.textContent = "Ranked candidates at " + (state.basisText || "the basis") + ". " + P.scoreBasisText();
     for (const b of t.querySelectorAll("thead button")) b.replaceWith(...Array.from(b.childNodes));
     for (const b of t.querySelectorAll(".bar")) b.remove();
+    for (const c of t.querySelectorAll(".stick")) { c.classList.remove("stick"); c.style.left = ""; }
     rr.appendChild(t);
+    const tl = $("trust-legend").cloneNode(true);
+    tl.removeAttribute("id");
+    rr.appendChild(tl);
     rr.appendChild(h("h3", { text: "Mineral saturation of the feed" }));
     const sat = $("scaling-table").cloneNode(true);
     sat.removeAttribute("id");
@@ -90,10 +97,7 @@
       rr.appendChild(rt);
     }
     rr.appendChild(h("h3", { text: "Warnings" }));
-    const wn = $("warnings").cloneNode(true);
-    wn.removeAttribute("id");
-    for (const d of wn.querySelectorAll("details")) d.open = true;
-    rr.appendChild(wn);
+    rr.appendChild(groupedWarnings(res));
     const pl = clear($("rp-plots"));
     for (const k in state.plots) {
       const svg = state.plots[k].cloneNode(true);
@@ -103,5 +107,33 @@
     for (const s of (state.robust || res).sources || []) so.appendChild(h("li", {}, h("strong", { text: s.field + ": " }), s.reference));
   }
 
-  Object.assign(P, { renderSources, renderReport });
+  // groupedWarnings lists the screen's warnings, then each candidate note
+  // once with the candidates it concerns: notes that differ only in their
+  // numbers are one entry (numbers shown as "…"; each solute's values are
+  // in the page's notes and the JSON export).
+  function groupedWarnings(res) {
+    const ul = h("ul", { class: "warnings rp-warnings" });
+    for (const w of res.warnings || []) ul.appendChild(h("li", { text: w }));
+    const groups = new Map();
+    for (const c of res.candidates) {
+      const id = c.solute;
+      for (const w0 of c.warnings || []) {
+        let w = w0.startsWith(id + ": ") ? w0.slice(id.length + 2) : w0.startsWith(id + " ") ? w0.slice(id.length + 1) : w0;
+        w = w.split(id).join("the solute");
+        const key = w.replace(/-?\d+(\.\d+)?(e[+-]?\d+)?/gi, "…");
+        if (!groups.has(key)) groups.set(key, { texts: new Set(), ids: [] });
+        const g = groups.get(key);
+        g.texts.add(w);
+        if (!g.ids.includes(id)) g.ids.push(id);
+      }
+    }
+    for (const [key, g] of groups) {
+      const text = g.texts.size === 1 ? g.texts.values().next().value : key;
+      ul.appendChild(h("li", {}, text + " — ", h("strong", { text: g.ids.length === res.candidates.length && g.ids.length > 1 ? "every ranked candidate" : g.ids.join(", ") })));
+    }
+    if (!ul.children.length) ul.appendChild(h("li", { text: "None." }));
+    return ul;
+  }
+
+  Object.assign(P, { renderSources, renderReport, groupedWarnings });
 })();

@@ -7,33 +7,185 @@
   const P = window.DrawsiftPage;
   const { $, state, h, clear, fmt, pUnit, pConv, fConv, fLabel, sfLabel, sfValue } = P;
 
+  // ---- trust marks -------------------------------------------------------------
+  // The engine lists, per ranked row, what makes it less certain (trust:
+  // [{code, text}]); the page shows one symbol per code, its words as the
+  // text equivalent, and a legend of the codes present beside the table.
+  // Symbols are display only; an unknown code shows "?" with its text.
+  const TRUST_SYMBOLS = {
+    "van-t-hoff": "ν", "ideal-model": "ι", extrapolated: "↗", bridged: "≈", "temperature-25c": "θ", "b-estimated": "β",
+    blend: "⊕", custom: "✎", solubility: "◐", crossing: "⇄", "no-price": "¤",
+  };
+  // The glossary's words for every code (the engine's own text is shown
+  // beside each row; these describe the codes before a run shows them).
+  const TRUST_WORDS = {
+    "van-t-hoff": "van 't Hoff only: the library has no non-ideal osmotic model for this solute.",
+    "ideal-model": "The ideal osmotic model (π = νcRT) was chosen for the whole screen.",
+    extrapolated: "Used past its model's data or fit range (concentration or temperature): extrapolated.",
+    bridged: "Between the model's data limit and the measured saturated solution: interpolated.",
+    "temperature-25c": "25 °C data used at another temperature.",
+    "b-estimated": "Solute permeability B estimated from the membrane's NaCl value by diffusivity, not measured.",
+    blend: "A blend transported as one solute at its fixed ratio.",
+    custom: "A custom solute: its data were entered by the user.",
+    solubility: "Near or past its solubility somewhere in the module.",
+    crossing: "Feed solute crosses into the draw, or water flows back: flux ratios leave their usual range.",
+    "no-price": "No price on record: scored as the worst on replenishment cost.",
+  };
+  function trustSymbol(code) { return TRUST_SYMBOLS[code] || "?"; }
+  // trustMarks is the row's marks as inline symbols, each with its words.
+  function trustMarks(c) {
+    const marks = c.trust || [];
+    if (!marks.length) return null;
+    const box = h("span", { class: "trust", "data-trust": marks.map(m => m.code).join(" ") });
+    for (const m of marks) {
+      box.appendChild(h("span", { class: "trust-mark", "data-code": m.code, title: m.text, "aria-hidden": "true", text: trustSymbol(m.code) }));
+    }
+    box.appendChild(h("span", { class: "visually-hidden", text: " (read with care: " + marks.map(m => m.text).join("; ") + ")" }));
+    return box;
+  }
+  // trustLegend lists each code the rows carry, once, in the engine's order.
+  function trustLegend(res) {
+    const seen = new Map();
+    for (const c of res.candidates) for (const m of c.trust || []) if (!seen.has(m.code)) seen.set(m.code, m.text);
+    return Array.from(seen, ([code, text]) => ({ code, text }));
+  }
+  function renderTrustLegend(res) {
+    const lg = clear($("trust-legend"));
+    const marks = trustLegend(res);
+    if (!marks.length) { lg.appendChild(h("p", { text: "Trust marks: none — every row is computed from measured data within its range." })); return; }
+    lg.appendChild(h("p", { class: "legend-h", text: "Trust marks beside a solute: read that row with care (its notes under Warnings give the detail)." }));
+    const ul = h("ul", {});
+    for (const m of marks) ul.appendChild(h("li", { "data-code": m.code }, h("span", { class: "trust-mark", "aria-hidden": "true", text: trustSymbol(m.code) }), " " + m.text));
+    lg.appendChild(ul);
+  }
+
+  // columns lists the ranked table's columns: key, heading, unit, value
+  // and the definition shown as the heading's tooltip and in the glossary.
+  // Solute and score are always shown (and stay in view while the table
+  // scrolls sideways); the user may hide any other (state.prefs.hiddenColumns,
+  // kept in this browser's storage).
+  const ALWAYS = ["solute", "score"];
+  const ORI_WORDS = { "AL-FS": "active layer facing the feed (FO mode)", "AL-DS": "active layer facing the draw (PRO mode)" };
   function columns() {
-    const other = state.result && state.result.candidates.length && state.result.candidates[0].other_orientations;
+    const res = state.result;
+    const other = res && res.candidates.length && res.candidates[0].other_orientations;
+    const jwDef = o => "Water flux through the membrane with the " + (ORI_WORDS[o] || o) + ", internal polarisation in the support and external polarisation on both faces counted; higher is better.";
     const cols = [
-      { key: "rank", label: "Rank", unit: "", get: c => c.rank, fmt: v => String(v) },
-      { key: "solute", label: "Solute", unit: "", get: c => c.solute, text: true },
-      { key: "score", label: "Score", unit: "0–1", get: c => c.score, fmt: v => v.toFixed(3) },
-      { key: "concentration_mol_per_l", label: "Draw conc.", unit: "mol/L", get: c => c.concentration_mol_per_l },
-      { key: "concentration_g_per_l", label: "Draw conc.", unit: "g/L", get: c => c.concentration_g_per_l },
-      { key: "osmotic_pressure_bar", label: "π real", unit: pUnit(), get: c => pConv(c.osmotic_pressure_bar) },
-      { key: "van_t_hoff_bar", label: "π ideal", title: "van 't Hoff osmotic pressure, π = ν c R T", unit: pUnit(), get: c => pConv(c.van_t_hoff_bar) },
-      { key: "water_flux_lmh", label: "Jw " + state.result.orientation, unit: fLabel(), get: c => fConv(c.water_flux_lmh) },
+      { key: "rank", label: "Rank", unit: "", get: c => c.rank, fmt: v => String(v), def: "Position by score, 1 = best." },
+      { key: "solute", label: "Solute", unit: "", get: c => c.solute, text: true,
+        def: "The draw solute or blend (library ID). ◆ marks the Pareto front; boxed symbols are trust marks (see the legend under the table)." },
+      { key: "score", label: "Score", unit: res.score_normalisation === "reference" ? "0–1, vs " + (res.score_reference ? res.score_reference.solute : "reference") : "0–1, within set", get: c => c.score, fmt: v => v.toFixed(3), def: scoreDef() },
+      { key: "concentration_mol_per_l", label: "Draw conc.", unit: "mol/L", get: c => c.concentration_mol_per_l,
+        def: "Concentration of the bulk draw that meets the basis of comparison, in moles of solute (formula units) per litre of solution." },
+      { key: "concentration_g_per_l", label: "Draw conc.", unit: "g/L", get: c => c.concentration_g_per_l, def: "The same concentration in grams of solute per litre of solution." },
+      { key: "osmotic_pressure_bar", label: "π real", unit: pUnit(), get: c => pConv(c.osmotic_pressure_bar),
+        def: "Osmotic pressure of the bulk draw from the solute's non-ideal model (Pitzer, a fitted or a measured model; van 't Hoff where the library has none)." },
+      { key: "van_t_hoff_bar", label: "π ideal", unit: pUnit(), get: c => pConv(c.van_t_hoff_bar),
+        def: "van 't Hoff osmotic pressure π = ν c R T at the same concentration: the ideal dilute limit, for comparison with π real." },
+      { key: "water_flux_lmh", label: "Jw " + res.orientation, unit: fLabel(), get: c => fConv(c.water_flux_lmh), def: jwDef(res.orientation) + " The ranking uses this orientation." },
     ];
     if (other) for (let i = 0; i < other.length; i++) {
-      cols.push({ key: "other_" + i, label: "Jw " + other[i].orientation, unit: fLabel(),
+      cols.push({ key: "other_" + i, label: "Jw " + other[i].orientation, unit: fLabel(), def: jwDef(other[i].orientation) + " Reported only; not scored.",
         get: c => c.other_orientations && c.other_orientations[i] && !c.other_orientations[i].reason ? fConv(c.other_orientations[i].water_flux_lmh) : NaN });
     }
     cols.push(
-      { key: "reverse_solute_flux", label: "Js", unit: sfLabel(), get: sfValue },
-      { key: "specific_reverse_solute_flux_g_per_l", label: "Js/Jw", unit: "g/L", get: c => c.specific_reverse_solute_flux_g_per_l },
-      { key: "replenishment_cost_usd_per_m3", label: "Replenishment", unit: "USD/m³", get: c => c.replenishment_cost_usd_per_m3 },
-      { key: "min_regeneration_energy_kwh_per_m3", label: "Regen. energy (min.)", unit: "kWh/m³", get: c => c.min_regeneration_energy_kwh_per_m3 },
-      { key: "viscosity_mpa_s", label: "Viscosity", unit: "mPa·s", get: c => c.viscosity_mpa_s },
-      { key: "solubility_margin_fraction", label: "Solubility margin", unit: "%", get: c => 100 * c.solubility_margin_fraction, fmt: v => v.toFixed(0) },
-      { key: "max_saturation_index", label: "Max. sat. index", unit: "log SI", get: c => c.max_saturation_index },
-      { key: "flux_efficiency", label: "Flux efficiency", unit: "%", get: c => 100 * c.flux_efficiency, fmt: v => v.toFixed(1) },
+      { key: "reverse_solute_flux", label: "Js", unit: sfLabel(), get: sfValue, def: "Reverse solute flux: draw solute lost into the feed per square metre of membrane and hour." },
+      { key: "specific_reverse_solute_flux_g_per_l", label: "Js/Jw", unit: "g/L", get: c => c.specific_reverse_solute_flux_g_per_l,
+        def: "Specific reverse solute flux: grams of draw solute lost per litre of water drawn; lower is better." },
+      { key: "replenishment_cost_usd_per_m3", label: "Replenishment", unit: "USD/m³", get: c => c.replenishment_cost_usd_per_m3,
+        def: "Cost of replacing the draw solute lost to the feed: Js/Jw × the bulk price (mid of its range), per cubic metre of water drawn." },
+      { key: "min_regeneration_energy_kwh_per_m3", label: "Regen. energy (min.)", unit: "kWh/m³", get: c => c.min_regeneration_energy_kwh_per_m3,
+        def: "Minimum (reversible) work to re-concentrate the diluted draw, per cubic metre of product water at the set recovery; a real process needs several times more." },
+      { key: "viscosity_mpa_s", label: "Viscosity", unit: "mPa·s", get: c => c.viscosity_mpa_s, def: "Dynamic viscosity of the bulk draw: higher means more pumping energy and stronger polarisation." },
+      { key: "solubility_margin_fraction", label: "Solubility margin", unit: "%", get: c => 100 * c.solubility_margin_fraction, fmt: v => v.toFixed(0),
+        def: "1 − m/m_sat: how far the draw's molality lies below its solubility at the operating temperature (100 % for a miscible solute)." },
+      { key: "max_saturation_index", label: "Max. sat. index", unit: "log SI", get: c => c.max_saturation_index,
+        def: "Highest saturation index, log₁₀(ion activity product / solubility product), of any mineral at the feed-side membrane face; above 0 that mineral can form scale." },
+      { key: "flux_efficiency", label: "Flux efficiency", unit: "%", get: c => 100 * c.flux_efficiency, fmt: v => v.toFixed(1),
+        def: "Water flux ÷ (A × the bulk osmotic pressure difference): the share of the ideal flux left after polarisation." },
     );
     return cols;
+  }
+  // scoreBasisText says what the score is relative to.
+  function scoreBasisText() {
+    const res = state.result;
+    if (res && res.score_normalisation === "reference") {
+      return "Scores are set-independent: each metric is scaled against fixed reference values (" + (res.model_choices && res.model_choices.normalisation || "see Sources & model") + "), so adding or removing a candidate does not change another's score.";
+    }
+    return "Scores are relative to the screened set: each metric is scaled min–max over the candidates ranked here, so adding or removing a candidate can reorder the others. Choose “reference values” under Weights for a set-independent score.";
+  }
+  function scoreDef() {
+    return "Weighted mean of the normalised metrics, 0–1, 1 = best; the bar shows each metric's share. " + P.scoreBasisText();
+  }
+  // shownColumns are the columns the user keeps (solute and score always).
+  function shownColumns() {
+    const hidden = new Set(state.prefs.hiddenColumns || []);
+    return columns().filter(c => ALWAYS.includes(c.key) || !hidden.has(c.key));
+  }
+  // renderChooser lists a check box per column; a change is stored and
+  // redraws the table.
+  function renderChooser() {
+    const box = clear($("col-boxes"));
+    const hidden = new Set(state.prefs.hiddenColumns || []);
+    for (const c of columns()) {
+      const id = "col-" + c.key;
+      const cb = h("input", { type: "checkbox", id: id, "data-key": c.key, checked: !hidden.has(c.key) || ALWAYS.includes(c.key), disabled: ALWAYS.includes(c.key),
+        on: { change: e => setColumn(c.key, e.target.checked) } });
+      box.appendChild(h("label", { class: "check", for: id, title: c.def }, cb, c.label + (c.unit ? " (" + c.unit + ")" : "")));
+    }
+  }
+  function setColumn(key, shown) {
+    const hidden = new Set(state.prefs.hiddenColumns || []);
+    if (shown) hidden.delete(key); else hidden.add(key);
+    state.prefs.hiddenColumns = Array.from(hidden);
+    P.S.save(P.S.KEY_PREFS, state.prefs);
+    renderTable();
+    P.renderReport();
+  }
+  function showAllColumns() {
+    state.prefs.hiddenColumns = [];
+    P.S.save(P.S.KEY_PREFS, state.prefs);
+    renderChooser();
+    renderTable();
+    P.renderReport();
+  }
+  // renderGlossary defines every column, the Pareto mark and the trust marks.
+  function renderGlossary() {
+    const dl = clear($("glossary-list"));
+    for (const c of columns()) {
+      dl.appendChild(h("dt", { "data-key": c.key, text: c.label + (c.unit ? " (" + c.unit + ")" : "") }));
+      dl.appendChild(h("dd", { text: c.def }));
+    }
+    dl.appendChild(h("dt", { text: "◆" }));
+    dl.appendChild(h("dd", { text: paretoText() }));
+    for (const code in TRUST_SYMBOLS) {
+      dl.appendChild(h("dt", { "data-code": code }, h("span", { class: "trust-mark", "aria-hidden": "true", text: TRUST_SYMBOLS[code] }), h("span", { class: "visually-hidden", text: "trust mark " + code })));
+      dl.appendChild(h("dd", { text: TRUST_WORDS[code] }));
+    }
+  }
+  function paretoText() {
+    const objs = (state.result && state.result.pareto_objectives || []).map(P.objLabel);
+    return "On the Pareto front: no other ranked candidate is at least as good on every one of " + (objs.length ? objs.join(", ") : "the chosen objectives") +
+      " and better on one. The front does not depend on the weights; the score does.";
+  }
+  // sticky keeps solute and score in view while the table scrolls
+  // sideways: each sticky column is offset by the widths before it.
+  function placeSticky() {
+    const t = $("ranking");
+    const head = t.tHead && t.tHead.rows[0];
+    if (!head || !t.offsetParent) return; // hidden: placed when its tab is shown
+    let left = 0;
+    const keys = Array.from(head.cells).map(th => th.dataset.key);
+    for (let i = 0; i < keys.length && (keys[i] === "rank" || ALWAYS.includes(keys[i])); i++) {
+      const w = head.cells[i].getBoundingClientRect().width;
+      for (const r of t.rows) {
+        const cell = r.cells[i];
+        if (!cell) continue;
+        cell.classList.add("stick");
+        cell.style.left = left + "px";
+      }
+      left += w;
+    }
   }
 
   function renderResult(res, ms) {
@@ -46,6 +198,8 @@
     $("run-summary").textContent = "Ranked " + res.candidates.length + " of " + (res.candidates.length + res.excluded.length) +
       " candidates at " + basis + "; " + ori + "; feed π " + fmt(pConv(res.feed_osmotic_pressure_bar)) + " " + pUnit() +
       (ms ? "; computed in " + Math.round(ms) + " ms." : ".");
+    renderChooser();
+    renderGlossary();
     renderTable();
     renderScaling(res);
     const ex = clear($("excluded"));
@@ -70,20 +224,20 @@
   function renderTable() {
     const res = state.result;
     if (!res) return;
-    const cols = columns();
+    const cols = shownColumns();
     const thead = clear($("ranking").tHead);
     const tr = h("tr", {});
     for (const c of cols) {
       const sorted = state.sort && state.sort.key === c.key;
-      const th = h("th", { scope: "col", "aria-sort": sorted ? (state.sort.dir > 0 ? "ascending" : "descending") : null });
-      th.appendChild(h("button", { type: "button", "data-key": c.key, title: c.title || null, on: { click: () => sortBy(c.key) } },
+      const th = h("th", { scope: "col", "data-key": c.key, "aria-sort": sorted ? (state.sort.dir > 0 ? "ascending" : "descending") : null });
+      th.appendChild(h("button", { type: "button", "data-key": c.key, title: c.def, on: { click: () => sortBy(c.key) } },
         c.label, c.unit ? h("span", { class: "unit", text: "(" + c.unit + ")" }) : null));
       tr.appendChild(th);
     }
     thead.appendChild(tr);
     let rows = res.candidates.slice();
     if (state.sort) {
-      const col = cols.find(c => c.key === state.sort.key);
+      const col = columns().find(c => c.key === state.sort.key);
       if (col) rows.sort((a, b) => {
         const x = col.get(a), y = col.get(b);
         if (col.text) return state.sort.dir * String(x).localeCompare(String(y));
@@ -97,7 +251,9 @@
       for (const col of cols) {
         const v = col.get(c);
         if (col.key === "solute") {
-          row.appendChild(h("th", { scope: "row", title: c.name + (c.pareto_optimal ? " — on the Pareto front" : "") }, c.solute));
+          row.appendChild(h("th", { scope: "row", title: c.name + (c.pareto_optimal ? " — on the Pareto front" : "") }, c.solute,
+            c.pareto_optimal ? h("span", { class: "pareto-mark", title: "on the Pareto front", "aria-hidden": "true", text: " ◆" }) : null,
+            c.pareto_optimal ? h("span", { class: "visually-hidden", text: " (on the Pareto front)" }) : null, trustMarks(c)));
         } else if (col.key === "score") {
           const td = h("td", { class: "score" }, v.toFixed(3));
           const bar = h("div", { class: "bar", role: "img", "aria-label": contribText(c) });
@@ -117,6 +273,10 @@
       }
       tb.appendChild(row);
     }
+    renderTrustLegend(res);
+    $("pareto-key").textContent = "◆ " + paretoText();
+    $("score-note").textContent = P.scoreBasisText();
+    placeSticky();
     const lg = clear($("contrib-legend"));
     for (const k of P.objectiveKeys()) {
       if (!(res.weights[k] > 0)) continue;
@@ -239,7 +399,23 @@
     }
     t.caption.textContent = "Ranks over " + r.robustness.samples + " Monte Carlo samples (seed " + r.robustness.seed + ").";
     $("robust-note").textContent = "Sampling: " + r.robustness.distributions + ".";
+    drawRobustChart();
+  }
+  // drawRobustChart shows each candidate's rank interval (5th–95th
+  // percentile), median and nominal rank, with P(top 3) beside it.
+  function drawRobustChart() {
+    const box = clear($("robust-chart"));
+    const r = state.robust;
+    delete state.plots.robustness;
+    if (!r) return;
+    const n = r.candidates.length;
+    const W = Math.round(Math.max(260, Math.min(900, (box.clientWidth || $("results-area").clientWidth - 34) - 18)));
+    const items = r.candidates.map(c => { const q = c.robustness || {}; return { name: c.solute, lo: q.rank_p05, mid: q.rank_median, hi: q.rank_p95, mark: c.rank,
+      note: "P(top 3) " + (100 * q.probability_top3).toFixed(0) + " %", color: P.colourOf(c.solute) }; });
+    const svg = P.C.intervals({ width: W, title: "Rank over " + r.robustness.samples + " samples", xLabel: "rank (1 = best)", from: 1, to: n, items: items,
+      markLabel: "nominal rank", desc: "For each candidate, the 5th to 95th percentile of its rank over the Monte Carlo samples, its median and its nominal rank, with the probability of a top-3 place." });
+    box.appendChild(P.figure("robustness", svg, "Bar: ranks from the 5th to the 95th percentile; dot: median; diamond: nominal rank. A short bar near 1 is a robust choice."));
   }
 
-  Object.assign(P, { columns, renderResult, renderTable, renderScaling, runRobust, cancelRobust, renderRobust });
+  Object.assign(P, { scoreBasisText, trustSymbol, trustLegend, columns, shownColumns, showAllColumns, placeSticky, renderResult, renderTable, renderScaling, runRobust, cancelRobust, renderRobust });
 })();
