@@ -32,23 +32,27 @@ test-site:
 
 wasm: $(PAGE_WASM) $(FIT_WASM) $(PAGE_EXEC)
 
+# compress writes $@.gz and, where brotli is installed, $@.br. zopfli
+# writes standard gzip (RFC 1952) about 4 % smaller than gzip -9; it is
+# used when installed (apt: zopfli), else gzip -9.
+define compress
+@if command -v zopfli >/dev/null; then zopfli --i3 $@; else gzip -9 -k -f $@; fi
+@if command -v brotli >/dev/null; then brotli -q 11 -k -f $@ && sha256sum $@ > $@.br.sha256; else rm -f $@.br $@.br.sha256; fi
+endef
+
 # -tags stdjson: encoding/json instead of go-json (about 1 MB gzip less);
 # nofit: the fit operation (about 90 kB gzip) lives in $(FIT_WASM).
 $(PAGE_WASM): $(PAGE_SRC) go.mod go.sum
 	@mkdir -p build
 	@echo "building the page's engine $@ (GOOS=js GOARCH=wasm)…"
 	GOOS=js GOARCH=wasm $(GO) build -tags stdjson,nofit -trimpath -buildvcs=false -ldflags='-s -w' -o $@ ./wasm/page
-	gzip -9 -k -f $@
-	@if command -v brotli >/dev/null; then brotli -q 11 -k -f $@ && sha256sum $@ > $@.br.sha256; else rm -f $@.br $@.br.sha256; fi
+	$(compress)
 	@printf 'page wasm: %s bytes, %s gzip, %s brotli\n' "$$(wc -c < $@)" "$$(wc -c < $@.gz)" "$$(test -f $@.br && wc -c < $@.br || echo -)"
 
 $(FIT_WASM): $(PAGE_SRC) go.mod go.sum
 	@mkdir -p build
 	GOOS=js GOARCH=wasm $(GO) build -tags stdjson -trimpath -buildvcs=false -ldflags='-s -w' -o $@ ./wasm/page
-	@# zopfli writes standard gzip (RFC 1952) about 4 % smaller than gzip -9;
-	@# it is used when installed (apt: zopfli), else gzip -9.
-	@if command -v zopfli >/dev/null; then zopfli --i3 $@; else gzip -9 -k -f $@; fi
-	@if command -v brotli >/dev/null; then brotli -q 11 -k -f $@ && sha256sum $@ > $@.br.sha256; else rm -f $@.br $@.br.sha256; fi
+	$(compress)
 	@printf 'fit-tab wasm: %s bytes, %s gzip, %s brotli\n' "$$(wc -c < $@)" "$$(wc -c < $@.gz)" "$$(test -f $@.br && wc -c < $@.br || echo -)"
 
 # wasm_exec.js must come from the toolchain that built the wasm.
