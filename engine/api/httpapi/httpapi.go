@@ -21,9 +21,21 @@
 // internal error (500) also carries it in the body so that a user can quote
 // it, while the details go only to Options.Logf.
 //
-// The handler keeps no state between requests: everything it holds is the
-// read-only configuration given to New. It imports only the standard
-// library and engine/api, so it compiles for js/wasm.
+// Every request runs under a deadline (Options.Timeout): past it the
+// engine stops at its next check and the answer is a 504 error object on
+// field "deadline" stating the limit. The operations whose cost grows with
+// the request — screen (robustness runs and sweeps included) and batch —
+// are admitted through a fixed number of slots (Options.MaxHeavy, one per
+// core by default) with a short, bounded queue; when both are full the
+// answer is a 503 error object with Retry-After. The cheap operations
+// (health, defaults, solutes, presets, osmotic, flux) never wait for a
+// slot, so they stay responsive while heavy work runs. A batch is written
+// as it is computed (api.BatchStream): its memory is one answer, not the
+// batch.
+//
+// Beyond the admission slots, the handler keeps no state between
+// requests. It imports only the standard library and engine/api, so it
+// compiles for js/wasm.
 package httpapi
 
 import (
@@ -37,9 +49,11 @@ import (
 	"io"
 	"mime"
 	"net/http"
+	"runtime"
 	"runtime/debug"
 	"strconv"
 	"strings"
+	"time"
 
 	"drawsift/engine/api"
 )
@@ -47,6 +61,19 @@ import (
 // DefaultMaxBodyBytes caps a request body (1 MiB): a screen scenario is a
 // few kilobytes; a client splits a large sweep into many requests.
 const DefaultMaxBodyBytes = 1 << 20
+
+// Admission defaults (see Options).
+const (
+	// DefaultTimeout: a robustness run at the work budget takes a few
+	// seconds on one core; a minute leaves room on a busy machine.
+	DefaultTimeout = time.Minute
+	// DefaultHeavyQueue waiters per slot: enough for a batch client's
+	// bursts (drawsift screen --remote sends 4 at a time), few enough
+	// that a flood is refused at once.
+	DefaultHeavyQueue = 4
+	// DefaultQueueWait bounds the wait for a slot.
+	DefaultQueueWait = 10 * time.Second
+)
 
 // RequestIDHeader names the header that carries the request id both ways:
 // a client may send its own (see validRequestID), else one is generated.
@@ -64,6 +91,18 @@ type Options struct {
 	// Logf receives the details of internal errors, tagged with the
 	// request id. Nil discards them.
 	Logf func(format string, args ...any)
+	// Timeout is each request's deadline, from the end of its body to
+	// its answer; 0 means DefaultTimeout, < 0 no deadline.
+	Timeout time.Duration
+	// MaxHeavy is the number of heavy requests (screen, batch) computed
+	// at once; ≤ 0 means one per core (runtime.GOMAXPROCS).
+	MaxHeavy int
+	// HeavyQueue is how many more heavy requests may wait for a slot;
+	// 0 means DefaultHeavyQueue × MaxHeavy, < 0 none (answer 503 at once).
+	HeavyQueue int
+	// QueueWait is the longest a heavy request waits for a slot before
+	// the 503; ≤ 0 means DefaultQueueWait.
+	QueueWait time.Duration
 
 	// dispatch replaces api.Dispatch in this package's tests.
 	dispatch func(ctx context.Context, op string, body []byte) ([]byte, *api.Error)
@@ -105,6 +144,7 @@ const (
 	kindMethod    = "method"    // 405
 	kindTooLarge  = "too-large" // 413
 	kindMediaType = "media"     // 415
+	kindBusy      = "busy"      // 503, with Retry-After
 )
 
 // statusOf maps every error kind to its HTTP status: the one place where
@@ -116,6 +156,8 @@ var statusOf = map[string]int{
 	kindMethod:       http.StatusMethodNotAllowed,
 	kindTooLarge:     http.StatusRequestEntityTooLarge,
 	kindMediaType:    http.StatusUnsupportedMediaType,
+	kindBusy:         http.StatusServiceUnavailable,
+	api.KindTimeout:  http.StatusGatewayTimeout,
 }
 
 // status returns the HTTP status of an error kind; an unknown kind is a
@@ -135,7 +177,16 @@ type handler struct {
 	anyOrig  bool
 	logf     func(format string, args ...any)
 	dispatch func(ctx context.Context, op string, body []byte) ([]byte, *api.Error)
+	// batch streams a batch answer (api.BatchStream); nil when dispatch
+	// is replaced, and then batches go through dispatch.
+	batch   func(ctx context.Context, body []byte, w io.Writer) (bool, *api.Error)
+	timeout time.Duration
+	heavy   *admission
 }
+
+// heavyOps are the operations admitted through the slots: their cost
+// grows with the request (candidates × samples, sweep points, items).
+var heavyOps = map[string]bool{api.OpScreen: true, api.OpBatch: true}
 
 // New returns the API handler. It serves the paths in the route table
 // (mount it at "/v1/" or at the root) and answers every other path with a
@@ -155,7 +206,32 @@ func New(opts Options) http.Handler {
 	}
 	if h.dispatch == nil {
 		h.dispatch = api.Dispatch
+		h.batch = func(ctx context.Context, body []byte, w io.Writer) (bool, *api.Error) {
+			return api.BatchStream(ctx, body, w, nil)
+		}
 	}
+	switch {
+	case opts.Timeout == 0:
+		h.timeout = DefaultTimeout
+	case opts.Timeout > 0:
+		h.timeout = opts.Timeout
+	}
+	slots := opts.MaxHeavy
+	if slots <= 0 {
+		slots = max(1, runtime.GOMAXPROCS(0))
+	}
+	queue := opts.HeavyQueue
+	switch {
+	case queue == 0:
+		queue = DefaultHeavyQueue * slots
+	case queue < 0:
+		queue = 0
+	}
+	wait := opts.QueueWait
+	if wait <= 0 {
+		wait = DefaultQueueWait
+	}
+	h.heavy = newAdmission(slots, queue, wait)
 	for _, o := range opts.CORSOrigins {
 		o = strings.TrimRight(strings.TrimSpace(o), "/")
 		switch o {
@@ -214,16 +290,135 @@ func (h *handler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 			return
 		}
 	}
-	out, e := h.dispatch(r.Context(), rt.op, body)
+	ctx := r.Context()
+	if h.timeout > 0 {
+		var cancel context.CancelFunc
+		ctx, cancel = context.WithTimeout(ctx, h.timeout)
+		defer cancel()
+	}
+	if heavyOps[rt.op] {
+		release, e := h.heavy.acquire(ctx)
+		if e != nil {
+			if e.Kind == kindBusy {
+				w.Header().Set("Retry-After", strconv.Itoa(h.heavy.retryAfter()))
+			}
+			h.writeError(w, id, h.timed(e))
+			return
+		}
+		defer release()
+	}
+	if rt.op == api.OpBatch && h.batch != nil {
+		h.streamBatch(ctx, w, id, body)
+		return
+	}
+	out, e := h.dispatch(ctx, rt.op, body)
 	if e != nil {
 		if e.Kind == api.KindInternal {
 			h.logf("request %s: %s: internal error: %s", id, rt.op, e.Detail())
 		}
-		h.writeError(w, id, e)
+		h.writeError(w, id, h.timed(e))
 		return
 	}
 	writeJSON(w, http.StatusOK, out)
 }
+
+// streamBatch writes a batch's answer as it is computed. An error before
+// the first answer gets its own status; after it, the array is completed
+// (items past the deadline answer ok false with the deadline error).
+func (h *handler) streamBatch(ctx context.Context, w http.ResponseWriter, id string, body []byte) {
+	sw := &startWriter{w: w}
+	started, e := h.batch(ctx, body, sw)
+	if e != nil && !started {
+		h.writeError(w, id, h.timed(e))
+		return
+	}
+	if e != nil {
+		h.logf("request %s: batch: %s", id, e.Message)
+		return
+	}
+	w.Write([]byte{'\n'}) // every JSON answer ends with a newline
+}
+
+// startWriter sends the 200 headers with the first bytes of a streamed
+// answer.
+type startWriter struct {
+	w       http.ResponseWriter
+	started bool
+}
+
+func (s *startWriter) Write(p []byte) (int, error) {
+	if !s.started {
+		s.started = true
+		hd := s.w.Header()
+		hd.Set("Content-Type", "application/json")
+		hd.Set("X-Content-Type-Options", "nosniff")
+		hd.Set("Cache-Control", "no-store")
+		s.w.WriteHeader(http.StatusOK)
+	}
+	return s.w.Write(p)
+}
+
+// timed states the deadline in a timeout error.
+func (h *handler) timed(e *api.Error) *api.Error {
+	if e.Kind != api.KindTimeout || h.timeout <= 0 {
+		return e
+	}
+	c := *e
+	c.Limit = h.timeout.String()
+	c.Message = fmt.Sprintf("the request did not finish within the server's deadline of %s; ask for less work (fewer uncertainty.samples, sweep.points, candidates or batch items)", h.timeout)
+	return &c
+}
+
+// admission bounds the heavy requests: slots computing at once, and a
+// queue of waiters that each wait at most wait for a slot.
+type admission struct {
+	slots   chan struct{}
+	waiters chan struct{}
+	wait    time.Duration
+}
+
+func newAdmission(slots, queue int, wait time.Duration) *admission {
+	return &admission{slots: make(chan struct{}, slots), waiters: make(chan struct{}, queue), wait: wait}
+}
+
+// acquire takes a slot, waiting in the queue if there is room in it; it
+// returns the release function, or the busy error (or the ctx's).
+func (a *admission) acquire(ctx context.Context) (func(), *api.Error) {
+	release := func() { <-a.slots }
+	select {
+	case a.slots <- struct{}{}:
+		return release, nil
+	default:
+	}
+	select {
+	case a.waiters <- struct{}{}:
+	default:
+		return nil, a.busy()
+	}
+	defer func() { <-a.waiters }()
+	t := time.NewTimer(a.wait)
+	defer t.Stop()
+	select {
+	case a.slots <- struct{}{}:
+		return release, nil
+	case <-t.C:
+		return nil, a.busy()
+	case <-ctx.Done():
+		if errors.Is(ctx.Err(), context.DeadlineExceeded) {
+			return nil, &api.Error{Field: "deadline", Kind: api.KindTimeout, Message: "the deadline passed while waiting for a slot"}
+		}
+		return nil, &api.Error{Field: "", Message: "cancelled while waiting for a slot", Kind: api.KindInvalid}
+	}
+}
+
+func (a *admission) busy() *api.Error {
+	return &api.Error{Field: "server", Limit: cap(a.slots), Kind: kindBusy,
+		Message: fmt.Sprintf("the server is computing its %d screens and batches at once and %d more are waiting; retry after %d s",
+			cap(a.slots), cap(a.waiters), a.retryAfter())}
+}
+
+// retryAfter is the Retry-After of a busy answer, in whole seconds.
+func (a *admission) retryAfter() int { return 1 }
 
 // readBody reads the request body up to the cap.
 func (h *handler) readBody(w http.ResponseWriter, r *http.Request) ([]byte, *api.Error) {
