@@ -67,10 +67,12 @@ const (
 	// DefaultTimeout: a robustness run at the work budget takes a few
 	// seconds on one core; a minute leaves room on a busy machine.
 	DefaultTimeout = time.Minute
-	// DefaultHeavyQueue waiters per slot: enough for a batch client's
-	// bursts (drawsift screen --remote sends 4 at a time), few enough
-	// that a flood is refused at once.
-	DefaultHeavyQueue = 4
+	// DefaultHeavyQueue waiters per slot: enough that a few dozen
+	// clients each with a screen in flight (a batch client sends 4 at a
+	// time) wait their turn rather than being refused, few enough that a
+	// flood is refused at once and the bodies held waiting stay bounded
+	// (each ≤ MaxBodyBytes).
+	DefaultHeavyQueue = 32
 	// DefaultQueueWait bounds the wait for a slot.
 	DefaultQueueWait = 10 * time.Second
 )
