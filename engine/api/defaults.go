@@ -64,7 +64,11 @@ type DefaultsResponse struct {
 	PressureUnitsPa     map[string]float64 `json:"pressure_units_pa"`
 	GasConstantJPerMolK float64            `json:"gas_constant_j_per_mol_k"`
 	BatchMaxRequests    int                `json:"batch_max_requests"`
-	EngineVersion       string             `json:"engine_version"`
+	// The work budgets: ranked candidates × robustness samples, and
+	// candidates × orientations × sweep points.
+	RobustnessMaxWork int    `json:"robustness_max_work"`
+	SweepMaxWork      int    `json:"sweep_max_work"`
+	EngineVersion     string `json:"engine_version"`
 }
 
 // Defaults reports the engine's defaults and limits (scenario.Defaults).
@@ -83,6 +87,8 @@ func Defaults() *DefaultsResponse {
 		PressureUnitsPa:     map[string]float64{},
 		GasConstantJPerMolK: thermo.GasConstant,
 		BatchMaxRequests:    MaxBatch,
+		RobustnessMaxWork:   screen.MaxRobustWork,
+		SweepMaxWork:        screen.MaxSweepWork,
 		EngineVersion:       EngineVersion,
 	}
 	for _, g := range t.Ranges {

@@ -272,6 +272,29 @@ var (
 	// Hazard lists: only len(library.HazardFlags) (8) flags exist, so 32
 	// entries leave room for repeats (dropped) while bounding the work of
 	// matching them (our own choice).
+	// Lists a request may give: each bounded so that the work and the
+	// memory of resolving a request stay bounded whatever its length (our
+	// own choices, far above any real scenario's).
+	//
+	// CustomSoluteCount: a user's own library of custom solutes; with the
+	// 29 library records a whole-library robustness run still takes
+	// 30,000 samples within the screen's work budget.
+	CustomSoluteCount = Range{Field: "custom_solutes", Min: 0, Max: 100, Integer: true, Count: true, Why: "a user's own solutes screened beside the library"}
+	// CandidateCount: named solutes (repeats dropped) and blends.
+	CandidateCount = Range{Field: "candidates", Min: 0, Max: 200, Integer: true, Count: true, Why: "the library, the custom solutes and blends of them"}
+	// OrientationCount: two orientations exist; repeats are dropped.
+	OrientationCount = Range{Field: "orientations", Min: 0, Max: 4, Integer: true, Count: true, Why: "AL-FS and AL-DS; repeats are dropped"}
+	// ParetoCount: the objectives of the Pareto front (at least two).
+	ParetoCount = Range{Field: "pareto_objectives", Min: 2, Max: 16, Integer: true, Count: true, Why: "two or more of the score's objectives"}
+	// FeedIonCount: a water analysis; the mixed-electrolyte model knows
+	// 20 ions and each may be listed once.
+	FeedIonCount = Range{Field: "feed.ions", Min: 0, Max: 32, Integer: true, Count: true, Why: "each ion the mixture model knows, once"}
+	// MixtureParts and BlendParts: the parts of a mixture (an osmotic,
+	// flux or feed request at concentrations) and of a screen blend (at
+	// fractions).
+	MixtureParts = Range{Field: "mixture", Min: 1, Max: 12, Integer: true, Count: true, Why: "solutes of one solution"}
+	BlendParts   = Range{Field: "candidates[].blend", Min: 2, Max: 12, Integer: true, Count: true, Why: "solutes of one blend"}
+
 	HazardFlagCount    = Range{Field: "custom_solutes[].hazard_flags", Min: 0, Max: 32, Integer: true, Count: true, Why: "a list of known hazard flags; repeats are dropped"}
 	ExcludeHazardCount = Range{Field: "exclude_hazards", Min: 0, Max: 32, Integer: true, Count: true, Why: "a list of known hazard flags; repeats are dropped"}
 )
@@ -315,5 +338,6 @@ func Ranges() []*Range {
 		&Samples, &ARelSD, &BRelSD, &SRelSD, &OsmoticRelSD, &VantHoffOsmoticRelSD, &DiffusivityRelSD, &EstimatedBRelSD,
 		&Concentration, &SweepPoints, &CustomMolarMass, &CustomDiffusivity, &CustomVantHoff, &CustomSolubility, &CustomPrice, &PiTablePoints,
 		&HazardFlagCount, &ExcludeHazardCount, &CustomIonCharge, &CustomIonCount, &CustomIonEntries,
+		&CustomSoluteCount, &CandidateCount, &OrientationCount, &ParetoCount, &FeedIonCount, &MixtureParts, &BlendParts,
 	}
 }

@@ -2,8 +2,11 @@ package screen
 
 import (
 	"context"
-	"drawsift/engine/limits"
+	"fmt"
 	"math"
+
+	"drawsift/engine/errs"
+	"drawsift/engine/limits"
 
 	"drawsift/engine/library"
 	"drawsift/engine/thermo"
@@ -44,6 +47,13 @@ type SweepSeries struct {
 	Points      []SweepPoint
 }
 
+// MaxSweepWork bounds a sweep: candidates × orientations × points, each
+// a solve and one point of the answer (about 350 bytes of JSON). The
+// whole library in two orientations at 300 points fits; the error says
+// how many points the scenario allows. It keeps a sweep's time and its
+// answer (≈ 7 MB at the budget) bounded.
+const MaxSweepWork = 20_000
+
 // Sweep evaluates every candidate in every requested orientation across
 // the values of one variable, for plots. A point that fails a hard limit
 // carries its reason instead of metrics; the rest of the sweep goes on.
@@ -53,6 +63,12 @@ func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSp
 	}
 	if !(spec.From >= 0 && spec.To > spec.From) || math.IsInf(spec.To, 0) {
 		return nil, inputErr("sweep.to", "> from ≥ 0", "the sweep range must be finite and increasing")
+	}
+	if w := len(sc.Candidates) * len(sc.Orientations) * spec.Points; w > MaxSweepWork {
+		per := len(sc.Candidates) * len(sc.Orientations)
+		return nil, &errs.InputError{Field: "sweep.points", Value: float64(spec.Points),
+			Limit: fmt.Sprintf("≤ %d for %d candidates × %d orientations (candidates × orientations × points ≤ %d)", MaxSweepWork/per, len(sc.Candidates), len(sc.Orientations), MaxSweepWork),
+			Msg:   "the sweep is past its work budget"}
 	}
 	local := *sc // the sweep varies its own copy
 	xs := make([]float64, spec.Points)
@@ -124,6 +140,9 @@ func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSp
 		}
 		k := 0
 		for ci := range e.cands {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
 			c := &e.cands[ci]
 			for _, o := range sc.Orientations {
 				pt := &series[k].Points[i]
