@@ -295,7 +295,7 @@ func (h *handler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 	ctx := r.Context()
 	if h.timeout > 0 {
 		var cancel context.CancelFunc
-		ctx, cancel = context.WithTimeout(ctx, h.timeout)
+		ctx, cancel = withDeadline(ctx, h.timeout)
 		defer cancel()
 	}
 	if heavyOps[rt.op] {
@@ -358,6 +358,28 @@ func (s *startWriter) Write(p []byte) (int, error) {
 		s.w.WriteHeader(http.StatusOK)
 	}
 	return s.w.Write(p)
+}
+
+// clockCtx reads its deadline from the clock. Under js/wasm (the edge
+// build) a context's timer fires only when the running goroutine yields,
+// which a CPU-bound engine loop does not: without the clock, a sweep ran
+// on past its deadline (seen in the platform's runtime). The engine's
+// ctx.Err() checks therefore compare the time. See withDeadline.
+type clockCtx struct {
+	context.Context
+	deadline time.Time
+}
+
+func (c clockCtx) Deadline() (time.Time, bool) { return c.deadline, true }
+
+func (c clockCtx) Err() error {
+	if err := c.Context.Err(); err != nil {
+		return err
+	}
+	if !time.Now().Before(c.deadline) {
+		return context.DeadlineExceeded
+	}
+	return nil
 }
 
 // timed states the deadline in a timeout error.
@@ -426,11 +448,15 @@ func (a *admission) retryAfter() int { return 1 }
 func (h *handler) readBody(w http.ResponseWriter, r *http.Request) ([]byte, *api.Error) {
 	tooLarge := &api.Error{Field: "body", Limit: h.maxBody, Kind: kindTooLarge,
 		Message: fmt.Sprintf("request body larger than %d bytes; split a large sweep into several requests", h.maxBody)}
-	if r.ContentLength > h.maxBody {
-		return nil, tooLarge
-	}
 	if r.Body == nil {
+		if r.ContentLength > h.maxBody {
+			return nil, tooLarge
+		}
 		return nil, nil
+	}
+	if r.ContentLength > h.maxBody {
+		h.drain(r, r.ContentLength)
+		return nil, tooLarge
 	}
 	// Read one byte past the cap to tell "exactly at the cap" from "over".
 	b, err := io.ReadAll(io.LimitReader(r.Body, h.maxBody+1))
@@ -442,9 +468,28 @@ func (h *handler) readBody(w http.ResponseWriter, r *http.Request) ([]byte, *api
 		return nil, &api.Error{Field: "body", Message: "reading the request body: " + err.Error(), Kind: api.KindInvalid}
 	}
 	if int64(len(b)) > h.maxBody {
+		h.drain(r, -1)
 		return nil, tooLarge
 	}
 	return b, nil
+}
+
+// drainFactor × the body cap is the most of an oversized body read and
+// discarded so that the connection can carry the client's next request.
+const drainFactor = 4
+
+// drain reads what is left of an oversized body (n bytes declared, or
+// -1 unknown) when it is at most drainFactor × the cap: the edge
+// platform's runtime closes a connection whose request body was not read
+// to its end without saying so, and a client that reused it got EOF on
+// its next request. A larger body is left, and writeError's
+// "Connection: close" says the connection ends.
+func (h *handler) drain(r *http.Request, n int64) {
+	limit := drainFactor * h.maxBody
+	if n > limit {
+		return
+	}
+	io.Copy(io.Discard, io.LimitReader(r.Body, limit))
 }
 
 // checkContentType accepts application/json (or a +json type) in UTF-8.
@@ -472,6 +517,12 @@ func checkContentType(ct string) *api.Error {
 // kind. A 500 also carries the request id.
 func (h *handler) writeError(w http.ResponseWriter, id string, e *api.Error) {
 	st := status(e.Kind)
+	if e.Kind == kindTooLarge {
+		// The rest of the body is never read: the connection cannot carry
+		// another request, so say so (a client that reused it would get
+		// EOF on its next request, seen in the edge platform's runtime).
+		w.Header().Set("Connection", "close")
+	}
 	body := errorBody{Error: errorObject{Field: e.Field, Message: e.Message, Limit: e.Limit}}
 	if st == http.StatusInternalServerError {
 		body.Error.Message = "internal error"
