@@ -12,7 +12,6 @@ import (
 	"os"
 	"os/signal"
 	"path/filepath"
-	"runtime"
 	"strings"
 	"syscall"
 	"time"
@@ -28,10 +27,11 @@ Serves the JSON API at /v1/ (POST /v1/osmotic, /v1/flux, /v1/screen,
 page at /, until SIGINT or SIGTERM.
 
 Every request runs under --deadline (past it: 504, field "deadline").
-Screens and batches compute at most --max-heavy at once (default: one per
-core), with up to --heavy-queue more waiting at most --queue-wait for a
-slot; beyond that they are refused with 503 and Retry-After. The other
-endpoints never wait for a slot.
+Screens and batches compute at most --max-heavy at once, sharing all cores
+but one (which stays free for the other endpoints), with up to
+--heavy-queue more waiting at most --queue-wait for a slot; beyond that
+they are refused with 503 and Retry-After. The other endpoints never wait
+for a slot.
 `
 
 // Server timeouts: generous for a screen, short for slow or idle clients.
@@ -82,7 +82,7 @@ func runServe(args []string, stdout, stderr io.Writer) int {
 	cors := fs.String("cors", "", "allow browser calls from `ORIGIN` (comma-separated list, or *); off by default")
 	fs.Int64Var(&cfg.maxBody, "max-body", httpapi.DefaultMaxBodyBytes, "cap request bodies at `BYTES`")
 	fs.DurationVar(&cfg.deadline, "deadline", httpapi.DefaultTimeout, "stop any request still computing after `DURATION` (504); 1s–1h")
-	fs.IntVar(&cfg.maxHeavy, "max-heavy", runtime.GOMAXPROCS(0), "compute at most `N` screens and batches at once")
+	fs.IntVar(&cfg.maxHeavy, "max-heavy", httpapi.DefaultMaxHeavy(), "compute at most `N` screens and batches at once (default: the cores less one, which stays free for the other endpoints)")
 	queueFlag := fs.Int("heavy-queue", -1, "let `N` more screens and batches wait for a slot (default 32 × --max-heavy; 0: refuse at once)")
 	fs.DurationVar(&cfg.queueWait, "queue-wait", httpapi.DefaultQueueWait, "the longest a queued screen or batch waits for a slot, `DURATION`, before its 503")
 	if err := fs.Parse(args); err != nil {

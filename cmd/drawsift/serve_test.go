@@ -15,7 +15,7 @@ import (
 
 // startServe runs serve on a free loopback port until the test ends and
 // returns its base URL.
-func startServe(t *testing.T, cfg serveConfig) (string, *syncBuffer) {
+func startServe(t testing.TB, cfg serveConfig) (string, *syncBuffer) {
 	t.Helper()
 	if cfg.addr == "" {
 		cfg.addr = "127.0.0.1:0"

@@ -25,8 +25,10 @@
 // engine stops at its next check and the answer is a 504 error object on
 // field "deadline" stating the limit. The operations whose cost grows with
 // the request — screen (robustness runs and sweeps included) and batch —
-// are admitted through a fixed number of slots (Options.MaxHeavy, one per
-// core by default) with a short, bounded queue; when both are full the
+// are admitted through a fixed number of slots (Options.MaxHeavy; by
+// default one per core but one, the heavy requests sharing those cores and
+// the last kept for the cheap ones) with a short, bounded queue; when both
+// are full the
 // answer is a 503 error object with Retry-After. The cheap operations
 // (health, defaults, solutes, presets, osmotic, flux) never wait for a
 // slot, so they stay responsive while heavy work runs. A batch is written
@@ -97,7 +99,9 @@ type Options struct {
 	// its answer; 0 means DefaultTimeout, < 0 no deadline.
 	Timeout time.Duration
 	// MaxHeavy is the number of heavy requests (screen, batch) computed
-	// at once; ≤ 0 means one per core (runtime.GOMAXPROCS).
+	// at once; ≤ 0 means DefaultMaxHeavy(). Together they use at most
+	// heavyCores() cores (each request's robustness run gets its share),
+	// so one core is always left for the cheap requests.
 	MaxHeavy int
 	// HeavyQueue is how many more heavy requests may wait for a slot;
 	// 0 means DefaultHeavyQueue × MaxHeavy, < 0 none (answer 503 at once).
@@ -184,7 +188,16 @@ type handler struct {
 	batch   func(ctx context.Context, body []byte, w io.Writer) (bool, *api.Error)
 	timeout time.Duration
 	heavy   *admission
+	cores   int // per heavy request
 }
+
+// heavyCores is how many cores the heavy requests share: all but one,
+// which stays free for the cheap requests (one on a single core).
+func heavyCores() int { return max(1, runtime.GOMAXPROCS(0)-1) }
+
+// DefaultMaxHeavy is the default number of heavy slots: one per core the
+// heavy requests share, each request's robustness run then on one core.
+func DefaultMaxHeavy() int { return heavyCores() }
 
 // heavyOps are the operations admitted through the slots: their cost
 // grows with the request (candidates × samples, sweep points, items).
@@ -220,8 +233,9 @@ func New(opts Options) http.Handler {
 	}
 	slots := opts.MaxHeavy
 	if slots <= 0 {
-		slots = max(1, runtime.GOMAXPROCS(0))
+		slots = DefaultMaxHeavy()
 	}
+	h.cores = max(1, heavyCores()/slots)
 	queue := opts.HeavyQueue
 	switch {
 	case queue == 0:
@@ -308,6 +322,7 @@ func (h *handler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 			return
 		}
 		defer release()
+		ctx = api.WithCores(ctx, h.cores)
 	}
 	if rt.op == api.OpBatch && h.batch != nil {
 		h.streamBatch(ctx, w, id, body)
