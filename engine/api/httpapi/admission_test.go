@@ -3,7 +3,10 @@ package httpapi
 import (
 	"bytes"
 	"context"
+	"io"
 	"net/http"
+	"net/http/httptest"
+	"net/http/httptrace"
 	"runtime"
 	"strings"
 	"sync"
@@ -140,4 +143,60 @@ func TestBatchStreamedAsDispatched(t *testing.T) {
 	}
 	// A malformed batch is refused before anything is written: a 400.
 	mustError(t, post(New(Options{}), "/v1/batch", `{"op":"osmotic"}`), http.StatusBadRequest, "batch")
+}
+
+// TestDeadlineReadFromTheClock: the request context reports its deadline
+// from the clock even before (or without) its timer firing, which under
+// js/wasm a CPU-bound loop never lets happen.
+func TestDeadlineReadFromTheClock(t *testing.T) {
+	ctx := clockCtx{Context: context.Background(), deadline: time.Now().Add(-time.Millisecond)}
+	if err := ctx.Err(); err != context.DeadlineExceeded {
+		t.Errorf("a past deadline: Err() = %v, want context.DeadlineExceeded", err)
+	}
+	if d, ok := ctx.Deadline(); !ok || !d.Equal(ctx.deadline) {
+		t.Errorf("Deadline() = %v, %v", d, ok)
+	}
+	live := clockCtx{Context: context.Background(), deadline: time.Now().Add(time.Hour)}
+	if err := live.Err(); err != nil {
+		t.Errorf("a deadline an hour away: Err() = %v", err)
+	}
+}
+
+// TestOversizedBodyKeepsTheConnection: a body a little over the cap is
+// read to its end before the 413, so the client's next request goes over
+// the same connection (the edge runtime closed it silently otherwise); a
+// body past 4 × the cap is left unread and the 413 says Connection: close.
+func TestOversizedBodyKeepsTheConnection(t *testing.T) {
+	const limit = 1 << 10
+	srv := httptest.NewServer(New(Options{MaxBodyBytes: limit}))
+	defer srv.Close()
+	client := srv.Client()
+	send := func(body string) (int, bool, bool) {
+		var reused bool
+		trace := &httptrace.ClientTrace{GotConn: func(i httptrace.GotConnInfo) { reused = i.Reused }}
+		req, _ := http.NewRequestWithContext(httptrace.WithClientTrace(context.Background(), trace), http.MethodPost, srv.URL+"/v1/osmotic", strings.NewReader(body))
+		req.Header.Set("Content-Type", "application/json")
+		resp, err := client.Do(req)
+		if err != nil {
+			t.Fatal(err)
+		}
+		io.Copy(io.Discard, resp.Body)
+		resp.Body.Close()
+		return resp.StatusCode, reused, resp.Close
+	}
+	if st, _, _ := send(osmoticNaCl); st != http.StatusOK {
+		t.Fatalf("first request: %d", st)
+	}
+	if st, _, closed := send(strings.Repeat(" ", 2*limit) + osmoticNaCl); st != http.StatusRequestEntityTooLarge || closed {
+		t.Fatalf("2 × the cap: status %d, connection closed %v; want 413 with the connection kept", st, closed)
+	}
+	if st, reused, _ := send(osmoticNaCl); st != http.StatusOK || !reused {
+		t.Errorf("after a drained 413: status %d, connection reused %v; want 200 on the same connection", st, reused)
+	}
+	if st, _, closed := send(strings.Repeat(" ", 8*limit)); st != http.StatusRequestEntityTooLarge || !closed {
+		t.Errorf("8 × the cap: status %d, connection closed %v; want 413 with Connection: close", st, closed)
+	}
+	if st, _, _ := send(osmoticNaCl); st != http.StatusOK {
+		t.Errorf("after a closed 413: %d", st)
+	}
 }

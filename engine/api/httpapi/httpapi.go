@@ -470,7 +470,7 @@ func (h *handler) readBody(w http.ResponseWriter, r *http.Request) ([]byte, *api
 		return nil, nil
 	}
 	if r.ContentLength > h.maxBody {
-		h.drain(r, r.ContentLength)
+		h.drain(w, r, r.ContentLength)
 		return nil, tooLarge
 	}
 	// Read one byte past the cap to tell "exactly at the cap" from "over".
@@ -483,7 +483,7 @@ func (h *handler) readBody(w http.ResponseWriter, r *http.Request) ([]byte, *api
 		return nil, &api.Error{Field: "body", Message: "reading the request body: " + err.Error(), Kind: api.KindInvalid}
 	}
 	if int64(len(b)) > h.maxBody {
-		h.drain(r, -1)
+		h.drain(w, r, -1)
 		return nil, tooLarge
 	}
 	return b, nil
@@ -497,14 +497,17 @@ const drainFactor = 4
 // -1 unknown) when it is at most drainFactor × the cap: the edge
 // platform's runtime closes a connection whose request body was not read
 // to its end without saying so, and a client that reused it got EOF on
-// its next request. A larger body is left, and writeError's
-// "Connection: close" says the connection ends.
-func (h *handler) drain(r *http.Request, n int64) {
+// its next request. A larger body is left unread, and the answer says
+// "Connection: close".
+func (h *handler) drain(w http.ResponseWriter, r *http.Request, n int64) {
 	limit := drainFactor * h.maxBody
-	if n > limit {
-		return
+	if n <= limit {
+		m, _ := io.Copy(io.Discard, io.LimitReader(r.Body, limit+1))
+		if m <= limit {
+			return // read to its end
+		}
 	}
-	io.Copy(io.Discard, io.LimitReader(r.Body, limit))
+	w.Header().Set("Connection", "close")
 }
 
 // checkContentType accepts application/json (or a +json type) in UTF-8.
@@ -532,12 +535,6 @@ func checkContentType(ct string) *api.Error {
 // kind. A 500 also carries the request id.
 func (h *handler) writeError(w http.ResponseWriter, id string, e *api.Error) {
 	st := status(e.Kind)
-	if e.Kind == kindTooLarge {
-		// The rest of the body is never read: the connection cannot carry
-		// another request, so say so (a client that reused it would get
-		// EOF on its next request, seen in the edge platform's runtime).
-		w.Header().Set("Connection", "close")
-	}
 	body := errorBody{Error: errorObject{Field: e.Field, Message: e.Message, Limit: e.Limit}}
 	if st == http.StatusInternalServerError {
 		body.Error.Message = "internal error"
