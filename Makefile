@@ -40,7 +40,7 @@ demo: build
 	./$(BIN)/drawsift demo
 
 # Everything CI checks.
-test: vet check lint test-native test-site test-wasm refcheck fuzz
+test: vet check lint workerd test-native test-site test-wasm refcheck fuzz
 
 vet:
 	@test -z "$$(gofmt -l $$(git ls-files '*.go' 2>/dev/null || find . -name '*.go'))" || (echo 'gofmt needed:'; gofmt -l .; false)

@@ -3,7 +3,9 @@
 #
 #   make edge       build/edge/: app.wasm + generated glue + wrangler.toml, ready to deploy
 #   make edge-size  raw and gzip sizes of the bundle (budget: < 3 MiB gzip)
-#   make test-edge  the edge bundle under Node answering as the native handler does
+#   make test-edge  the edge bundle under Node and in workerd (the platform's own
+#                   runtime) answering as the native handler does
+#   make workerd    install the pinned workerd from npm under build/workerd/
 #   make fuzz       every fuzz target of the handler for FUZZTIME each (CI: 100000 inputs)
 
 EDGE_DIR  ?= build/edge
@@ -16,7 +18,13 @@ FUZZTIME  ?= 100000x
 FUZZ_PKG  := ./engine/api/httpapi/
 FUZZ_TARGETS := FuzzOsmotic FuzzFlux FuzzScreen FuzzBatch FuzzOsmoticFields FuzzFluxFields FuzzTransport
 
-.PHONY: edge edge-size test-edge fuzz
+# workerd, the edge platform's open-source runtime: a binary shipped inside
+# the npm package (@cloudflare/workerd-linux-64, pulled in by workerd).
+WORKERD_VERSION ?= 1.20261117.1
+WORKERD_DIR     := build/workerd
+WORKERD         := $(WORKERD_DIR)/node_modules/.bin/workerd
+
+.PHONY: edge edge-size test-edge fuzz workerd
 
 # The edge build uses encoding/json (-tags stdjson): goccy/go-json would add
 # ~1 MB gzip and leave too little room under the platform's 3 MiB; each edge
@@ -35,8 +43,17 @@ edge-size:
 	  printf 'edge bundle gzip total: %d B (budget 3145728 B)\n' $$total; \
 	  test $$total -lt 3145728 || (echo 'edge bundle over budget' && false)
 
-test-edge:
+test-edge: workerd
 	$(GO) test -count=1 -v -run 'TestEdge' ./wasm/edge/
+
+# Installs workerd once (kept while its version matches); without npm the
+# test in workerd skips, and says so.
+workerd:
+	@if [ -x $(WORKERD) ] && grep -qs '"version": "$(WORKERD_VERSION)"' $(WORKERD_DIR)/node_modules/workerd/package.json; then :; \
+	elif command -v npm >/dev/null; then mkdir -p $(WORKERD_DIR) && \
+	  npm install --prefix $(WORKERD_DIR) --no-save --no-audit --no-fund --loglevel=error workerd@$(WORKERD_VERSION) && \
+	  $(WORKERD) --version; \
+	else echo "workerd: npm not found; TestEdgeInWorkerd will skip (install Node.js and npm, then make workerd)"; fi
 
 fuzz:
 	@for t in $(FUZZ_TARGETS); do \

@@ -215,20 +215,42 @@ func (b *batchFlags) runBatch(op string, body []byte, format string, stdout, std
 	return 0, true
 }
 
+// reorderWindow is how many scenarios past the oldest unwritten one may
+// be started, per scenario in flight: the outcomes held in memory at
+// once are at most conc × reorderWindow, however slow one scenario is.
+const reorderWindow = 4
+
 // forEachOrdered calls call on every item with at most conc in flight and
 // hands the outcomes to emit in input order, as soon as each one and all
-// before it are done. It stops early only if emit fails.
+// before it are done. An item starts only within a window of
+// conc × reorderWindow items from the oldest one not yet emitted, so a
+// slow item holds back at most that many finished outcomes, never the
+// whole batch. It stops early only if emit fails.
 func forEachOrdered(ctx context.Context, items [][]byte, conc int, call caller, emit func(int, outcome) error) error {
+	return forEachWindow(ctx, items, conc, conc*reorderWindow, call, emit)
+}
+
+// forEachWindow is forEachOrdered with the window given (≥ conc).
+func forEachWindow(ctx context.Context, items [][]byte, conc, window int, call caller, emit func(int, outcome) error) error {
 	ctx, cancel := context.WithCancel(ctx)
 	defer cancel()
-	done := make([]chan outcome, len(items))
+	window = max(window, conc, 1)
+	// done[i%window] carries item i's outcome: an item starts only once
+	// the one window places before it was emitted, so slots never clash.
+	done := make([]chan outcome, min(window, len(items)))
 	for i := range done {
 		done[i] = make(chan outcome, 1)
 	}
-	sem := make(chan struct{}, conc)
+	sem := make(chan struct{}, conc)     // in flight
+	slots := make(chan struct{}, window) // started, not yet emitted
 	var wg sync.WaitGroup
 	go func() {
 		for i := range items {
+			select {
+			case slots <- struct{}{}:
+			case <-ctx.Done():
+				return
+			}
 			select {
 			case sem <- struct{}{}:
 			case <-ctx.Done():
@@ -237,14 +259,17 @@ func forEachOrdered(ctx context.Context, items [][]byte, conc int, call caller, 
 			wg.Add(1)
 			go func(i int) {
 				defer wg.Done()
-				defer func() { <-sem }()
-				done[i] <- call(ctx, items[i])
+				o := call(ctx, items[i])
+				<-sem
+				done[i%len(done)] <- o
 			}(i)
 		}
 	}()
 	defer wg.Wait()
 	for i := range items {
-		if err := emit(i, <-done[i]); err != nil {
+		o := <-done[i%len(done)]
+		<-slots
+		if err := emit(i, o); err != nil {
 			return err
 		}
 	}
@@ -353,6 +378,14 @@ func (b *batchFlags) try(ctx context.Context, client *http.Client, endpoint stri
 	switch {
 	case resp.StatusCode == http.StatusOK && json.Valid(data):
 		return 0, true, outcome{body: data}
+	case resp.StatusCode == http.StatusOK:
+		// A 200 whose body is not JSON was cut short or mangled on the
+		// way (a proxy, a worker that died mid-answer): try again.
+		return 0, false, outcome{body: []byte(fmt.Sprintf("%s answered 200 with a body that is not JSON%s", endpoint, snippet(data)))}
+	case resp.StatusCode == http.StatusGatewayTimeout && isErrorObject(data):
+		// The server's deadline stopped the scenario: the same request
+		// would stop there again, so this is its verdict.
+		return 0, true, outcome{body: data, failed: true}
 	case resp.StatusCode == http.StatusTooManyRequests || resp.StatusCode >= 500:
 		return retryAfter(resp.Header.Get("Retry-After")), false,
 			outcome{body: []byte(fmt.Sprintf("%s answered %s%s", endpoint, resp.Status, snippet(data)))}

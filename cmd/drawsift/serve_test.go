@@ -15,7 +15,7 @@ import (
 
 // startServe runs serve on a free loopback port until the test ends and
 // returns its base URL.
-func startServe(t *testing.T, cfg serveConfig) (string, *syncBuffer) {
+func startServe(t testing.TB, cfg serveConfig) (string, *syncBuffer) {
 	t.Helper()
 	if cfg.addr == "" {
 		cfg.addr = "127.0.0.1:0"
@@ -133,10 +133,20 @@ func TestServeFlags(t *testing.T) {
 		{"serve", "--addr"},
 		{"serve", "extra"},
 		{"serve", "--addr", "256.0.0.1:99999"},
+		{"serve", "--deadline", "100ms"},
+		{"serve", "--deadline", "3h"},
+		{"serve", "--max-heavy", "0"},
+		{"serve", "--heavy-queue", "-2"},
+		{"serve", "--queue-wait", "0s"},
+		{"serve", "--deadline", "5s", "--queue-wait", "10s"},
 	} {
 		var stdout, stderr bytes.Buffer
 		if code := run(args, nil, &stdout, &stderr); code != 1 {
 			t.Errorf("%v: exit %d, want 1 (stderr %q)", args, code, stderr.String())
+		}
+		// An admission flag's refusal names the flag (not a later check).
+		if f := args[len(args)-2]; strings.Contains("--deadline --max-heavy --heavy-queue --queue-wait", f) && !strings.Contains(stderr.String(), f) {
+			t.Errorf("%v: stderr %q does not name %s", args, stderr.String(), f)
 		}
 	}
 }

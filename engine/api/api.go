@@ -46,6 +46,9 @@ const (
 	KindInvalid  = "invalid"  // 400
 	KindNotFound = "notfound" // 404: unknown operation
 	KindInternal = "internal" // 500
+	// KindTimeout: the request's deadline passed before it finished
+	// (field "deadline"); hosts answer 504.
+	KindTimeout = "timeout"
 )
 
 // Error is the contract's error object: {"error": {"field", "message", "limit"}}.
@@ -235,7 +238,10 @@ func fromEngine(prefix string, err error) *Error {
 		}
 		return &Error{Field: errs.Join(prefix, ie.Field), Message: msg, Limit: lim, Kind: KindInvalid}
 	}
-	if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
+	if errors.Is(err, context.DeadlineExceeded) {
+		return deadlineError()
+	}
+	if errors.Is(err, context.Canceled) {
 		return &Error{Field: "", Message: "cancelled: " + err.Error(), Kind: KindInvalid}
 	}
 	var ce *errs.ConvergenceError
@@ -243,6 +249,13 @@ func fromEngine(prefix string, err error) *Error {
 		return &Error{Message: ce.Error(), Kind: KindInternal, detail: ce.Error()}
 	}
 	return &Error{Message: "internal error", Kind: KindInternal, detail: err.Error()}
+}
+
+// deadlineError is the contract's error for a request stopped by its
+// deadline; a host that knows the deadline states it in Limit.
+func deadlineError() *Error {
+	return &Error{Field: "deadline", Kind: KindTimeout,
+		Message: "the request did not finish within its deadline; ask for less work (fewer uncertainty.samples, sweep.points, candidates or batch items)"}
 }
 
 // finite reports whether every value is a finite float.

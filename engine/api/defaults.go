@@ -2,11 +2,13 @@ package api
 
 import (
 	"context"
-	"drawsift/engine/limits"
 	"fmt"
+	"io"
 	"math"
 
+	"drawsift/engine/errs"
 	"drawsift/engine/internal/jsonx"
+	"drawsift/engine/limits"
 	"drawsift/engine/scenario"
 	"drawsift/engine/screen"
 	"drawsift/engine/thermo"
@@ -66,7 +68,11 @@ type DefaultsResponse struct {
 	PressureUnitsPa     map[string]float64 `json:"pressure_units_pa"`
 	GasConstantJPerMolK float64            `json:"gas_constant_j_per_mol_k"`
 	BatchMaxRequests    int                `json:"batch_max_requests"`
-	EngineVersion       string             `json:"engine_version"`
+	// The work budgets: ranked candidates × robustness samples, and
+	// candidates × orientations × sweep points.
+	RobustnessMaxWork int    `json:"robustness_max_work"`
+	SweepMaxWork      int    `json:"sweep_max_work"`
+	EngineVersion     string `json:"engine_version"`
 }
 
 // Defaults reports the engine's defaults and limits (scenario.Defaults).
@@ -86,6 +92,8 @@ func Defaults() *DefaultsResponse {
 		PressureUnitsPa:     map[string]float64{},
 		GasConstantJPerMolK: thermo.GasConstant,
 		BatchMaxRequests:    MaxBatch,
+		RobustnessMaxWork:   screen.MaxRobustWork,
+		SweepMaxWork:        screen.MaxSweepWork,
 		EngineVersion:       EngineVersion,
 	}
 	for _, g := range t.Ranges {
@@ -133,27 +141,101 @@ type BatchResult struct {
 
 // Batch runs a list of osmotic and flux requests in one call; one failure
 // does not stop the rest (its answer is the error object, ok false).
-// progress, if not nil, receives (done, total) after each item; a
-// cancelled ctx stops the batch.
+// progress, if not nil, receives (done, total) after each item. A ctx
+// that ends before the first item is answered stops the batch with its
+// error; one that ends later makes that item and every one after it
+// answer ok false with the same error, so the items already answered are
+// kept (BatchStream has written them by then).
 func Batch(ctx context.Context, items []BatchItem, progress func(done, total int)) ([]BatchResult, *Error) {
-	if len(items) > MaxBatch {
-		return nil, Invalid("batch", MaxBatch, "a batch holds at most %d requests (got %d)", MaxBatch, len(items))
+	res := make([]BatchResult, 0, min(len(items), MaxBatch))
+	if e := batchEach(ctx, items, progress, func(_ int, r BatchResult) error {
+		res = append(res, r)
+		return nil
+	}); e != nil {
+		return nil, e
 	}
-	res := make([]BatchResult, len(items))
+	return res, nil
+}
+
+// batchEach runs the items in order and hands each answer to emit as soon
+// as it is ready; see Batch. An error from emit (a client gone) stops it.
+func batchEach(ctx context.Context, items []BatchItem, progress func(done, total int), emit func(int, BatchResult) error) *Error {
+	if len(items) > MaxBatch {
+		return Invalid("batch", MaxBatch, "a batch holds at most %d requests (got %d)", MaxBatch, len(items))
+	}
+	var stopped []byte // the error object of the ctx that ended
 	for i, it := range items {
-		if err := ctx.Err(); err != nil {
-			return nil, fromEngine("", err)
-		}
-		if it.Op != OpOsmotic && it.Op != OpFlux {
+		var r BatchResult
+		switch {
+		case stopped != nil:
+			r = BatchResult{Result: stopped}
+		case ctx.Err() != nil:
+			e := fromEngine("", ctx.Err())
+			if i == 0 {
+				return e
+			}
+			stopped = encodeError(e)
+			r = BatchResult{Result: stopped}
+		case it.Op != OpOsmotic && it.Op != OpFlux:
 			e := Invalid(fmt.Sprintf("batch[%d].op", i), []string{OpOsmotic, OpFlux}, "a batch runs osmotic and flux requests only (got %q)", it.Op)
-			res[i] = BatchResult{OK: false, Result: encodeError(e)}
-		} else {
+			r = BatchResult{Result: encodeError(e)}
+		default:
 			out, e := DispatchProgress(ctx, it.Op, it.Body, nil)
-			res[i] = BatchResult{OK: e == nil, Result: out}
+			r = BatchResult{OK: e == nil, Result: out}
+		}
+		if err := emit(i, r); err != nil {
+			return &Error{Field: "batch", Message: "writing the answer: " + err.Error(), Kind: KindInvalid}
 		}
 		if progress != nil {
 			progress(i+1, len(items))
 		}
 	}
-	return res, nil
+	return nil
+}
+
+// BatchStream answers a batch request exactly as Dispatch(ctx, OpBatch,
+// body) does — the same bytes — but writes the array to w one answer at a
+// time, so that a host holds one answer in memory, never the whole batch.
+// Until the first answer is written it returns any error (started false,
+// nothing written) for the host to answer with the error's status; once
+// started, the array is always closed, and an error means w failed.
+func BatchStream(ctx context.Context, body []byte, w io.Writer, progress func(done, total int)) (started bool, e *Error) {
+	var items []BatchItem
+	if e = decode(body, &items); e != nil {
+		e.Field = errs.Join("batch", e.Field)
+		return false, e
+	}
+	var werr error
+	write := func(b ...[]byte) {
+		for _, p := range b {
+			if werr == nil {
+				_, werr = w.Write(p)
+			}
+		}
+	}
+	e = batchEach(ctx, items, progress, func(i int, r BatchResult) error {
+		b, err := jsonx.Marshal(r)
+		if err != nil {
+			b = encodeError(&Error{Message: "internal error", Kind: KindInternal, detail: "marshal: " + err.Error()})
+			b, _ = jsonx.Marshal(BatchResult{Result: b})
+		}
+		sep := []byte{','}
+		if !started {
+			started, sep = true, []byte{'['}
+		}
+		write(sep, b)
+		return werr
+	})
+	switch {
+	case e != nil && !started:
+		return false, e
+	case !started:
+		write([]byte("[]"))
+	default:
+		write([]byte{']'})
+	}
+	if werr != nil {
+		return true, &Error{Field: "batch", Message: "writing the answer: " + werr.Error(), Kind: KindInvalid}
+	}
+	return true, nil
 }

@@ -270,7 +270,10 @@ func Screen(ctx context.Context, req *ScreenRequest, progress func(done, total i
 	lib, _ := library.Default()
 	res, err := screen.Run(ctx, sc, lib, progress)
 	if err != nil {
-		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
+		if errors.Is(err, context.DeadlineExceeded) {
+			return nil, deadlineError()
+		}
+		if errors.Is(err, context.Canceled) {
 			return nil, &Error{Field: "", Message: "screen cancelled: " + err.Error(), Kind: KindInvalid}
 		}
 		var ie *errs.InputError

@@ -284,6 +284,30 @@ var (
 	FitAbsReverseFlux  = Range{Field: "measurement_error.reverse_solute_flux_gmh", Unit: "gMH", Min: 0, Max: 1e4, Default: 0, HasDefault: true, Why: "an absolute floor of each reverse solute flux's uncertainty"}
 	FitConfidence      = Range{Field: "confidence", Min: 0.5, Max: 0.999, Default: 0.95, HasDefault: true, Why: "the confidence level of the intervals"}
 	FitBootstrapSample = Range{Field: "bootstrap.samples", Min: 10, Max: 10000, Integer: true, Default: 1000, HasDefault: true, Why: "resamples; the work budget also caps samples × measured fluxes"}
+
+	// Lists a request may give: each bounded so that the work and the
+	// memory of resolving a request stay bounded whatever its length (our
+	// own choices, far above any real scenario's).
+	//
+	// CustomSoluteCount: a user's own library of custom solutes; with the
+	// 29 library records a whole-library robustness run still takes
+	// 30,000 samples within the screen's work budget.
+	CustomSoluteCount = Range{Field: "custom_solutes", Min: 0, Max: 100, Integer: true, Count: true, Why: "a user's own solutes screened beside the library"}
+	// CandidateCount: named solutes (repeats dropped) and blends.
+	CandidateCount = Range{Field: "candidates", Min: 0, Max: 200, Integer: true, Count: true, Why: "the library, the custom solutes and blends of them"}
+	// OrientationCount: two orientations exist; repeats are dropped.
+	OrientationCount = Range{Field: "orientations", Min: 0, Max: 4, Integer: true, Count: true, Why: "AL-FS and AL-DS; repeats are dropped"}
+	// ParetoCount: the objectives of the Pareto front (at least two).
+	ParetoCount = Range{Field: "pareto_objectives", Min: 2, Max: 16, Integer: true, Count: true, Why: "two or more of the score's objectives"}
+	// FeedIonCount: a water analysis; the mixed-electrolyte model knows
+	// 20 ions and each may be listed once.
+	FeedIonCount = Range{Field: "feed.ions", Min: 0, Max: 32, Integer: true, Count: true, Why: "each ion the mixture model knows, once"}
+	// MixtureParts and BlendParts: the parts of a mixture (an osmotic,
+	// flux or feed request at concentrations) and of a screen blend (at
+	// fractions).
+	MixtureParts = Range{Field: "mixture", Min: 1, Max: 12, Integer: true, Count: true, Why: "solutes of one solution"}
+	BlendParts   = Range{Field: "candidates[].blend", Min: 2, Max: 12, Integer: true, Count: true, Why: "solutes of one blend"}
+
 	HazardFlagCount    = Range{Field: "custom_solutes[].hazard_flags", Min: 0, Max: 32, Integer: true, Count: true, Why: "a list of known hazard flags; repeats are dropped"}
 	ExcludeHazardCount = Range{Field: "exclude_hazards", Min: 0, Max: 32, Integer: true, Count: true, Why: "a list of known hazard flags; repeats are dropped"}
 )
@@ -328,5 +352,6 @@ func Ranges() []*Range {
 		&Concentration, &SweepPoints, &CustomMolarMass, &CustomDiffusivity, &CustomVantHoff, &CustomSolubility, &CustomPrice, &PiTablePoints,
 		&HazardFlagCount, &ExcludeHazardCount, &CustomIonCharge, &CustomIonCount, &CustomIonEntries,
 		&FitRows, &FitWaterFlux, &FitReverseFlux, &FitWaterFluxSD, &FitReverseFluxSD, &FitRelError, &FitAbsWaterFlux, &FitAbsReverseFlux, &FitConfidence, &FitBootstrapSample,
+		&CustomSoluteCount, &CandidateCount, &OrientationCount, &ParetoCount, &FeedIonCount, &MixtureParts, &BlendParts,
 	}
 }

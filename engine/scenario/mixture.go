@@ -9,6 +9,7 @@ import (
 	"drawsift/engine/errs"
 	"drawsift/engine/internal/jsonx"
 	"drawsift/engine/library"
+	"drawsift/engine/limits"
 	"drawsift/engine/thermo"
 )
 
@@ -106,9 +107,8 @@ func ResolveMixture(prefix string, parts []MixturePart, tK float64) (*thermo.Sol
 	if len(parts) == 0 {
 		return nil, 0, 0, errs.InvalidText(field, "", nil, "a mixture needs at least one part: [{\"solute\", \"concentration\", \"unit\"}, …]")
 	}
-	const maxParts = 12
-	if len(parts) > maxParts {
-		return nil, 0, 0, errs.Invalid(field, float64(len(parts)), fmt.Sprintf("at most %d parts", maxParts), "a mixture has at most %d parts (got %d)", maxParts, len(parts))
+	if err := limits.MixtureParts.CheckAt(field, float64(len(parts))); err != nil {
+		return nil, 0, 0, err
 	}
 	sols := make([]*library.Solute, len(parts))
 	vals := make([]float64, len(parts))
@@ -227,9 +227,8 @@ func ResolveBlend(field string, c *Candidate, extra map[string]*library.Solute) 
 	if len(c.Blend) < 2 {
 		return nil, errs.InvalidText(errs.Join(field, "blend"), "", nil, "a blend needs two or more parts: [{\"solute\", \"mole_fraction\"}, …]")
 	}
-	const maxParts = 12
-	if len(c.Blend) > maxParts {
-		return nil, errs.Invalid(errs.Join(field, "blend"), float64(len(c.Blend)), fmt.Sprintf("at most %d parts", maxParts), "a blend has at most %d parts (got %d)", maxParts, len(c.Blend))
+	if err := limits.BlendParts.CheckAt(errs.Join(field, "blend"), float64(len(c.Blend))); err != nil {
+		return nil, err
 	}
 	sols := make([]*library.Solute, len(c.Blend))
 	fr := make([]float64, len(c.Blend))

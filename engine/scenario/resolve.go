@@ -209,6 +209,9 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 		return nil, nil, err
 	}
 	sc.Orientations = []transport.Orientation{o}
+	if err := limits.OrientationCount.Check(float64(len(req.Orientations))); err != nil {
+		return nil, nil, err
+	}
 	for i, s := range req.Orientations {
 		o2, err := ParseOrientation(fmt.Sprintf("orientations[%d]", i), s)
 		if err != nil || s == "" {
@@ -279,6 +282,12 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 	// Candidates.
 	customs := map[string]*library.Solute{}
 	var customOrder []*library.Solute
+	if err := limits.CustomSoluteCount.Check(float64(len(req.CustomSolutes))); err != nil {
+		return nil, nil, err
+	}
+	if err := limits.CandidateCount.Check(float64(len(req.Candidates))); err != nil {
+		return nil, nil, err
+	}
 	for i, cs := range req.CustomSolutes {
 		s, e := customSolute(i, &cs, lib)
 		if e != nil {
@@ -369,6 +378,9 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 		if len(req.ParetoObjectives) < 2 {
 			return nil, nil, invalid("pareto_objectives", "two or more objectives", "the Pareto front needs two or more objectives")
 		}
+		if err := limits.ParetoCount.Check(float64(len(req.ParetoObjectives))); err != nil {
+			return nil, nil, err
+		}
 		sc.Pareto = nil
 		for i, k := range req.ParetoObjectives {
 			ob, ok := screen.ParseObjective(k)
@@ -434,6 +446,9 @@ const MaxChargeImbalance = 0.05
 // concentration within their ranges, each symbol once, and the list
 // electroneutral within MaxChargeImbalance.
 func customIons(specs []IonSpec) ([]library.FeedIon, error) {
+	if err := limits.FeedIonCount.Check(float64(len(specs))); err != nil {
+		return nil, err
+	}
 	out := make([]library.FeedIon, 0, len(specs))
 	seen := map[string]int{}
 	for i, ion := range specs {

@@ -54,7 +54,22 @@ func logNormalFactor(rsd float64, src rand.Source) distuv.LogNormal {
 // so they are bit for bit those of a single-core run, whatever the number
 // of workers (a test holds this).
 func (e *env) robustness(ctx context.Context, res *Result, progress func(done, total int)) error {
-	return e.robustnessOn(ctx, res, progress, robustWorkers())
+	w := robustWorkers()
+	if n, ok := ctx.Value(coresKey{}).(int); ok && n > 0 {
+		w = min(w, n)
+	}
+	return e.robustnessOn(ctx, res, progress, w)
+}
+
+// coresKey carries the most cores one request's robustness run may use
+// (WithCores).
+type coresKey struct{}
+
+// WithCores limits the robustness runs under ctx to n goroutines (a
+// server sharing its cores between requests); the figures do not depend
+// on it.
+func WithCores(ctx context.Context, n int) context.Context {
+	return context.WithValue(ctx, coresKey{}, n)
 }
 
 // robustWorkers is the number of goroutines evaluating samples: one per

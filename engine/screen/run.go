@@ -95,6 +95,9 @@ func Run(ctx context.Context, sc *Scenario, lib *library.Library, progress func(
 	ori := sc.Orientations[0]
 	var scratch transport.Result
 	for i := range e.cands {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
 		c := &e.cands[i]
 		var m Metrics
 		if ex := e.evaluate(c, ori, &nominal, &m, &scratch); ex != nil {

@@ -2,11 +2,13 @@ package screen
 
 import (
 	"context"
-	"drawsift/engine/limits"
+	"fmt"
 	"math"
 	"sync"
 
+	"drawsift/engine/errs"
 	"drawsift/engine/library"
+	"drawsift/engine/limits"
 	"drawsift/engine/thermo"
 	"drawsift/engine/transport"
 )
@@ -45,6 +47,13 @@ type SweepSeries struct {
 	Points      []SweepPoint
 }
 
+// MaxSweepWork bounds a sweep: candidates × orientations × points, each
+// a solve and one point of the answer (about 350 bytes of JSON). The
+// whole library in two orientations at 300 points fits; the error says
+// how many points the scenario allows. It keeps a sweep's time and its
+// answer (≈ 7 MB at the budget) bounded.
+const MaxSweepWork = 20_000
+
 // Sweep evaluates every candidate in every requested orientation across
 // the values of one variable, for plots. A point that fails a hard limit
 // carries its reason instead of metrics; the rest of the sweep goes on.
@@ -54,6 +63,12 @@ func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSp
 	}
 	if !(spec.From >= 0 && spec.To > spec.From) || math.IsInf(spec.To, 0) {
 		return nil, inputErr("sweep.to", "> from ≥ 0", "the sweep range must be finite and increasing")
+	}
+	if w := len(sc.Candidates) * len(sc.Orientations) * spec.Points; w > MaxSweepWork {
+		per := len(sc.Candidates) * len(sc.Orientations)
+		return nil, &errs.InputError{Field: "sweep.points", Value: float64(spec.Points),
+			Limit: fmt.Sprintf("≤ %d for %d candidates × %d orientations (candidates × orientations × points ≤ %d)", MaxSweepWork/per, len(sc.Candidates), len(sc.Orientations), MaxSweepWork),
+			Msg:   "the sweep is past its work budget"}
 	}
 	local := *sc // the sweep varies its own copy
 	xs := make([]float64, spec.Points)
@@ -120,7 +135,7 @@ func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSp
 	n := len(e.cands)
 	workers := min(robustWorkers(), n)
 	var wg sync.WaitGroup
-	errs := make([]error, workers)
+	failed := make([]error, workers)
 	for wk := 0; wk < workers; wk++ {
 		lo, hi := wk*n/workers, (wk+1)*n/workers
 		w, ws := e, &local
@@ -136,7 +151,7 @@ func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSp
 			var scratch transport.Result
 			for i, x := range xs {
 				if err := ctx.Err(); err != nil {
-					errs[wk] = err
+					failed[wk] = err
 					return
 				}
 				switch spec.Variable {
@@ -147,7 +162,7 @@ func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSp
 					if w.feedX != nil {
 						mt, err := channelK(ws.Channel, true, w.feedX.DensityKgPerM3(w.feedM), w.feedX.ViscosityPaS(w.feedM), w.feedD)
 						if err != nil {
-							errs[wk] = err
+							failed[wk] = err
 							return
 						}
 						w.kFeed = mt.KMPerS
@@ -158,7 +173,7 @@ func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSp
 		}(wk)
 	}
 	wg.Wait()
-	for _, err := range errs {
+	for _, err := range failed {
 		if err != nil {
 			return nil, err
 		}

@@ -213,7 +213,20 @@
     wire();
     selectTab(state.prefs.tab || "ranking");
     if ("serviceWorker" in navigator && /^https?:$/.test(location.protocol) && !document.getElementById("ds-wasm")) {
-      navigator.serviceWorker.register("sw.js?v=" + encodeURIComponent(P.VERSION)).catch(() => { /* offline support is optional */ });
+      // The offline copy's state, on body data-offline: "ready" once this
+      // version's service worker is active (its files cached), "refused"
+      // when its install found files of another version.
+      const offline = (state, text) => { document.body.dataset.offline = state; $("offline-state").textContent = text; };
+      navigator.serviceWorker.onmessage = ev => {
+        const m = ev.data || {};
+        if (m.type === "offline-refused" && m.version === P.VERSION) offline("refused", " · no offline copy saved: " + m.reason);
+      };
+      navigator.serviceWorker.register("sw.js?v=" + encodeURIComponent(P.VERSION))
+        .then(() => navigator.serviceWorker.ready)
+        .then(reg => {
+          if (reg.active && new URL(reg.active.scriptURL).searchParams.get("v") === P.VERSION) offline("ready", " · works offline");
+        })
+        .catch(() => { /* offline support is optional */ });
     }
     const engine = new window.DrawsiftEngine();
     state.engine = engine;

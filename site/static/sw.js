@@ -3,6 +3,15 @@
 // up at once when online), the cache when the network fails. The engine
 // version comes from the registration URL (sw.js?v=VERSION) and names the
 // cache, so that each version keeps its own complete set of files.
+//
+// The cache holds only a set that matches its version: it is filled once,
+// at install, all files or none, after checking that the page declares
+// VERSION (its drawsift-engine-version meta) and that the engine's wasm
+// carries the same version (the mark wasm/page builds into it). A server
+// that answers with another build (a deploy in progress, a proxy's stale
+// copy) fails the install, so the set already cached stays whole, and
+// the open pages are told why (message "offline-refused"). Answers fetched
+// later are never written to the cache.
 "use strict";
 
 const VERSION = new URL(self.location.href).searchParams.get("v") || "dev";
@@ -13,8 +22,63 @@ const FILES = ["./", "app.css", "charts.js", "store.js", "engine.js", "core.js",
   "mixtures.js", "fit.js", "report.js", "files.js", "app.js", "worker.js", "wasm_exec.js", "drawsift.wasm?v=" + encodeURIComponent(VERSION), "icon.svg",
   "manifest.webmanifest", "demo.json"];
 
+// The engine's version mark in its wasm: "<drawsift-engine-version:" +
+// version + ">" (wasm/page/main.go).
+const MARK = "<drawsift-engine-version:";
+
+// wasmVersion finds the version mark in the wasm's bytes ("" if none).
+function wasmVersion(bytes) {
+  const mark = new TextEncoder().encode(MARK);
+  for (let i = bytes.indexOf(mark[0]); i >= 0; i = bytes.indexOf(mark[0], i + 1)) {
+    let j = 0;
+    while (j < mark.length && bytes[i + j] === mark[j]) j++;
+    if (j < mark.length) continue;
+    const end = bytes.indexOf(62 /* > */, i + j);
+    if (end > 0 && end - i - j <= 64) return new TextDecoder().decode(bytes.subarray(i + j, end));
+  }
+  return "";
+}
+
+// checked resolves with the answer for file f if it may be cached under
+// VERSION, else rejects saying why.
+async function checked(f, resp) {
+  if (!resp.ok) throw new Error(f + " answered " + resp.status);
+  let got = null;
+  if (f === "./") {
+    const m = /<meta name="drawsift-engine-version" content="([^"]*)">/.exec(await resp.clone().text());
+    got = m ? m[1] : "none";
+  } else if (f.startsWith("drawsift.wasm")) {
+    got = wasmVersion(new Uint8Array(await resp.clone().arrayBuffer())) || "none";
+  }
+  if (got !== null && got !== VERSION) {
+    throw new Error("the server sent " + (f === "./" ? "a page" : "an engine") + " of version " + got + ", not " + VERSION);
+  }
+  return resp;
+}
+
+// fill caches every file of FILES, or none.
+async function fill() {
+  const answers = await Promise.all(FILES.map(f => fetch(new Request(f, { cache: "no-cache" })).then(r => checked(f, r))));
+  const c = await caches.open(CACHE);
+  try {
+    await Promise.all(answers.map((r, i) => c.put(FILES[i], r)));
+  } catch (e) {
+    await caches.delete(CACHE);
+    throw e;
+  }
+}
+
+// tell posts a message to every window of this origin, controlled or not.
+async function tell(msg) {
+  const all = await self.clients.matchAll({ includeUncontrolled: true, type: "window" });
+  for (const c of all) c.postMessage(msg);
+}
+
 self.addEventListener("install", ev => {
-  ev.waitUntil(caches.open(CACHE).then(c => c.addAll(FILES)).then(() => self.skipWaiting()));
+  ev.waitUntil(fill().then(() => self.skipWaiting(), async err => {
+    await tell({ type: "offline-refused", version: VERSION, reason: String(err && err.message || err) });
+    throw err;
+  }));
 });
 
 self.addEventListener("activate", ev => {
@@ -30,14 +94,10 @@ self.addEventListener("fetch", ev => {
   // Navigations (any page URL, with or without a share-link fragment)
   // fall back to the cached page.
   const key = req.mode === "navigate" ? "./" : req;
+  // The network's answer goes to the page as it is, never into the cache
+  // (see the top of this file).
   ev.respondWith(
-    fetch(req).then(resp => {
-      if (resp.ok && resp.type === "basic") {
-        const copy = resp.clone();
-        caches.open(CACHE).then(c => c.put(key, copy));
-      }
-      return resp;
-    }).catch(() => caches.open(CACHE).then(c => c.match(key, { ignoreSearch: req.mode === "navigate" }))
+    fetch(req).catch(() => caches.open(CACHE).then(c => c.match(key, { ignoreSearch: req.mode === "navigate" }))
       .then(hit => hit || Response.error()))
   );
 });

@@ -105,6 +105,11 @@ func build(goBin string) (string, string) {
 	if out, err := build.CombinedOutput(); err != nil {
 		return dir, fmt.Sprintf("building the edge wasm: %v\n%s", err, out)
 	}
+	// The generated runtime (the platform's module loader) is kept for
+	// the platform's own runtime (workerd_test.go); Node gets its shim.
+	if err := os.Rename(filepath.Join(dir, "runtime.mjs"), filepath.Join(dir, platformRuntime)); err != nil {
+		return dir, err.Error()
+	}
 	rt, err := os.ReadFile(filepath.Join("node", "runtime.mjs"))
 	if err != nil {
 		return dir, err.Error()

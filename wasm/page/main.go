@@ -30,9 +30,19 @@ import (
 	"drawsift/engine/api"
 )
 
+// versionMark is the engine version as the page's service worker reads it
+// from the wasm's bytes before caching them (site/static/sw.js): a
+// constant, so the linker stores it verbatim in the binary's data.
+// The version the worker reports is read out of it, so the mark is the one
+// copy of the version in the binary and cannot be dropped as unused.
+const (
+	markPrefix  = "<drawsift-engine-version:"
+	versionMark = markPrefix + api.EngineVersion + ">"
+)
+
 func main() {
 	g := js.Global()
-	g.Set("drawsiftEngineVersion", api.EngineVersion)
+	g.Set("drawsiftEngineVersion", versionMark[len(markPrefix):len(versionMark)-1])
 	g.Set("drawsiftCall", js.FuncOf(call))
 	g.Set("drawsiftCancel", js.FuncOf(cancel))
 	if ready := g.Get("drawsiftReady"); ready.Type() == js.TypeFunction {

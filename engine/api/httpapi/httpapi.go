@@ -22,9 +22,23 @@
 // internal error (500) also carries it in the body so that a user can quote
 // it, while the details go only to Options.Logf.
 //
-// The handler keeps no state between requests: everything it holds is the
-// read-only configuration given to New. It imports only the standard
-// library and engine/api, so it compiles for js/wasm.
+// Every request runs under a deadline (Options.Timeout): past it the
+// engine stops at its next check and the answer is a 504 error object on
+// field "deadline" stating the limit. The operations whose cost grows with
+// the request — screen (robustness runs and sweeps included) and batch —
+// are admitted through a fixed number of slots (Options.MaxHeavy; by
+// default one per core but one, the heavy requests sharing those cores and
+// the last kept for the cheap ones) with a short, bounded queue; when both
+// are full the
+// answer is a 503 error object with Retry-After. The cheap operations
+// (health, defaults, solutes, presets, osmotic, flux) never wait for a
+// slot, so they stay responsive while heavy work runs. A batch is written
+// as it is computed (api.BatchStream): its memory is one answer, not the
+// batch.
+//
+// Beyond the admission slots, the handler keeps no state between
+// requests. It imports only the standard library and engine/api, so it
+// compiles for js/wasm.
 package httpapi
 
 import (
@@ -38,9 +52,11 @@ import (
 	"io"
 	"mime"
 	"net/http"
+	"runtime"
 	"runtime/debug"
 	"strconv"
 	"strings"
+	"time"
 
 	"drawsift/engine/api"
 )
@@ -48,6 +64,21 @@ import (
 // DefaultMaxBodyBytes caps a request body (1 MiB): a screen scenario is a
 // few kilobytes; a client splits a large sweep into many requests.
 const DefaultMaxBodyBytes = 1 << 20
+
+// Admission defaults (see Options).
+const (
+	// DefaultTimeout: a robustness run at the work budget takes a few
+	// seconds on one core; a minute leaves room on a busy machine.
+	DefaultTimeout = time.Minute
+	// DefaultHeavyQueue waiters per slot: enough that a few dozen
+	// clients each with a screen in flight (a batch client sends 4 at a
+	// time) wait their turn rather than being refused, few enough that a
+	// flood is refused at once and the bodies held waiting stay bounded
+	// (each ≤ MaxBodyBytes).
+	DefaultHeavyQueue = 32
+	// DefaultQueueWait bounds the wait for a slot.
+	DefaultQueueWait = 10 * time.Second
+)
 
 // RequestIDHeader names the header that carries the request id both ways:
 // a client may send its own (see validRequestID), else one is generated.
@@ -65,6 +96,20 @@ type Options struct {
 	// Logf receives the details of internal errors, tagged with the
 	// request id. Nil discards them.
 	Logf func(format string, args ...any)
+	// Timeout is each request's deadline, from the end of its body to
+	// its answer; 0 means DefaultTimeout, < 0 no deadline.
+	Timeout time.Duration
+	// MaxHeavy is the number of heavy requests (screen, batch, fit) computed
+	// at once; ≤ 0 means DefaultMaxHeavy(). Together they use at most
+	// heavyCores() cores (each request's robustness run gets its share),
+	// so one core is always left for the cheap requests.
+	MaxHeavy int
+	// HeavyQueue is how many more heavy requests may wait for a slot;
+	// 0 means DefaultHeavyQueue × MaxHeavy, < 0 none (answer 503 at once).
+	HeavyQueue int
+	// QueueWait is the longest a heavy request waits for a slot before
+	// the 503; ≤ 0 means DefaultQueueWait.
+	QueueWait time.Duration
 
 	// dispatch replaces api.Dispatch in this package's tests.
 	dispatch func(ctx context.Context, op string, body []byte) ([]byte, *api.Error)
@@ -107,6 +152,7 @@ const (
 	kindMethod    = "method"    // 405
 	kindTooLarge  = "too-large" // 413
 	kindMediaType = "media"     // 415
+	kindBusy      = "busy"      // 503, with Retry-After
 )
 
 // statusOf maps every error kind to its HTTP status: the one place where
@@ -118,6 +164,8 @@ var statusOf = map[string]int{
 	kindMethod:       http.StatusMethodNotAllowed,
 	kindTooLarge:     http.StatusRequestEntityTooLarge,
 	kindMediaType:    http.StatusUnsupportedMediaType,
+	kindBusy:         http.StatusServiceUnavailable,
+	api.KindTimeout:  http.StatusGatewayTimeout,
 }
 
 // status returns the HTTP status of an error kind; an unknown kind is a
@@ -137,7 +185,25 @@ type handler struct {
 	anyOrig  bool
 	logf     func(format string, args ...any)
 	dispatch func(ctx context.Context, op string, body []byte) ([]byte, *api.Error)
+	// batch streams a batch answer (api.BatchStream); nil when dispatch
+	// is replaced, and then batches go through dispatch.
+	batch   func(ctx context.Context, body []byte, w io.Writer) (bool, *api.Error)
+	timeout time.Duration
+	heavy   *admission
+	cores   int // per heavy request
 }
+
+// heavyCores is how many cores the heavy requests share: all but one,
+// which stays free for the cheap requests (one on a single core).
+func heavyCores() int { return max(1, runtime.GOMAXPROCS(0)-1) }
+
+// DefaultMaxHeavy is the default number of heavy slots: one per core the
+// heavy requests share, each request's robustness run then on one core.
+func DefaultMaxHeavy() int { return heavyCores() }
+
+// heavyOps are the operations admitted through the slots: their cost
+// grows with the request (candidates × samples, sweep points, items).
+var heavyOps = map[string]bool{api.OpScreen: true, api.OpBatch: true, api.OpFit: true}
 
 // New returns the API handler. It serves the paths in the route table
 // (mount it at "/v1/" or at the root) and answers every other path with a
@@ -157,7 +223,33 @@ func New(opts Options) http.Handler {
 	}
 	if h.dispatch == nil {
 		h.dispatch = api.Dispatch
+		h.batch = func(ctx context.Context, body []byte, w io.Writer) (bool, *api.Error) {
+			return api.BatchStream(ctx, body, w, nil)
+		}
 	}
+	switch {
+	case opts.Timeout == 0:
+		h.timeout = DefaultTimeout
+	case opts.Timeout > 0:
+		h.timeout = opts.Timeout
+	}
+	slots := opts.MaxHeavy
+	if slots <= 0 {
+		slots = DefaultMaxHeavy()
+	}
+	h.cores = max(1, heavyCores()/slots)
+	queue := opts.HeavyQueue
+	switch {
+	case queue == 0:
+		queue = DefaultHeavyQueue * slots
+	case queue < 0:
+		queue = 0
+	}
+	wait := opts.QueueWait
+	if wait <= 0 {
+		wait = DefaultQueueWait
+	}
+	h.heavy = newAdmission(slots, queue, wait)
 	for _, o := range opts.CORSOrigins {
 		o = strings.TrimRight(strings.TrimSpace(o), "/")
 		switch o {
@@ -216,26 +308,172 @@ func (h *handler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 			return
 		}
 	}
-	out, e := h.dispatch(r.Context(), rt.op, body)
+	ctx := r.Context()
+	if h.timeout > 0 {
+		var cancel context.CancelFunc
+		ctx, cancel = withDeadline(ctx, h.timeout)
+		defer cancel()
+	}
+	if heavyOps[rt.op] {
+		release, e := h.heavy.acquire(ctx)
+		if e != nil {
+			if e.Kind == kindBusy {
+				w.Header().Set("Retry-After", strconv.Itoa(h.heavy.retryAfter()))
+			}
+			h.writeError(w, id, h.timed(e))
+			return
+		}
+		defer release()
+		ctx = api.WithCores(ctx, h.cores)
+	}
+	if rt.op == api.OpBatch && h.batch != nil {
+		h.streamBatch(ctx, w, id, body)
+		return
+	}
+	out, e := h.dispatch(ctx, rt.op, body)
 	if e != nil {
 		if e.Kind == api.KindInternal {
 			h.logf("request %s: %s: internal error: %s", id, rt.op, e.Detail())
 		}
-		h.writeError(w, id, e)
+		h.writeError(w, id, h.timed(e))
 		return
 	}
 	writeJSON(w, http.StatusOK, out)
 }
 
+// streamBatch writes a batch's answer as it is computed. An error before
+// the first answer gets its own status; after it, the array is completed
+// (items past the deadline answer ok false with the deadline error).
+func (h *handler) streamBatch(ctx context.Context, w http.ResponseWriter, id string, body []byte) {
+	sw := &startWriter{w: w}
+	started, e := h.batch(ctx, body, sw)
+	if e != nil && !started {
+		h.writeError(w, id, h.timed(e))
+		return
+	}
+	if e != nil {
+		h.logf("request %s: batch: %s", id, e.Message)
+		return
+	}
+	w.Write([]byte{'\n'}) // every JSON answer ends with a newline
+}
+
+// startWriter sends the 200 headers with the first bytes of a streamed
+// answer.
+type startWriter struct {
+	w       http.ResponseWriter
+	started bool
+}
+
+func (s *startWriter) Write(p []byte) (int, error) {
+	if !s.started {
+		s.started = true
+		hd := s.w.Header()
+		hd.Set("Content-Type", "application/json")
+		hd.Set("X-Content-Type-Options", "nosniff")
+		hd.Set("Cache-Control", "no-store")
+		s.w.WriteHeader(http.StatusOK)
+	}
+	return s.w.Write(p)
+}
+
+// clockCtx reads its deadline from the clock. Under js/wasm (the edge
+// build) a context's timer fires only when the running goroutine yields,
+// which a CPU-bound engine loop does not: without the clock, a sweep ran
+// on past its deadline (seen in the platform's runtime). The engine's
+// ctx.Err() checks therefore compare the time. See withDeadline.
+type clockCtx struct {
+	context.Context
+	deadline time.Time
+}
+
+func (c clockCtx) Deadline() (time.Time, bool) { return c.deadline, true }
+
+func (c clockCtx) Err() error {
+	if err := c.Context.Err(); err != nil {
+		return err
+	}
+	if !time.Now().Before(c.deadline) {
+		return context.DeadlineExceeded
+	}
+	return nil
+}
+
+// timed states the deadline in a timeout error.
+func (h *handler) timed(e *api.Error) *api.Error {
+	if e.Kind != api.KindTimeout || h.timeout <= 0 {
+		return e
+	}
+	c := *e
+	c.Limit = h.timeout.String()
+	c.Message = fmt.Sprintf("the request did not finish within the server's deadline of %s; ask for less work (fewer uncertainty.samples, sweep.points, candidates or batch items)", h.timeout)
+	return &c
+}
+
+// admission bounds the heavy requests: slots computing at once, and a
+// queue of waiters that each wait at most wait for a slot.
+type admission struct {
+	slots   chan struct{}
+	waiters chan struct{}
+	wait    time.Duration
+}
+
+func newAdmission(slots, queue int, wait time.Duration) *admission {
+	return &admission{slots: make(chan struct{}, slots), waiters: make(chan struct{}, queue), wait: wait}
+}
+
+// acquire takes a slot, waiting in the queue if there is room in it; it
+// returns the release function, or the busy error (or the ctx's).
+func (a *admission) acquire(ctx context.Context) (func(), *api.Error) {
+	release := func() { <-a.slots }
+	select {
+	case a.slots <- struct{}{}:
+		return release, nil
+	default:
+	}
+	select {
+	case a.waiters <- struct{}{}:
+	default:
+		return nil, a.busy()
+	}
+	defer func() { <-a.waiters }()
+	t := time.NewTimer(a.wait)
+	defer t.Stop()
+	select {
+	case a.slots <- struct{}{}:
+		return release, nil
+	case <-t.C:
+		return nil, a.busy()
+	case <-ctx.Done():
+		if errors.Is(ctx.Err(), context.DeadlineExceeded) {
+			return nil, &api.Error{Field: "deadline", Kind: api.KindTimeout, Message: "the deadline passed while waiting for a slot"}
+		}
+		return nil, &api.Error{Field: "", Message: "cancelled while waiting for a slot", Kind: api.KindInvalid}
+	}
+}
+
+func (a *admission) busy() *api.Error {
+	return &api.Error{Field: "server", Limit: cap(a.slots), Kind: kindBusy,
+		Message: fmt.Sprintf("the server is computing its %d screens and batches at once and %d more are waiting; retry after %d s",
+			cap(a.slots), cap(a.waiters), a.retryAfter())}
+}
+
+// retryAfter is the Retry-After of a busy answer, in whole seconds.
+func (a *admission) retryAfter() int { return 1 }
+
 // readBody reads the request body up to the cap.
 func (h *handler) readBody(w http.ResponseWriter, r *http.Request) ([]byte, *api.Error) {
 	tooLarge := &api.Error{Field: "body", Limit: h.maxBody, Kind: kindTooLarge,
 		Message: fmt.Sprintf("request body larger than %d bytes; split a large sweep into several requests", h.maxBody)}
-	if r.ContentLength > h.maxBody {
-		return nil, tooLarge
-	}
 	if r.Body == nil {
+		if r.ContentLength > h.maxBody {
+			return nil, tooLarge
+		}
 		return nil, nil
+	}
+	if r.ContentLength > h.maxBody {
+		h.drain(w, r, r.ContentLength)
+		return nil, tooLarge
 	}
 	// Read one byte past the cap to tell "exactly at the cap" from "over".
 	b, err := io.ReadAll(io.LimitReader(r.Body, h.maxBody+1))
@@ -247,9 +485,31 @@ func (h *handler) readBody(w http.ResponseWriter, r *http.Request) ([]byte, *api
 		return nil, &api.Error{Field: "body", Message: "reading the request body: " + err.Error(), Kind: api.KindInvalid}
 	}
 	if int64(len(b)) > h.maxBody {
+		h.drain(w, r, -1)
 		return nil, tooLarge
 	}
 	return b, nil
+}
+
+// drainFactor × the body cap is the most of an oversized body read and
+// discarded so that the connection can carry the client's next request.
+const drainFactor = 4
+
+// drain reads what is left of an oversized body (n bytes declared, or
+// -1 unknown) when it is at most drainFactor × the cap: the edge
+// platform's runtime closes a connection whose request body was not read
+// to its end without saying so, and a client that reused it got EOF on
+// its next request. A larger body is left unread, and the answer says
+// "Connection: close".
+func (h *handler) drain(w http.ResponseWriter, r *http.Request, n int64) {
+	limit := drainFactor * h.maxBody
+	if n <= limit {
+		m, _ := io.Copy(io.Discard, io.LimitReader(r.Body, limit+1))
+		if m <= limit {
+			return // read to its end
+		}
+	}
+	w.Header().Set("Connection", "close")
 }
 
 // checkContentType accepts application/json (or a +json type) in UTF-8.
