@@ -294,15 +294,17 @@
   // parity draws measured (x) against fitted (y) points [{x, y, color}]
   // with the line y = x; series [{name, color}] name the legend.
   function parity(o) {
+    const L = withLegend(o, o.series.map(s => ({ name: s.name, color: s.color, marker: true })).concat([{ name: "fitted = measured", color: MUTED, dash: "5 3" }]));
+    o = L.o;
     const svg = root(o);
     const vals = [];
     for (const p of o.points) vals.push(p.x, p.y);
     const r = extent(vals, true);
-    const f = frame(svg, o, r, r);
+    const f = frame(svg, o, r, r, L.lg);
     const lo = Math.max(f.xt.lo, f.yt.lo), hi = Math.min(f.xt.hi, f.yt.hi);
     el("line", { x1: f.sx(lo), y1: f.sy(lo), x2: f.sx(hi), y2: f.sy(hi), stroke: MUTED, "stroke-width": 1.2, "stroke-dasharray": "5 3" }, svg);
     for (const p of o.points) if (isFinite(p.x) && isFinite(p.y)) el("circle", { cx: f.sx(p.x), cy: f.sy(p.y), r: 4.5, fill: p.color || PALETTE[0] }, svg);
-    legend(svg, f, o.series.map(s => ({ name: s.name, color: s.color, marker: true })).concat([{ name: "fitted = measured", color: MUTED, dash: "5 3" }]));
+    legend(svg, f, L.lg);
     return svg;
   }
 
