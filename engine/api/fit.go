@@ -117,7 +117,7 @@ type FitResponse struct {
 
 var fitSources = []Source{
 	{Field: "fit", Reference: "Tiraferri, Yip, Straub, Castrillón & Elimelech (2013) J. Membr. Sci. 444:523 (A, B and S fitted together from FO water and reverse solute fluxes)"},
-	{Field: "fit.minimiser", Reference: "Levenberg–Marquardt with Marquardt's scaling (Moré 1978, Lecture Notes in Mathematics 630) in ln A, ln B, ln S"},
+	{Field: "fit.minimiser", Reference: "Levenberg–Marquardt with Marquardt's scaling (Moré 1978, Numerical Analysis, Springer LNM 630) in ln A, ln B, ln S"},
 	{Field: "fit.start", Reference: "Phillip, Yong & Elimelech (2010) Environ. Sci. Technol. 44:5170 (Js/Jw = B/(A·ν·R·T)) for the starting B"},
 	{Field: "fit.intervals", Reference: "Bates & Watts (1988) Nonlinear Regression Analysis and Its Applications, ch. 2 (linearised covariance, t intervals)"},
 	{Field: "fit.bootstrap", Reference: "Efron & Tibshirani (1993) An Introduction to the Bootstrap, §9.5 (resampling residuals)"},

@@ -16,7 +16,7 @@
 // The parameters travel as ln p (positive by construction) inside the
 // engine's ranges for A, B and S; the minimiser is Levenberg–Marquardt
 // with Marquardt's diagonal scaling (Moré 1978, "The Levenberg–Marquardt
-// algorithm: implementation and theory", Lecture Notes in Mathematics
+// algorithm: implementation and theory", in Numerical Analysis, Springer LNM
 // 630) and a projected step at the bounds, started from the best points
 // of a grid over A and S with B from the specific reverse solute flux
 // (Js/Jw = B/(A·ν·R·T), Phillip, Yong & Elimelech 2010, Environ. Sci.
