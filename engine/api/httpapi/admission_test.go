@@ -106,7 +106,7 @@ func TestHeavyQueueWaitsForASlot(t *testing.T) {
 // hook waits for the deadline (the event), then runs the real engine.
 func TestDeadlineAnswers504(t *testing.T) {
 	h := New(Options{Timeout: 50 * time.Millisecond, dispatch: func(ctx context.Context, op string, body []byte) ([]byte, *api.Error) {
-		<-ctx.Done()
+		awaitDeadline(ctx)
 		return api.Dispatch(ctx, op, body)
 	}})
 	scenario := `{"uncertainty":{"samples":1000}}` // the whole library with robustness
@@ -117,6 +117,21 @@ func TestDeadlineAnswers504(t *testing.T) {
 	sweep := `{"candidates":["NaCl"],"sweep":{"variable":"concentration","from":0.1,"to":2,"points":50,"unit":"mol/L"}}`
 	mustError(t, post(h, "/v1/screen", sweep), http.StatusGatewayTimeout, "deadline")
 	mustError(t, post(h, "/v1/batch", `[{"op":"osmotic","body":`+osmoticNaCl+`}]`), http.StatusGatewayTimeout, "deadline")
+}
+
+// awaitDeadline returns once ctx's deadline has passed. Natively the
+// context's timer closes Done; under js/wasm the request context has no
+// timer (deadline_js.go: its Err reads the clock), so Done is nil and the
+// wait sleeps until the stated deadline, then until Err reports it.
+func awaitDeadline(ctx context.Context) {
+	if done := ctx.Done(); done != nil {
+		<-done
+		return
+	}
+	dl, _ := ctx.Deadline()
+	for ctx.Err() == nil {
+		time.Sleep(time.Until(dl) + time.Millisecond)
+	}
 }
 
 // TestBatchStreamedAsDispatched: the streamed batch answer is byte for
