@@ -321,15 +321,27 @@ func (t *Transport) Fill(dst []transport.Species, ori transport.Orientation, cDr
 		default:
 			s.DM2PerS = dDraw
 		}
-		if in.Role == RoleBoth {
-			sh := s.DrawBulkMolPerM3 / (s.DrawBulkMolPerM3 + s.FeedBulkMolPerM3)
-			if !(sh >= 0 && sh <= 1) {
-				sh = 0.5
-			}
-			t.Rule.SetShare(0, i, sh)
-			t.Rule.SetShare(t.feedGroup, i, 1-sh)
-		}
 		dst[i] = s
+	}
+	t.SetShares(dst)
+}
+
+// SetShares sets the face-π rule's shares of every species in both
+// streams from the bulk concentrations in sp (len(t.Info) entries): the
+// draw's share is its bulk's part of the two. Fill calls it; a caller
+// that changes the bulks (a module along its area) calls it again.
+func (t *Transport) SetShares(sp []transport.Species) {
+	for i := range t.Info {
+		if t.Info[i].Role != RoleBoth {
+			continue
+		}
+		d, f := sp[i].DrawBulkMolPerM3, sp[i].FeedBulkMolPerM3
+		sh := d / (d + f)
+		if !(sh >= 0 && sh <= 1) {
+			sh = 0.5
+		}
+		t.Rule.SetShare(0, i, sh)
+		t.Rule.SetShare(t.feedGroup, i, 1-sh)
 	}
 }
 
