@@ -36,10 +36,12 @@ const (
 	OpBatch = "batch"
 	// OpFit fits a membrane's A, B and S to measured fluxes.
 	OpFit = "fit"
+	// OpModule rates or designs a module (plug flow along the area).
+	OpModule = "module"
 )
 
 // Operations lists every operation Dispatch runs.
-var Operations = []string{OpOsmotic, OpFlux, OpScreen, OpSolutes, OpPresets, OpDefaults, OpBatch, OpFit, OpHealth}
+var Operations = []string{OpOsmotic, OpFlux, OpScreen, OpSolutes, OpPresets, OpDefaults, OpBatch, OpFit, OpModule, OpHealth}
 
 // Error kinds, mapped to HTTP statuses by the hosts.
 const (
@@ -134,6 +136,11 @@ func DispatchProgress(ctx context.Context, op string, body []byte, progress func
 		}
 	case OpFit:
 		resp, e = fitOp(ctx, body, progress)
+	case OpModule:
+		var req ModuleRequest
+		if e = decode(body, &req); e == nil {
+			resp, e = Module(ctx, &req)
+		}
 	case OpHealth:
 		resp = Health{Status: "ok", EngineVersion: EngineVersion, JSON: jsonx.Library}
 	default:

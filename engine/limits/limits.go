@@ -128,6 +128,15 @@ func (r *Range) Or(p *float64) (float64, error) {
 	return *p, r.Check(*p)
 }
 
+// Required returns *p checked against the range, or an error naming the
+// field when the value is missing.
+func (r *Range) Required(p *float64) (float64, error) {
+	if p == nil {
+		return 0, errs.InvalidText(r.Field, "", r.Text(), "%s is required (%s)", r.Field, r.Text())
+	}
+	return *p, r.Check(*p)
+}
+
 // num prints a bound the way people write it: 1e-8, not 1e-08.
 func num(v float64) string {
 	if math.IsInf(v, 0) || math.IsNaN(v) {
@@ -285,6 +294,19 @@ var (
 	FitConfidence      = Range{Field: "confidence", Min: 0.5, Max: 0.999, Default: 0.95, HasDefault: true, Why: "the confidence level of the intervals"}
 	FitBootstrapSample = Range{Field: "bootstrap.samples", Min: 10, Max: 10000, Integer: true, Default: 1000, HasDefault: true, Why: "resamples; the work budget also caps samples × measured fluxes"}
 
+	// Module (engine/module): the streams' inflows, the area or the
+	// design target, the channels' pressure drops, the profile and the
+	// integrator's tolerance.
+	ModuleDrawFlow  = Range{Field: "draw.flow_l_per_h", Unit: "L/h", Min: 0, MinOpen: true, Max: 1e9, Why: "a stream's inflow: positive; 10⁹ L/h is past the largest desalination plant (unit-slip guard)"}
+	ModuleFeedFlow  = Range{Field: "feed.flow_l_per_h", Unit: "L/h", Min: 0, MinOpen: true, Max: 1e9, Why: "a stream's inflow: positive; 10⁹ L/h is past the largest desalination plant (unit-slip guard)"}
+	ModuleArea      = Range{Field: "area_m2", Unit: "m²", Min: 0, MinOpen: true, Max: 1e6, Why: "membrane area: positive; 10⁶ m² is past any FO train (unit-slip guard)"}
+	ModuleRecovery  = Range{Field: "target.recovery", Min: 0, MinOpen: true, Max: 1, MaxOpen: true, Why: "permeate over feed inflow: a fraction; the osmotic-equilibrium cap lowers the top"}
+	ModulePermeate  = Range{Field: "target.permeate_l_per_h", Unit: "L/h", Min: 0, MinOpen: true, Max: 1e9, Why: "positive, and below the feed's inflow times the recovery cap"}
+	ModuleDrawDrop  = Range{Field: "draw_pressure_drop_bar_per_m2", Unit: "bar/m²", Min: 0, Max: 10, Default: 0, HasDefault: true, Why: "a channel's pressure loss per m² of membrane; spiral-wound elements lose well under 0.1 bar/m² (common practice)"}
+	ModuleFeedDrop  = Range{Field: "feed_pressure_drop_bar_per_m2", Unit: "bar/m²", Min: 0, Max: 10, Default: 0, HasDefault: true, Why: "a channel's pressure loss per m² of membrane; spiral-wound elements lose well under 0.1 bar/m² (common practice)"}
+	ModulePoints    = Range{Field: "profile_points", Min: 2, Max: 1001, Integer: true, Default: 41, HasDefault: true, Why: "points of the profiles along the area; bounds the response"}
+	ModuleTolerance = Range{Field: "tolerance", Min: 1e-12, Max: 1e-4, Default: 1e-9, HasDefault: true, Why: "relative tolerance of the module's integrator (Dormand–Prince 5(4) error control)"}
+
 	// Lists a request may give: each bounded so that the work and the
 	// memory of resolving a request stay bounded whatever its length (our
 	// own choices, far above any real scenario's).
@@ -352,6 +374,7 @@ func Ranges() []*Range {
 		&Concentration, &SweepPoints, &CustomMolarMass, &CustomDiffusivity, &CustomVantHoff, &CustomSolubility, &CustomPrice, &PiTablePoints,
 		&HazardFlagCount, &ExcludeHazardCount, &CustomIonCharge, &CustomIonCount, &CustomIonEntries,
 		&FitRows, &FitWaterFlux, &FitReverseFlux, &FitWaterFluxSD, &FitReverseFluxSD, &FitRelError, &FitAbsWaterFlux, &FitAbsReverseFlux, &FitConfidence, &FitBootstrapSample,
+		&ModuleDrawFlow, &ModuleFeedFlow, &ModuleArea, &ModuleRecovery, &ModulePermeate, &ModuleDrawDrop, &ModuleFeedDrop, &ModulePoints, &ModuleTolerance,
 		&CustomSoluteCount, &CandidateCount, &OrientationCount, &ParetoCount, &FeedIonCount, &MixtureParts, &BlendParts,
 	}
 }
