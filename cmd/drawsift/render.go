@@ -27,6 +27,8 @@ func render(w io.Writer, op, format string, resp []byte) error {
 			return renderScreen(w, format, resp)
 		case "osmotic":
 			return renderOsmotic(w, format, resp)
+		case "module":
+			return renderModule(w, format, resp)
 		}
 		kv, err := flatten(resp)
 		if err != nil {

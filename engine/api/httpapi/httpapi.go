@@ -14,6 +14,7 @@
 //	GET  /v1/defaults  the engine's defaults and limits
 //	POST /v1/batch     many osmotic and flux requests in one call
 //	POST /v1/fit       fit a membrane's A, B and S to measured fluxes
+//	POST /v1/module    rate or design a module (plug flow along the area)
 //	GET  /v1/health    status and engine version
 //
 // Every failure is the contract's error object,
@@ -133,6 +134,7 @@ var routes = []route{
 	{"/v1/" + api.OpDefaults, http.MethodGet, api.OpDefaults},
 	{"/v1/" + api.OpBatch, http.MethodPost, api.OpBatch},
 	{"/v1/" + api.OpFit, http.MethodPost, api.OpFit},
+	{"/v1/" + api.OpModule, http.MethodPost, api.OpModule},
 	{"/v1/" + api.OpHealth, http.MethodGet, api.OpHealth},
 }
 
@@ -203,7 +205,7 @@ func DefaultMaxHeavy() int { return heavyCores() }
 
 // heavyOps are the operations admitted through the slots: their cost
 // grows with the request (candidates × samples, sweep points, items).
-var heavyOps = map[string]bool{api.OpScreen: true, api.OpBatch: true, api.OpFit: true}
+var heavyOps = map[string]bool{api.OpScreen: true, api.OpBatch: true, api.OpFit: true, api.OpModule: true}
 
 // New returns the API handler. It serves the paths in the route table
 // (mount it at "/v1/" or at the root) and answers every other path with a

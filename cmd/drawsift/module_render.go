@@ -1,0 +1,81 @@
+package main
+
+import (
+	"encoding/csv"
+	"encoding/json"
+	"fmt"
+	"io"
+	"strconv"
+	"text/tabwriter"
+
+	"drawsift/engine/api"
+)
+
+// moduleColumns are the profile columns of the module's table and CSV.
+var moduleColumns = []string{"area_m2", "draw_flow_l_per_h", "feed_flow_l_per_h", "draw_concentration_mol_per_l", "feed_concentration_mol_per_l",
+	"draw_osmotic_pressure_bar", "feed_osmotic_pressure_bar", "water_flux_lmh", "delta_p_bar"}
+
+// renderModule writes a module response: for "csv" the profiles, one row
+// per point along the area; for "table" the summary, the outlets, the
+// profiles and the warnings and cautions as aligned text.
+func renderModule(w io.Writer, format string, resp []byte) error {
+	var r api.ModuleResponse
+	if err := json.Unmarshal(resp, &r); err != nil {
+		return err
+	}
+	p := &r.Profiles
+	cols := [][]float64{p.AreaM2, p.DrawFlowLPerH, p.FeedFlowLPerH, p.DrawConcentrationMolPerL, p.FeedConcentrationMolPerL,
+		p.DrawOsmoticPressureBar, p.FeedOsmoticPressureBar, p.WaterFluxLMH, p.DeltaPBar}
+	if format == "csv" {
+		cw := csv.NewWriter(w)
+		cw.Write(moduleColumns)
+		for i := range p.AreaM2 {
+			row := make([]string, len(cols))
+			for j, c := range cols {
+				row[j] = strconv.FormatFloat(c[i], 'g', 10, 64)
+			}
+			cw.Write(row)
+		}
+		cw.Flush()
+		return cw.Error()
+	}
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintf(tw, "%s module (%s, %s)\n", r.Flow, r.Mode, r.Orientation)
+	fmt.Fprintf(tw, "area\t%.4g m²\n", r.AreaM2)
+	fmt.Fprintf(tw, "permeate\t%.4g L/h\n", r.PermeateLPerH)
+	fmt.Fprintf(tw, "recovery\t%.4g (cap %.4g, %s pinch)\n", r.Recovery, r.RecoveryCap, r.RecoveryCapPinch)
+	fmt.Fprintf(tw, "average water flux\t%.4g LMH\n", r.AverageWaterFluxLMH)
+	fmt.Fprintf(tw, "draw solute lost\t%.4g mol/h (%.4g g/h, %.4g g per L of permeate)\n", r.ReverseSoluteMolPerH, r.ReverseSoluteGPerH, r.DrawLossGPerLPermeate)
+	fmt.Fprintln(tw, "\nstream\tflow (L/h)\tconcentration (mol/L)\tπ (bar)")
+	for _, s := range []struct {
+		name string
+		s    api.ModuleStreamReport
+	}{{"draw in", r.DrawIn}, {"draw out", r.DrawOut}, {"feed in", r.FeedIn}, {"feed out", r.FeedOut}} {
+		fmt.Fprintf(tw, "%s\t%.5g\t%.5g\t%.4g\n", s.name, s.s.FlowLPerH, s.s.ConcentrationMolPerL, s.s.OsmoticPressureBar)
+	}
+	fmt.Fprintln(tw)
+	for j, c := range moduleColumns {
+		if j > 0 {
+			fmt.Fprint(tw, "\t")
+		}
+		fmt.Fprint(tw, c)
+	}
+	fmt.Fprintln(tw)
+	for i := range p.AreaM2 {
+		for j, c := range cols {
+			if j > 0 {
+				fmt.Fprint(tw, "\t")
+			}
+			fmt.Fprintf(tw, "%.5g", c[i])
+		}
+		fmt.Fprintln(tw)
+	}
+	fmt.Fprintf(tw, "\nsolver\t%s, %d integrations, %d flux solves, boundary residual %.2g\n", r.Solver.Method, r.Solver.Integrations, r.Solver.FluxSolves, r.Solver.BoundaryResidual)
+	for _, s := range r.Warnings {
+		fmt.Fprintf(tw, "warning\t%s\n", plainText(s))
+	}
+	for _, s := range r.Cautions {
+		fmt.Fprintf(tw, "caution\t%s\n", plainText(s))
+	}
+	return tw.Flush()
+}

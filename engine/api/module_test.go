@@ -1,0 +1,87 @@
+package api
+
+import (
+	"context"
+	"strings"
+	"testing"
+
+	"drawsift/engine/internal/jsonx"
+)
+
+const moduleBase = `"membrane": {"preset": "tfc-standard"}, "orientation": "AL-FS", "draw": {"solute": "NaCl", "concentration": 1, "unit": "mol/L", "flow_l_per_h": 40}`
+
+// TestModuleSeawater: a counter-current module of NaCl against seawater
+// (the feed preset's ions, each its own species) balances every species,
+// reports the cap and draws less than the equilibrium allows; the designed
+// area for the rated recovery is the rated area.
+func TestModuleSeawater(t *testing.T) {
+	out, e := Dispatch(context.Background(), OpModule, []byte(`{`+moduleBase+`, "feed": {"preset": "seawater", "flow_l_per_h": 80}, "area_m2": 5}`))
+	if e != nil {
+		t.Fatal(e)
+	}
+	var r ModuleResponse
+	if err := jsonx.Unmarshal(out, &r); err != nil {
+		t.Fatal(err)
+	}
+	if r.Solver.WaterBalance > 1e-8 || r.Solver.SpeciesBalance > 1e-8 {
+		t.Errorf("balances: water %.2g, species %.2g", r.Solver.WaterBalance, r.Solver.SpeciesBalance)
+	}
+	if !(r.Recovery > 0 && r.Recovery < r.RecoveryCap && r.RecoveryCap < 1) {
+		t.Errorf("recovery %g, cap %g", r.Recovery, r.RecoveryCap)
+	}
+	if len(r.Profiles.AreaM2) != 41 || r.Profiles.AreaM2[40] != 5 || len(r.Profiles.Species) != len(r.Exchange) {
+		t.Errorf("profiles: %d points, last %g; %d species", len(r.Profiles.AreaM2), r.Profiles.AreaM2[len(r.Profiles.AreaM2)-1], len(r.Profiles.Species))
+	}
+	if !(r.ReverseSoluteMolPerH > 0) || !(r.ForwardSoluteGPerH > 0) {
+		t.Errorf("exchange: reverse %g mol/h, forward %g g/h", r.ReverseSoluteMolPerH, r.ForwardSoluteGPerH)
+	}
+	body := `{` + moduleBase + `, "feed": {"preset": "seawater", "flow_l_per_h": 80}, "target": {"recovery": ` + jsonNum(r.Recovery) + `}}`
+	out, e = Dispatch(context.Background(), OpModule, []byte(body))
+	if e != nil {
+		t.Fatal(e)
+	}
+	var d ModuleResponse
+	if err := jsonx.Unmarshal(out, &d); err != nil {
+		t.Fatal(err)
+	}
+	if d.Mode != "design" || d.AreaM2 < 5*(1-1e-5) || d.AreaM2 > 5*(1+1e-5) {
+		t.Errorf("design for recovery %g: %s %g m², want 5", r.Recovery, d.Mode, d.AreaM2)
+	}
+}
+
+func jsonNum(v float64) string {
+	b, _ := jsonx.Marshal(v)
+	return string(b)
+}
+
+// TestModuleBadInput: every bad module request is the contract's error
+// naming the field and its limit.
+func TestModuleBadInput(t *testing.T) {
+	feed := `"feed": {"preset": "seawater", "flow_l_per_h": 80}`
+	for _, tc := range []struct{ body, field, limit string }{
+		{`{` + moduleBase + `, ` + feed + `}`, "area_m2", ""},
+		{`{` + moduleBase + `, ` + feed + `, "area_m2": 0}`, "area_m2", "> 0"},
+		{`{` + moduleBase + `, ` + feed + `, "area_m2": -3}`, "area_m2", "> 0"},
+		{`{` + moduleBase + `, ` + feed + `, "area_m2": 1, "target": {"recovery": 0.2}}`, "target", ""},
+		{`{` + moduleBase + `, ` + feed + `, "target": {"recovery": 1.5}}`, "target.recovery", "< 1"},
+		{`{` + moduleBase + `, ` + feed + `, "target": {"recovery": 0.6}}`, "target.recovery", "cap"},
+		{`{` + moduleBase + `, ` + feed + `, "target": {}}`, "target", ""},
+		{`{` + moduleBase + `, "feed": {"preset": "seawater", "flow_l_per_h": 0}, "area_m2": 1}`, "feed.flow_l_per_h", "> 0"},
+		{`{` + moduleBase + `, "feed": {"preset": "seawater"}, "area_m2": 1}`, "feed.flow_l_per_h", "> 0"},
+		{`{` + moduleBase + `, "area_m2": 1}`, "feed", ""},
+		{`{` + moduleBase + `, ` + feed + `, "area_m2": 1, "flow": "sideways"}`, "flow", "counter"},
+		{`{"membrane": {"preset": "tfc-standard"}, "orientation": "AL-FS", "draw": {"solute": "NaCl", "concentration": 0.3, "unit": "mol/L", "flow_l_per_h": 40}, ` + feed + `, "area_m2": 1}`, "draw.concentration", "feed"},
+		{`{` + moduleBase + `, ` + feed + `, "area_m2": 1, "draw_pressure_drop_bar_per_m2": -1}`, "draw_pressure_drop_bar_per_m2", "0"},
+		{`{` + moduleBase + `, ` + feed + `, "area_m2": 1, "profile_points": 1}`, "profile_points", "2"},
+	} {
+		out, e := Dispatch(context.Background(), OpModule, []byte(tc.body))
+		if e == nil {
+			t.Errorf("%s: no error (%.200s)", tc.field, out)
+			continue
+		}
+		lim, _ := e.Limit.(string)
+		if e.Field != tc.field || !strings.Contains(lim, tc.limit) || e.Kind != KindInvalid {
+			t.Errorf("%s: got field %q limit %q (%s)", tc.field, e.Field, lim, e.Message)
+		}
+	}
+}
