@@ -137,10 +137,7 @@ func DispatchProgress(ctx context.Context, op string, body []byte, progress func
 	case OpFit:
 		resp, e = fitOp(ctx, body, progress)
 	case OpModule:
-		var req ModuleRequest
-		if e = decode(body, &req); e == nil {
-			resp, e = Module(ctx, &req)
-		}
+		resp, e = moduleOp(ctx, body)
 	case OpHealth:
 		resp = Health{Status: "ok", EngineVersion: EngineVersion, JSON: jsonx.Library}
 	default:
