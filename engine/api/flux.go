@@ -161,22 +161,10 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 	if err != nil {
 		return nil, fromEngine("", err)
 	}
-	in, draw, mem, deltaP := &f.Input, f.Draw, f.Membrane, f.DeltaPBar
+	in, draw, deltaP := &f.Input, f.Draw, f.DeltaPBar
 	resp := &FluxResponse{Orientation: in.Orientation.String(), OsmoticModel: f.Model.String(), TemperatureC: f.TemperatureK - thermo.ZeroCelsiusK,
 		DeltaPBar: deltaP, Cautions: ScreenCautions, EngineVersion: EngineVersion}
-	resp.Membrane = MembraneReport{ALMHPerBar: mem.AMPerSPa / thermo.MPerSPaPerLMHPerBar, BLMH: f.BDrawMPerS / thermo.MPerSPerLMH, SUM: mem.SM / thermo.MPerUM}
-	if mem.Record != nil {
-		resp.Membrane.Preset = mem.Record.ID
-	}
-	tm := mem.Temperature
-	resp.Membrane.ATemperatureFactor, resp.Membrane.BTemperatureFactor, resp.Membrane.TemperatureRule = tm.FactorA, tm.FactorB, tm.Rule
-	if tm.RefK > 0 {
-		refC := tm.RefK - thermo.ZeroCelsiusK
-		resp.Membrane.ReferenceTemperatureC = &refC
-	}
-	if f.BDrawEstimated {
-		resp.Membrane.BRule = library.BEstimateRule
-	}
+	resp.Membrane = membraneReport(f)
 	resp.KDraw, resp.KFeed = kReport(f.KDraw), kReport(f.KFeed)
 
 	// Outputs: the draw's loss is net over its species (a species the feed
@@ -241,19 +229,45 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 	}
 	resp.Solver = SolverReport{Method: res.Stats.Method, Iterations: res.Stats.Iterations, Evaluations: res.Stats.Evaluations, Residual: res.Stats.Residual}
 	resp.Warnings = warn.Strings(append(f.Warnings, f.ResultWarnings(&res)...))
-	resp.Sources = append(resp.Sources, fluxSources...)
-	if f.Model == scenario.Real {
-		resp.Sources = append(resp.Sources, modelSources[draw.Solute.Osmotic.Kind]...)
-	}
-	resp.Sources = append(resp.Sources, soluteSources(draw.Solute)...)
-	if r := mem.Record; r != nil {
-		resp.Sources = append(resp.Sources, sortedSources("membrane."+r.ID, r.Sources)...)
-	}
+	resp.Sources = fluxSourcesFor(f, resp.Sources)
 	if !finite(resp.WaterFluxLMH, resp.ReverseSoluteFluxGMH, resp.SpecificReverseSoluteFluxGPerL, resp.FluxEfficiency,
 		resp.DrawFaceOsmoticPressureBar, resp.FeedFaceOsmoticPressureBar) {
 		return nil, &Error{Message: "internal error: non-finite flux result", Kind: KindInternal}
 	}
 	return resp, nil
+}
+
+// membraneReport echoes a resolved flux problem's membrane.
+func membraneReport(f *scenario.Flux) MembraneReport {
+	mem := f.Membrane
+	r := MembraneReport{ALMHPerBar: mem.AMPerSPa / thermo.MPerSPaPerLMHPerBar, BLMH: f.BDrawMPerS / thermo.MPerSPerLMH, SUM: mem.SM / thermo.MPerUM}
+	if mem.Record != nil {
+		r.Preset = mem.Record.ID
+	}
+	tm := mem.Temperature
+	r.ATemperatureFactor, r.BTemperatureFactor, r.TemperatureRule = tm.FactorA, tm.FactorB, tm.Rule
+	if tm.RefK > 0 {
+		refC := tm.RefK - thermo.ZeroCelsiusK
+		r.ReferenceTemperatureC = &refC
+	}
+	if f.BDrawEstimated {
+		r.BRule = library.BEstimateRule
+	}
+	return r
+}
+
+// fluxSourcesFor appends to src the sources of a resolved flux problem:
+// the flux model, the draw's osmotic model and record, the membrane's.
+func fluxSourcesFor(f *scenario.Flux, src []Source) []Source {
+	src = append(src, fluxSources...)
+	if f.Model == scenario.Real {
+		src = append(src, modelSources[f.Draw.Solute.Osmotic.Kind]...)
+	}
+	src = append(src, soluteSources(f.Draw.Solute)...)
+	if r := f.Membrane.Record; r != nil {
+		src = append(src, sortedSources("membrane."+r.ID, r.Sources)...)
+	}
+	return src
 }
 
 func profile(id, role string, r transport.SpeciesResult, sp transport.Species, bLMH float64, est bool, molarMass float64) SpeciesProfile {

@@ -374,13 +374,7 @@ func moduleResponse(mr *moduleResolved, res *module.Result) *ModuleResponse {
 		reverse = reverse || p.WaterFluxMPerS < 0
 	}
 
-	mem := f.Membrane
-	resp.Membrane = MembraneReport{ALMHPerBar: mem.AMPerSPa / thermo.MPerSPaPerLMHPerBar, BLMH: f.BDrawMPerS / thermo.MPerSPerLMH, SUM: mem.SM / thermo.MPerUM}
-	if mem.Record != nil {
-		resp.Membrane.Preset = mem.Record.ID
-	}
-	tm := mem.Temperature
-	resp.Membrane.ATemperatureFactor, resp.Membrane.BTemperatureFactor, resp.Membrane.TemperatureRule = tm.FactorA, tm.FactorB, tm.Rule
+	resp.Membrane = membraneReport(f)
 	resp.KDraw, resp.KFeed = kReport(f.KDraw), kReport(f.KFeed)
 	st := res.Stats
 	resp.Solver = ModuleSolverReport{Method: st.Method, Tolerance: mr.problem.Tol, Integrations: st.Integrations, Steps: st.Steps, RejectedSteps: st.Rejected,
@@ -398,15 +392,7 @@ func moduleResponse(mr *moduleResolved, res *module.Result) *ModuleResponse {
 		w = append(w, warn.New(warn.FeedToDraw, "draw_out", "the draw leaves holding the feed's own species (see exchange): a closed draw loop accumulates them unless regeneration rejects them"))
 	}
 	resp.Warnings = warn.Strings(w)
-	resp.Sources = append(resp.Sources, moduleSources...)
-	resp.Sources = append(resp.Sources, fluxSources...)
-	if f.Model == scenario.Real {
-		resp.Sources = append(resp.Sources, modelSources[f.Draw.Solute.Osmotic.Kind]...)
-	}
-	resp.Sources = append(resp.Sources, soluteSources(f.Draw.Solute)...)
-	if r := mem.Record; r != nil {
-		resp.Sources = append(resp.Sources, sortedSources("membrane."+r.ID, r.Sources)...)
-	}
+	resp.Sources = fluxSourcesFor(f, append(resp.Sources, moduleSources...))
 	return resp
 }
 

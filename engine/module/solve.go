@@ -203,25 +203,18 @@ func (s *solver) rate(a float64, warm []float64) (*rated, error) {
 func (s *solver) solveAt(a float64, warm []float64, record bool) (*rated, error) {
 	s.area = a
 	r := &rated{area: a, y0: make([]float64, s.dim), y1: make([]float64, s.dim)}
+	var warmV []float64
 	if s.p.Flow == Co {
 		s.inlet(r.y0)
-		s.startRecord(record)
-		in, err := s.integrate(r.y0, r.y1, nil)
-		s.record = false
+		r.method = "dopri5"
+	} else {
+		v, method, err := s.shoot(warm)
 		if err != nil {
 			return nil, err
 		}
-		if !in.ok {
-			return nil, s.dryError(in.reached)
-		}
-		r.method = "dopri5"
-		return r, nil
+		s.unknownsToY0(v, r.y0)
+		warmV, r.method = v, method
 	}
-	v, method, err := s.shoot(warm)
-	if err != nil {
-		return nil, err
-	}
-	s.unknownsToY0(v, r.y0)
 	s.startRecord(record)
 	in, err := s.integrate(r.y0, r.y1, nil)
 	s.record = false
@@ -231,7 +224,7 @@ func (s *solver) solveAt(a float64, warm []float64, record bool) (*rated, error)
 	if !in.ok {
 		return nil, s.dryError(in.reached)
 	}
-	r.v, r.method = v, method
+	r.v = warmV
 	return r, nil
 }
 
