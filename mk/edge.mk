@@ -17,6 +17,9 @@ EDGE_TAGS ?= stdjson
 FUZZTIME  ?= 100000x
 FUZZ_PKG  := ./engine/api/httpapi/
 FUZZ_TARGETS := FuzzOsmotic FuzzFlux FuzzScreen FuzzBatch FuzzOsmoticFields FuzzFluxFields FuzzTransport
+# The module's valid requests cost milliseconds (an integration per
+# shooting step): fewer inputs keep the run near the others' length.
+FUZZTIME_MODULE ?= 20000x
 
 # workerd, the edge platform's open-source runtime: a binary shipped inside
 # the npm package (@cloudflare/workerd-linux-64, pulled in by workerd).
@@ -60,3 +63,5 @@ fuzz:
 	  echo "fuzz $$t ($(FUZZTIME))"; \
 	  $(GO) test -run '^$$' -fuzz "^$$t\$$" -fuzztime $(FUZZTIME) $(FUZZ_PKG) || exit 1; \
 	done
+	@echo "fuzz FuzzModuleFields ($(FUZZTIME_MODULE))"
+	@$(GO) test -run '^$$' -fuzz '^FuzzModuleFields$$' -fuzztime $(FUZZTIME_MODULE) $(FUZZ_PKG)

@@ -26,7 +26,7 @@
 // Every request runs under a deadline (Options.Timeout): past it the
 // engine stops at its next check and the answer is a 504 error object on
 // field "deadline" stating the limit. The operations whose cost grows with
-// the request — screen (robustness runs and sweeps included) and batch —
+// the request — screen (robustness runs and sweeps included), batch, fit and module —
 // are admitted through a fixed number of slots (Options.MaxHeavy; by
 // default one per core but one, the heavy requests sharing those cores and
 // the last kept for the cheap ones) with a short, bounded queue; when both
