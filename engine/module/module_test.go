@@ -228,3 +228,29 @@ func TestSciPyModule(t *testing.T) {
 	}
 	t.Logf("%d cases: worst relative difference %.2g", len(rows)-1, worst)
 }
+
+// TestContinuationInArea: the fallback path of the counter-current
+// shooting (continuation from a quarter of the area up) reaches the same
+// module as the direct solve, to the boundary tolerance.
+func TestContinuationInArea(t *testing.T) {
+	for _, a := range []float64{1, 8} {
+		p := testProblem(Counter, transport.ALFS, nonlinear(2), 100)
+		direct := mustSolve(t, p, a)
+		s, err := newSolver(testProblem(Counter, transport.ALFS, nonlinear(2), 100))
+		if err != nil {
+			t.Fatal(err)
+		}
+		s.area = a
+		v := make([]float64, s.n+1)
+		ok, err := s.continueInArea(v)
+		if err != nil || !ok {
+			t.Fatalf("A=%g: continuation %v %v", a, ok, err)
+		}
+		if got := v[0] * p.DrawInM3PerS; !closeTo(got, direct.PermeateM3PerS, 1e-6, 0) {
+			t.Errorf("A=%g: continuation permeate %.10g, direct %.10g", a, got, direct.PermeateM3PerS)
+		}
+		if s.area != a {
+			t.Errorf("area left at %g", s.area)
+		}
+	}
+}

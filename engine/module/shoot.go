@@ -101,14 +101,28 @@ func (s *solver) shoot(warm []float64) ([]float64, string, error) {
 	if ok {
 		return v, "shooting-newton", nil
 	}
-	// Continuation in area: from a small module, whose outlet state lies
-	// near the inlets, up to the whole, each solution starting the next.
+	ok, err = s.continueInArea(v)
+	if err != nil {
+		return nil, "", err
+	}
+	if ok {
+		return v, "shooting-newton+continuation", nil
+	}
+	return nil, "", &errs.ConvergenceError{Solver: "module counter-current shooting", Reason: "Newton's method did not converge, nor did continuation in area",
+		Iterations: s.stats.NewtonIterations, Residual: s.stats.BoundaryResidual}
+}
+
+// continueInArea solves at s.area by continuation: from a small module,
+// whose outlet state lies near the inlets, up to the whole in equal
+// steps, each solution starting the next (4, then 16, then 64 steps). It
+// leaves the unknowns in v and reports whether the whole converged.
+func (s *solver) continueInArea(v []float64) (bool, error) {
 	whole := s.area
 	defer func() { s.area = whole }()
 	for _, parts := range []int{4, 16, 64} {
 		s.area = whole / float64(parts)
 		if err := s.start(v); err != nil {
-			return nil, "", err
+			return false, err
 		}
 		ok, err := s.newton(v)
 		for k := 2; ok && err == nil && k <= parts; k++ {
@@ -117,15 +131,11 @@ func (s *solver) shoot(warm []float64) ([]float64, string, error) {
 			v[0] *= s.area / prev // the permeate grows about in proportion
 			ok, err = s.newton(v)
 		}
-		if err != nil {
-			return nil, "", err
-		}
-		if ok {
-			return v, "shooting-newton+continuation", nil
+		if err != nil || ok {
+			return ok, err
 		}
 	}
-	return nil, "", &errs.ConvergenceError{Solver: "module counter-current shooting", Reason: "Newton's method did not converge, nor did continuation in area",
-		Iterations: s.stats.NewtonIterations, Residual: s.stats.BoundaryResidual}
+	return false, nil
 }
 
 // start finds a first guess: the draw's outlet species at their inlet
