@@ -46,6 +46,10 @@ func renderModule(w io.Writer, format string, resp []byte) error {
 	fmt.Fprintf(tw, "recovery\t%.4g (cap %.4g, %s pinch)\n", r.Recovery, r.RecoveryCap, r.RecoveryCapPinch)
 	fmt.Fprintf(tw, "average water flux\t%.4g LMH\n", r.AverageWaterFluxLMH)
 	fmt.Fprintf(tw, "draw solute lost\t%.4g mol/h (%.4g g/h, %.4g g per L of permeate)\n", r.ReverseSoluteMolPerH, r.ReverseSoluteGPerH, r.DrawLossGPerLPermeate)
+	if m := r.RegenerationMinimum; m != nil {
+		fmt.Fprintf(tw, "regeneration minimum\t%.4g kWh per m³ of water removed (%.4g per m³ of diluted draw; %.3g of its water, concentrate π %.4g bar)\n",
+			m.KWhPerM3Water, m.KWhPerM3DilutedDraw, m.WaterRecovery, m.ConcentratePiBar)
+	}
 	fmt.Fprintln(tw, "\nstream\tflow (L/h)\tconcentration (mol/L)\tπ (bar)")
 	for _, s := range []struct {
 		name string

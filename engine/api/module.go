@@ -7,6 +7,7 @@ import (
 	"drawsift/engine/limits"
 	"drawsift/engine/module"
 	"drawsift/engine/scenario"
+	"drawsift/engine/screen"
 	"drawsift/engine/species"
 	"drawsift/engine/thermo"
 	"drawsift/engine/warn"
@@ -103,6 +104,20 @@ type ModuleProfiles struct {
 	Species                  []ModuleSpeciesProfile `json:"species"`
 }
 
+// RegenerationMinimum is the least work to bring the diluted draw back to
+// its inlet concentration, removing pure water reversibly
+// (screen.MinimumSeparationEnergy over the draw solute's own π: the feed
+// species the draw gained are left out).
+type RegenerationMinimum struct {
+	// WaterRecovery is the fraction of the diluted draw's water removed,
+	// 1 − m_out/m_in on molalities.
+	WaterRecovery float64 `json:"water_recovery"`
+	// Per m³ of water removed (≈ the permeate) and per m³ of diluted draw.
+	KWhPerM3Water       float64 `json:"kwh_per_m3_water"`
+	KWhPerM3DilutedDraw float64 `json:"kwh_per_m3_diluted_draw"`
+	ConcentratePiBar    float64 `json:"concentrate_osmotic_pressure_bar"`
+}
+
 // ModuleSolverReport is the module solver's statistics.
 type ModuleSolverReport struct {
 	Method           string  `json:"method"`
@@ -140,21 +155,25 @@ type ModuleResponse struct {
 	// ReverseSoluteMolPerH: the draw solute lost net to the feed, in its
 	// formula units (as the flux's net reverse solute flux, summed over
 	// the area); the g/h figure and per litre of permeate beside it.
-	ReverseSoluteMolPerH  float64            `json:"reverse_solute_mol_per_h"`
-	ReverseSoluteGPerH    float64            `json:"reverse_solute_g_per_h"`
-	DrawLossGPerLPermeate float64            `json:"draw_loss_g_per_l_permeate"`
-	ForwardSoluteGPerH    float64            `json:"forward_solute_g_per_h"`
-	Exchange              []ModuleExchange   `json:"exchange"`
-	Profiles              ModuleProfiles     `json:"profiles"`
-	Regeneration          []any              `json:"regeneration,omitempty"`
-	Membrane              MembraneReport     `json:"membrane"`
-	KDraw                 MassTransferReport `json:"k_draw"`
-	KFeed                 MassTransferReport `json:"k_feed"`
-	Solver                ModuleSolverReport `json:"solver"`
-	Warnings              []string           `json:"warnings"`
-	Sources               []Source           `json:"sources"`
-	Cautions              []string           `json:"cautions"`
-	EngineVersion         string             `json:"engine_version"`
+	ReverseSoluteMolPerH  float64          `json:"reverse_solute_mol_per_h"`
+	ReverseSoluteGPerH    float64          `json:"reverse_solute_g_per_h"`
+	DrawLossGPerLPermeate float64          `json:"draw_loss_g_per_l_permeate"`
+	ForwardSoluteGPerH    float64          `json:"forward_solute_g_per_h"`
+	Exchange              []ModuleExchange `json:"exchange"`
+	Profiles              ModuleProfiles   `json:"profiles"`
+	// RegenerationMinimum is the thermodynamic floor of re-concentrating
+	// the leaving draw to its inlet concentration; the per-route estimates
+	// (regeneration) are not yet computed.
+	RegenerationMinimum *RegenerationMinimum `json:"regeneration_minimum,omitempty"`
+	Regeneration        []any                `json:"regeneration,omitempty"`
+	Membrane            MembraneReport       `json:"membrane"`
+	KDraw               MassTransferReport   `json:"k_draw"`
+	KFeed               MassTransferReport   `json:"k_feed"`
+	Solver              ModuleSolverReport   `json:"solver"`
+	Warnings            []string             `json:"warnings"`
+	Sources             []Source             `json:"sources"`
+	Cautions            []string             `json:"cautions"`
+	EngineVersion       string               `json:"engine_version"`
 }
 
 var moduleSources = []Source{
@@ -352,6 +371,8 @@ func moduleResponse(mr *moduleResolved, res *module.Result) *ModuleResponse {
 		resp.DrawLossGPerLPermeate = lostKg / res.PermeateM3PerS // kg/m³ = g/L
 	}
 
+	resp.RegenerationMinimum = regenerationMinimum(f, resp.DrawOut.ConcentrationMolPerL, resp.DrawIn.ConcentrationMolPerL)
+
 	pr := &resp.Profiles
 	for i := range lay.Info {
 		pr.Species = append(pr.Species, ModuleSpeciesProfile{Species: lay.Info[i].Name})
@@ -394,6 +415,26 @@ func moduleResponse(mr *moduleResolved, res *module.Result) *ModuleResponse {
 	resp.Warnings = warn.Strings(w)
 	resp.Sources = fluxSourcesFor(f, append(resp.Sources, moduleSources...))
 	return resp
+}
+
+// regenerationMinimum is the reversible work of bringing the draw solute
+// from cOut back to cIn (mol/L), or nil when the draw did not dilute.
+func regenerationMinimum(f *scenario.Flux, cOut, cIn float64) *RegenerationMinimum {
+	x := f.Draw.X
+	mOut, ok1 := x.MolalityFromMolarity(cOut * 1000)
+	mIn, ok2 := x.MolalityFromMolarity(cIn * 1000)
+	if !ok1 || !ok2 || !(mOut > 0 && mOut < mIn) {
+		return nil
+	}
+	r := 1 - mOut/mIn
+	pi := x.OsmoticPressurePa
+	if f.Model == scenario.VantHoff {
+		pi = func(m float64) float64 { return x.VantHoffPa(x.MolarityMolPerM3(m)) }
+	}
+	w := screen.MinimumSeparationEnergy(pi, mOut, r) // J per m³ of water removed
+	return &RegenerationMinimum{WaterRecovery: r, KWhPerM3Water: w / 3.6e6,
+		KWhPerM3DilutedDraw: w * r * x.DensityKgPerM3(mOut) / (1000 * (1 + mOut*x.MolarMassKgPerMol())) / 3.6e6,
+		ConcentratePiBar:    pi(mIn) / thermo.PascalPerBar}
 }
 
 // hasFeedIons reports whether the feed holds species the draw does not.

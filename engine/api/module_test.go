@@ -35,6 +35,15 @@ func TestModuleSeawater(t *testing.T) {
 	if !(r.ReverseSoluteMolPerH > 0) || !(r.ForwardSoluteGPerH > 0) {
 		t.Errorf("exchange: reverse %g mol/h, forward %g g/h", r.ReverseSoluteMolPerH, r.ForwardSoluteGPerH)
 	}
+	// The reversible minimum of re-concentrating the leaving draw lies
+	// between the leaving and the entering draw's π (the mean of a
+	// monotone π over the water removed; Elimelech & Phillip 2011, Science
+	// 333:712, for the integral), per m³ of water: 1 bar·m³ = 1e5 J.
+	rm := r.RegenerationMinimum
+	if rm == nil || !(rm.KWhPerM3Water*3.6e6 > r.DrawOut.OsmoticPressureBar*1e5*0.99 && rm.KWhPerM3Water*3.6e6 < rm.ConcentratePiBar*1e5) ||
+		!(rm.KWhPerM3DilutedDraw < rm.KWhPerM3Water*rm.WaterRecovery*1.01) {
+		t.Errorf("regeneration minimum %+v against π out %g bar", rm, r.DrawOut.OsmoticPressureBar)
+	}
 	body := `{` + moduleBase + `, "feed": {"preset": "seawater", "flow_l_per_h": 80}, "target": {"recovery": ` + jsonNum(r.Recovery) + `}}`
 	out, e = Dispatch(context.Background(), OpModule, []byte(body))
 	if e != nil {
