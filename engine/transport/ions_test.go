@@ -1,11 +1,11 @@
 package transport
 
 import (
-	"encoding/csv"
 	"math"
-	"os"
 	"strconv"
 	"testing"
+
+	"drawsift/engine/internal/reftable"
 )
 
 // ionSystem builds the four-ion test system of testdata/ions_scipy.py:
@@ -51,22 +51,10 @@ func ionSystem(ori Orientation, k float64, b, d [4]float64, cd, y, cf, x, dpBar,
 // D, draws and feeds sharing ions or not, ΔP 0 and 8 bar. Jw, the membrane
 // potential and every ion flux agree to 1e-8 relative (issue #11).
 func TestIonsSciPy(t *testing.T) {
-	fh, err := os.Open("../../testdata/ions_scipy.csv")
+	head, rows, err := reftable.Read("../../testdata/ions_scipy.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
-	defer fh.Close()
-	rd := csv.NewReader(fh)
-	rd.Comment = '#'
-	rows, err := rd.ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	head := map[string]int{}
-	for i, h := range rows[0] {
-		head[h] = i
-	}
-	rows = rows[1:]
 	if len(rows) < 500 {
 		t.Fatalf("only %d rows", len(rows))
 	}

@@ -1,11 +1,11 @@
 package transport
 
 import (
-	"encoding/csv"
 	"math"
-	"os"
 	"strconv"
 	"testing"
+
+	"drawsift/engine/internal/reftable"
 )
 
 // TestSciPyCrossSolve compares Solve with an independent implementation of
@@ -16,22 +16,10 @@ import (
 // same-solute and different-solute feeds. Jw and the solute fluxes must
 // agree to 1e-6 relative (the script's root is good to ~1e-15).
 func TestSciPyCrossSolve(t *testing.T) {
-	fh, err := os.Open("../../testdata/flux_scipy.csv")
+	head, rows, err := reftable.Read("../../testdata/flux_scipy.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
-	defer fh.Close()
-	rd := csv.NewReader(fh)
-	rd.Comment = '#'
-	rows, err := rd.ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	head := map[string]int{}
-	for i, h := range rows[0] {
-		head[h] = i
-	}
-	rows = rows[1:]
 	if len(rows) < 1000 {
 		t.Fatalf("only %d rows", len(rows))
 	}
