@@ -93,6 +93,9 @@ type solver struct {
 	// record: fill profiles at the grid points during an integration.
 	record   bool
 	profiles []Profile
+	// capVal is the recovery cap once found (capDone).
+	capVal  Cap
+	capDone bool
 }
 
 // integration is how one integration ended.

@@ -110,6 +110,19 @@ func RecoveryCap(p *Problem) (Cap, error) {
 }
 
 func (s *solver) recoveryCap() (Cap, error) {
+	if s.capDone {
+		return s.capVal, nil
+	}
+	c, err := s.computeCap()
+	if err == nil {
+		s.capVal, s.capDone = c, true
+	}
+	return c, err
+}
+
+// computeCap finds the cap (recoveryCap keeps it: it depends on the
+// problem only, and every cold start of the shooting asks for it).
+func (s *solver) computeCap() (Cap, error) {
 	p := s.p
 	qd, qf, dp := p.DrawInM3PerS, p.FeedInM3PerS, p.DeltaPPa
 	piD0, piF0 := s.streamPi('d', qd), s.streamPi('f', qf)
