@@ -57,6 +57,24 @@ func renderModule(w io.Writer, format string, resp []byte) error {
 	}{{"draw in", r.DrawIn}, {"draw out", r.DrawOut}, {"feed in", r.FeedIn}, {"feed out", r.FeedOut}} {
 		fmt.Fprintf(tw, "%s\t%.5g\t%.5g\t%.4g\n", s.name, s.s.FlowLPerH, s.s.ConcentrationMolPerL, s.s.OsmoticPressureBar)
 	}
+	if len(r.Regeneration) > 0 {
+		fmt.Fprintln(tw, "\nregeneration route\tfeasible\telectric (kWh/m³)\theat (kWh/m³)\tequivalent work (kWh/m³)\t× minimum\tpressure (bar)\tdraw lost (g/m³)\tnote")
+		for _, g := range r.Regeneration {
+			if !g.Applicable {
+				fmt.Fprintf(tw, "%s\tn/a\t\t\t\t\t\t\t%s\n", g.Route, g.Reason)
+				continue
+			}
+			pressure := ""
+			if g.PressureBar > 0 {
+				pressure = fmt.Sprintf("%.4g", g.PressureBar)
+			}
+			fmt.Fprintf(tw, "%s\t%s\t%.4g\t%.4g\t%.4g\t%.3g\t%s\t%.4g\t%s\n", g.Route, yesNo(g.Feasible), g.ElectricKWhPerM3, g.HeatKWhPerM3,
+				g.EquivalentWorkKWhPerM3, g.RatioToMinimum, pressure, g.DrawLossGPerM3, g.Reason)
+		}
+		if r.RegenerationBest != "" && r.DrawMakeUpGPerM3 != nil {
+			fmt.Fprintf(tw, "best route\t%s; draw make-up %.4g g per m³ of product (reverse flux and the route's loss)\n", r.RegenerationBest, *r.DrawMakeUpGPerM3)
+		}
+	}
 	fmt.Fprintln(tw)
 	for j, c := range moduleColumns {
 		if j > 0 {
@@ -82,4 +100,11 @@ func renderModule(w io.Writer, format string, resp []byte) error {
 		fmt.Fprintf(tw, "caution\t%s\n", plainText(s))
 	}
 	return tw.Flush()
+}
+
+func yesNo(b bool) string {
+	if b {
+		return "yes"
+	}
+	return "no"
 }

@@ -2,12 +2,13 @@ package api
 
 import (
 	"context"
+	"slices"
 
 	"drawsift/engine/errs"
 	"drawsift/engine/limits"
 	"drawsift/engine/module"
+	"drawsift/engine/regen"
 	"drawsift/engine/scenario"
-	"drawsift/engine/screen"
 	"drawsift/engine/species"
 	"drawsift/engine/thermo"
 	"drawsift/engine/warn"
@@ -55,6 +56,9 @@ type ModuleRequest struct {
 	FeedPressureDropBarPerM2 *float64 `json:"feed_pressure_drop_bar_per_m2,omitempty"`
 	ProfilePoints            *float64 `json:"profile_points,omitempty"`
 	Tolerance                *float64 `json:"tolerance,omitempty"`
+	// Regeneration chooses the routes for re-concentrating the leaving
+	// draw and changes their parameters (regen.Spec; defaults in limits).
+	Regeneration *regen.Spec `json:"regeneration,omitempty"`
 }
 
 // ModuleSpecies is one species' concentration in a stream.
@@ -104,20 +108,6 @@ type ModuleProfiles struct {
 	Species                  []ModuleSpeciesProfile `json:"species"`
 }
 
-// RegenerationMinimum is the least work to bring the diluted draw back to
-// its inlet concentration, removing pure water reversibly
-// (screen.MinimumSeparationEnergy over the draw solute's own π: the feed
-// species the draw gained are left out).
-type RegenerationMinimum struct {
-	// WaterRecovery is the fraction of the diluted draw's water removed,
-	// 1 − m_out/m_in on molalities.
-	WaterRecovery float64 `json:"water_recovery"`
-	// Per m³ of water removed (≈ the permeate) and per m³ of diluted draw.
-	KWhPerM3Water       float64 `json:"kwh_per_m3_water"`
-	KWhPerM3DilutedDraw float64 `json:"kwh_per_m3_diluted_draw"`
-	ConcentratePiBar    float64 `json:"concentrate_osmotic_pressure_bar"`
-}
-
 // ModuleSolverReport is the module solver's statistics.
 type ModuleSolverReport struct {
 	Method           string  `json:"method"`
@@ -162,18 +152,24 @@ type ModuleResponse struct {
 	Exchange              []ModuleExchange `json:"exchange"`
 	Profiles              ModuleProfiles   `json:"profiles"`
 	// RegenerationMinimum is the thermodynamic floor of re-concentrating
-	// the leaving draw to its inlet concentration; the per-route estimates
-	// (regeneration) are not yet computed.
-	RegenerationMinimum *RegenerationMinimum `json:"regeneration_minimum,omitempty"`
-	Regeneration        []any                `json:"regeneration,omitempty"`
-	Membrane            MembraneReport       `json:"membrane"`
-	KDraw               MassTransferReport   `json:"k_draw"`
-	KFeed               MassTransferReport   `json:"k_feed"`
-	Solver              ModuleSolverReport   `json:"solver"`
-	Warnings            []string             `json:"warnings"`
-	Sources             []Source             `json:"sources"`
-	Cautions            []string             `json:"cautions"`
-	EngineVersion       string               `json:"engine_version"`
+	// the leaving draw to its inlet concentration; Regeneration is each
+	// route's estimate for the same duty, per m³ of product water, and
+	// RegenerationBest the feasible route of least equivalent work (direct
+	// use only when the request names it). DrawMakeUpGPerM3 is the draw
+	// to replace per m³ of product: reverse solute flux plus that route's
+	// loss. All are omitted when the draw did not dilute.
+	RegenerationMinimum *regen.Minimum     `json:"regeneration_minimum,omitempty"`
+	Regeneration        []regen.Result     `json:"regeneration,omitempty"`
+	RegenerationBest    string             `json:"regeneration_best,omitempty"`
+	DrawMakeUpGPerM3    *float64           `json:"draw_make_up_g_per_m3,omitempty"`
+	Membrane            MembraneReport     `json:"membrane"`
+	KDraw               MassTransferReport `json:"k_draw"`
+	KFeed               MassTransferReport `json:"k_feed"`
+	Solver              ModuleSolverReport `json:"solver"`
+	Warnings            []string           `json:"warnings"`
+	Sources             []Source           `json:"sources"`
+	Cautions            []string           `json:"cautions"`
+	EngineVersion       string             `json:"engine_version"`
 }
 
 var moduleSources = []Source{
@@ -188,6 +184,7 @@ type moduleResolved struct {
 	problem *module.Problem
 	target  *module.Target
 	area    float64
+	regen   regen.Params
 }
 
 // resolveModule checks a module request and builds its problem.
@@ -211,6 +208,9 @@ func resolveModule(req *ModuleRequest) (*moduleResolved, error) {
 		return nil, err
 	}
 	out := &moduleResolved{}
+	if out.regen, err = req.Regeneration.Resolve("regeneration."); err != nil {
+		return nil, err
+	}
 	switch {
 	case req.AreaM2 != nil && req.Target != nil:
 		return nil, errs.InvalidText("target", "", "either area_m2 or target", "give area_m2 (rating) or target (design), not both")
@@ -371,7 +371,20 @@ func moduleResponse(mr *moduleResolved, res *module.Result) *ModuleResponse {
 		resp.DrawLossGPerLPermeate = lostKg / res.PermeateM3PerS // kg/m³ = g/L
 	}
 
-	resp.RegenerationMinimum = regenerationMinimum(f, resp.DrawOut.ConcentrationMolPerL, resp.DrawIn.ConcentrationMolPerL)
+	var regenWarnings []warn.Warning
+	if rep := regeneration(f, resp.DrawOut.ConcentrationMolPerL, resp.DrawIn.ConcentrationMolPerL, mr.regen); rep != nil {
+		resp.Regeneration, regenWarnings = rep.Routes, rep.Warnings
+		if len(rep.Routes) > 0 {
+			resp.RegenerationMinimum = &rep.Minimum
+			best := rep.Best(slices.Contains(mr.regen.Routes, regen.DirectUse))
+			if best != nil {
+				resp.RegenerationBest = best.Route
+				resp.DrawMakeUpGPerM3 = ptr(resp.DrawLossGPerLPermeate*1000 + best.DrawLossGPerM3)
+			} else {
+				regenWarnings = append(regenWarnings, warn.New(warn.Regeneration, "regeneration", "regeneration: no route evaluated can re-concentrate this draw at this duty (see each route's reason)"))
+			}
+		}
+	}
 
 	pr := &resp.Profiles
 	for i := range lay.Info {
@@ -402,7 +415,7 @@ func moduleResponse(mr *moduleResolved, res *module.Result) *ModuleResponse {
 		FluxSolves: st.FluxSolves, NewtonIterations: st.NewtonIterations, BoundaryResidual: st.BoundaryResidual, DesignIterations: st.DesignIterations,
 		WaterBalance: res.WaterBalance, SpeciesBalance: res.SpeciesBalance}
 
-	w := append([]warn.Warning(nil), f.Warnings...)
+	w := append(append([]warn.Warning(nil), f.Warnings...), regenWarnings...)
 	if reverse {
 		w = append(w, warn.New(warn.ReverseFlow, "module", "water flows back from the draw to the feed over part of the area: past that point the module loses permeate (a smaller area, or a stronger draw, would do better)"))
 	}
@@ -417,24 +430,26 @@ func moduleResponse(mr *moduleResolved, res *module.Result) *ModuleResponse {
 	return resp
 }
 
-// regenerationMinimum is the reversible work of bringing the draw solute
-// from cOut back to cIn (mol/L), or nil when the draw did not dilute.
-func regenerationMinimum(f *scenario.Flux, cOut, cIn float64) *RegenerationMinimum {
+// regeneration evaluates re-concentrating the draw solute from cOut back
+// to cIn (mol/L, its own formula units: the feed species the draw gained
+// are left out), or nil when the draw did not dilute.
+func regeneration(f *scenario.Flux, cOut, cIn float64, p regen.Params) *regen.Report {
 	x := f.Draw.X
 	mOut, ok1 := x.MolalityFromMolarity(cOut * 1000)
 	mIn, ok2 := x.MolalityFromMolarity(cIn * 1000)
 	if !ok1 || !ok2 || !(mOut > 0 && mOut < mIn) {
 		return nil
 	}
-	r := 1 - mOut/mIn
-	pi := x.OsmoticPressurePa
+	d := regen.Duty{Solution: x, Record: f.Draw.Solute, DilutedMolPerKg: mOut, ConcentratedMolPerKg: mIn, TempK: f.TemperatureK}
 	if f.Model == scenario.VantHoff {
-		pi = func(m float64) float64 { return x.VantHoffPa(x.MolarityMolPerM3(m)) }
+		d.Pi = func(m float64) float64 { return x.VantHoffPa(x.MolarityMolPerM3(m)) }
 	}
-	w := screen.MinimumSeparationEnergy(pi, mOut, r) // J per m³ of water removed
-	return &RegenerationMinimum{WaterRecovery: r, KWhPerM3Water: w / 3.6e6,
-		KWhPerM3DilutedDraw: w * r * x.DensityKgPerM3(mOut) / (1000 * (1 + mOut*x.MolarMassKgPerMol())) / 3.6e6,
-		ConcentratePiBar:    pi(mIn) / thermo.PascalPerBar}
+	rep, err := regen.Evaluate(d, p)
+	if err != nil {
+		rep.Warnings = []warn.Warning{warn.New(warn.Regeneration, "regeneration", "regeneration: not estimated (%v)", err)}
+		return &rep
+	}
+	return &rep
 }
 
 // hasFeedIons reports whether the feed holds species the draw does not.

@@ -44,6 +44,19 @@ func TestModuleSeawater(t *testing.T) {
 		!(rm.KWhPerM3DilutedDraw < rm.KWhPerM3Water*rm.WaterRecovery*1.01) {
 		t.Errorf("regeneration minimum %+v against π out %g bar", rm, r.DrawOut.OsmoticPressureBar)
 	}
+	// Regeneration per route for the same duty: every route reported,
+	// RO (the draw's listed route, concentrate π ≈ 46 bar) the best, and
+	// the make-up per m³ the reverse flux plus RO's loss.
+	if len(r.Regeneration) != 6 || r.RegenerationBest != "ro" || r.DrawMakeUpGPerM3 == nil {
+		t.Fatalf("regeneration: %d routes, best %q", len(r.Regeneration), r.RegenerationBest)
+	}
+	ro := r.Regeneration[0]
+	if ro.Route != "ro" || !ro.Feasible || !(ro.EquivalentWorkKWhPerM3 > rm.KWhPerM3Water) || ro.RatioToMinimum <= 1 {
+		t.Errorf("RO: %+v", ro)
+	}
+	if got, want := *r.DrawMakeUpGPerM3, r.DrawLossGPerLPermeate*1000+ro.DrawLossGPerM3; got != want || !(ro.DrawLossGPerM3 > 0) {
+		t.Errorf("make-up %g g/m³, want %g", got, want)
+	}
 	body := `{` + moduleBase + `, "feed": {"preset": "seawater", "flow_l_per_h": 80}, "target": {"recovery": ` + jsonNum(r.Recovery) + `}}`
 	out, e = Dispatch(context.Background(), OpModule, []byte(body))
 	if e != nil {
@@ -82,6 +95,9 @@ func TestModuleBadInput(t *testing.T) {
 		{`{"membrane": {"preset": "tfc-standard"}, "orientation": "AL-FS", "draw": {"solute": "NaCl", "concentration": 0.3, "unit": "mol/L", "flow_l_per_h": 40}, ` + feed + `, "area_m2": 1}`, "draw.concentration", "feed"},
 		{`{` + moduleBase + `, ` + feed + `, "area_m2": 1, "draw_pressure_drop_bar_per_m2": -1}`, "draw_pressure_drop_bar_per_m2", "0"},
 		{`{` + moduleBase + `, ` + feed + `, "area_m2": 1, "profile_points": 1}`, "profile_points", "2"},
+		{`{` + moduleBase + `, ` + feed + `, "area_m2": 1, "regeneration": {"pump_efficiency": 0}}`, "regeneration.pump_efficiency", "0.1–1"},
+		{`{` + moduleBase + `, ` + feed + `, "area_m2": 1, "regeneration": {"routes": ["ro", "freezing"]}}`, "regeneration.routes", "ro, "},
+		{`{` + moduleBase + `, ` + feed + `, "area_m2": 1, "regeneration": {"nf_rejection_by_solute": {"NaCl": 1}}}`, "regeneration.nf_rejection_by_solute.NaCl", "< 1"},
 	} {
 		out, e := Dispatch(context.Background(), OpModule, []byte(tc.body))
 		if e == nil {

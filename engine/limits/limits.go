@@ -294,6 +294,26 @@ var (
 	FitConfidence      = Range{Field: "confidence", Min: 0.5, Max: 0.999, Default: 0.95, HasDefault: true, Why: "the confidence level of the intervals"}
 	FitBootstrapSample = Range{Field: "bootstrap.samples", Min: 10, Max: 10000, Integer: true, Default: 1000, HasDefault: true, Why: "resamples; the work budget also caps samples × measured fluxes"}
 
+	// Regeneration routes (engine/regen): the parameters of each route's
+	// energy model, under the request's "regeneration" object.
+	RegenPumpEfficiency  = Range{Field: "regeneration.pump_efficiency", Min: 0.1, Max: 1, Default: 0.8, HasDefault: true, Why: "high-pressure pump and motor, wire to water; large RO pumps reach about 0.8 (from memory)"}
+	RegenERDEfficiency   = Range{Field: "regeneration.erd_efficiency", Min: 0, Max: 0.99, Default: 0.95, HasDefault: true, Why: "fraction of the concentrate's pressure energy an energy-recovery device returns; isobaric exchangers 0.95–0.98 (from memory); 0 for none"}
+	RegenPressureMargin  = Range{Field: "regeneration.pressure_margin_bar", Unit: "bar", Min: 0, Max: 50, Default: 5, HasDefault: true, Why: "net driving pressure left at a membrane route's concentrate end over its osmotic pressure (common practice: a few bar)"}
+	RegenROMaxPressure   = Range{Field: "regeneration.ro_max_pressure_bar", Unit: "bar", Min: 5, Max: 400, Default: 82.7, HasDefault: true, Why: "pressure rating of standard seawater RO elements, 1200 psi (from memory)"}
+	RegenROHighPressure  = Range{Field: "regeneration.ro_high_max_pressure_bar", Unit: "bar", Min: 5, Max: 400, Default: 120, HasDefault: true, Why: "high-pressure RO elements, about 120 bar (from memory; Davenport et al. 2018, Environ. Sci. Technol. Lett. 5:467, argue for higher)"}
+	RegenNFMaxPressure   = Range{Field: "regeneration.nf_max_pressure_bar", Unit: "bar", Min: 2, Max: 400, Default: 41, HasDefault: true, Why: "pressure rating of NF elements, 600 psi (from memory)"}
+	RegenRORejection     = Range{Field: "regeneration.ro_rejection", Min: 0, Max: 1, MaxOpen: true, Default: 0.995, HasDefault: true, Why: "observed rejection of an electrolyte draw by seawater RO; elements are specified at 99.6–99.8 % NaCl (from memory)"}
+	RegenRejectionEntry  = Range{Field: "regeneration.ro_rejection_by_solute[]", Key: "regeneration.rejection_by_solute[]", Min: 0, Max: 1, MaxOpen: true, Why: "a rejection: a fraction below 1"}
+	RegenStripC          = Range{Field: "regeneration.thermal_strip_temperature_c", Unit: "°C", Min: 30, Max: 150, Default: 60, HasDefault: true, Why: "column temperature of a thermolytic draw's stripping; NH3–CO2 salts decompose from about 35 °C, 60 °C is usual (common practice)"}
+	RegenDecomposition   = Range{Field: "regeneration.thermal_decomposition_kj_per_mol", Unit: "kJ/mol", Min: 0, Max: 1000, Default: 100, HasDefault: true, Why: "heat to strip one mole of the thermolytic draw as gases; ≈ 99 kJ/mol for NH4HCO3(aq) → NH3(g) + CO2(g) + H2O(l) from standard enthalpies of formation (from memory)"}
+	RegenHeatRecovery    = Range{Field: "regeneration.heat_recovery", Min: 0, Max: 0.99, Default: 0.9, HasDefault: true, Why: "effectiveness of the heat exchange between a thermal route's hot product and its cold inflow (from memory)"}
+	RegenThermalHeat     = Range{Field: "regeneration.thermal_heat_kwh_per_m3", Unit: "kWh/m³", Min: 0, MinOpen: true, Max: 5000, Why: "a measured or published heat of the thermal route per m³ of product, replacing the model's (optional)"}
+	RegenThermalElectric = Range{Field: "regeneration.thermal_electric_kwh_per_m3", Unit: "kWh/m³", Min: 0, Max: 100, Default: 0.3, HasDefault: true, Why: "pumps and fans of a stripping column per m³ of product (from memory, order of magnitude)"}
+	RegenCarnotFraction  = Range{Field: "regeneration.heat_to_work_carnot_fraction", Min: 0, MinOpen: true, Max: 1, Default: 0.5, HasDefault: true, Why: "work a heat engine between the heat source and the ambient would make, as a fraction of Carnot's; 0.4–0.6 at low temperature lifts (from memory)"}
+	RegenMDGOR           = Range{Field: "regeneration.md_gained_output_ratio", Min: 0.1, Max: 30, Default: 3, HasDefault: true, Why: "latent heat of the distillate over the heat supplied; 1–6 for MD with heat recovery (from memory)"}
+	RegenMDHotC          = Range{Field: "regeneration.md_hot_temperature_c", Unit: "°C", Min: 30, Max: 100, Default: 70, HasDefault: true, Why: "MD feed temperature at the hot inlet (common practice: 60–80 °C)"}
+	RegenMDElectric      = Range{Field: "regeneration.md_electric_kwh_per_m3", Unit: "kWh/m³", Min: 0, Max: 100, Default: 0.5, HasDefault: true, Why: "MD circulation pumps per m³ of distillate (from memory, order of magnitude)"}
+
 	// Module (engine/module): the streams' inflows, the area or the
 	// design target, the channels' pressure drops, the profile and the
 	// integrator's tolerance.
@@ -375,6 +395,8 @@ func Ranges() []*Range {
 		&HazardFlagCount, &ExcludeHazardCount, &CustomIonCharge, &CustomIonCount, &CustomIonEntries,
 		&FitRows, &FitWaterFlux, &FitReverseFlux, &FitWaterFluxSD, &FitReverseFluxSD, &FitRelError, &FitAbsWaterFlux, &FitAbsReverseFlux, &FitConfidence, &FitBootstrapSample,
 		&ModuleDrawFlow, &ModuleFeedFlow, &ModuleArea, &ModuleRecovery, &ModulePermeate, &ModuleDrawDrop, &ModuleFeedDrop, &ModulePoints, &ModuleTolerance,
+		&RegenPumpEfficiency, &RegenERDEfficiency, &RegenPressureMargin, &RegenROMaxPressure, &RegenROHighPressure, &RegenNFMaxPressure, &RegenRORejection, &RegenRejectionEntry,
+		&RegenStripC, &RegenDecomposition, &RegenHeatRecovery, &RegenThermalHeat, &RegenThermalElectric, &RegenCarnotFraction, &RegenMDGOR, &RegenMDHotC, &RegenMDElectric,
 		&CustomSoluteCount, &CandidateCount, &OrientationCount, &ParetoCount, &FeedIonCount, &MixtureParts, &BlendParts,
 	}
 }

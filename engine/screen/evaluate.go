@@ -2,6 +2,7 @@ package screen
 
 import (
 	"context"
+	"drawsift/engine/regen"
 	"errors"
 	"fmt"
 	"math"
@@ -671,7 +672,7 @@ func (e *env) regenEnergy(c *candidate, m float64) float64 {
 	mDil := m * (1 - r)
 	if e.sc.VantHoff {
 		x := c.x
-		return MinimumSeparationEnergy(func(mm float64) float64 { return x.VantHoffPa(x.MolarityMolPerM3(mm)) }, mDil, r)
+		return regen.MinimumSeparationEnergy(func(mm float64) float64 { return x.VantHoffPa(x.MolarityMolPerM3(mm)) }, mDil, r)
 	}
-	return MinimumSeparationEnergy(c.x.OsmoticPressurePa, mDil, r)
+	return regen.MinimumSeparationEnergy(c.x.OsmoticPressurePa, mDil, r)
 }
