@@ -17,7 +17,8 @@ type Target struct {
 }
 
 // designRelTol: the design's area is found to this relative tolerance
-// on the permeate.
+// on the permeate, or to 10× the integrator's tolerance when that is
+// looser (below it the permeate is noise and Brent's method only spins).
 const designRelTol = 1e-8
 
 // Design finds the area that meets the target (Brent's method on the
@@ -109,6 +110,7 @@ func Design(p *Problem, t Target) (*Result, error) {
 		}
 		lo, pLo, hi, pHi = hi, pHi, next, pNext
 	}
+	ftol := max(designRelTol, 10*s.rtol)
 	var fail error
 	f := func(area float64) float64 {
 		if fail != nil {
@@ -122,7 +124,7 @@ func Design(p *Problem, t Target) (*Result, error) {
 		return (v - want) / want
 	}
 	res, err := roots.Brent(f, roots.Bracket{Lo: lo, Hi: hi, FLo: (pLo - want) / want, FHi: (pHi - want) / want},
-		&roots.Settings{Solver: "module design (area)", FAbsTol: designRelTol, XRelTol: 1e-12})
+		&roots.Settings{Solver: "module design (area)", FAbsTol: ftol, XRelTol: 1e-12})
 	if fail != nil {
 		return nil, fail
 	}
@@ -137,7 +139,7 @@ func Design(p *Problem, t Target) (*Result, error) {
 	out.Stats.DesignIterations = res.Iterations
 	// The rating's permeate carries the integration's error (and, counter-
 	// current, the boundary residual's), on the scale of the flows.
-	if math.Abs(out.PermeateM3PerS-want) > 10*designRelTol*want+100*s.rtol*(p.DrawInM3PerS+p.FeedInM3PerS) {
+	if math.Abs(out.PermeateM3PerS-want) > 10*ftol*want+100*s.rtol*(p.DrawInM3PerS+p.FeedInM3PerS) {
 		return nil, &errs.ConvergenceError{Solver: "module design (area)", Reason: "the rated permeate misses the target", Iterations: res.Iterations,
 			Residual: math.Abs(out.PermeateM3PerS-want) / want}
 	}

@@ -96,6 +96,11 @@ type solver struct {
 	// capVal is the recovery cap once found (capDone).
 	capVal  Cap
 	capDone bool
+	// jac is the last boundary Jacobian (row-major, (n+1)²), kept across
+	// Newton calls with Broyden updates (jacOK): a design's next area, or
+	// the next iteration, tries it before paying for a new one.
+	jac   []float64
+	jacOK bool
 }
 
 // integration is how one integration ended.

@@ -212,11 +212,20 @@ func (s *solver) start(v []float64) error {
 // newton refines v in place by damped Newton steps on frozen step
 // sequences. It reports whether the boundary residual met bcTol on a
 // fresh adaptive integration.
+//
+// The Jacobian is a forward difference on the frozen steps, computed only
+// when the kept one (the last computed, Broyden-updated after each step
+// taken with it) fails to cut the residual at least in half: near a
+// solution, and from one design area to the next, a kept Jacobian costs
+// one integration per iteration instead of n + 2.
 func (s *solver) newton(v []float64) (bool, error) {
 	m := s.n + 1
 	r, rt := make([]float64, m), make([]float64, m)
 	vt, dv := make([]float64, m), make([]float64, m)
-	jac := make([]float64, m*m)
+	work := make([]float64, m*m)
+	if len(s.jac) != m*m {
+		s.jac, s.jacOK = make([]float64, m*m), false
+	}
 	y0, y1 := make([]float64, s.dim), make([]float64, s.dim)
 	for round := 0; round < meshRounds; round++ {
 		ok, err := s.residual(v, r, nil, y0, y1)
@@ -236,56 +245,49 @@ func (s *solver) newton(v []float64) (bool, error) {
 			if nr <= 1e-3*s.bcTol() {
 				break
 			}
-			for j := 0; j < m; j++ {
-				copy(vt, v)
-				h := fdStep * max(math.Abs(v[j]), 1e-4)
-				vt[j] += h
-				ok, err := s.residual(vt, rt, mesh, y0, y1)
+			if s.jacOK {
+				// Try the kept Jacobian: a full step that halves the
+				// residual is taken, and the Jacobian updated (Broyden).
+				ok, err := s.step(v, r, vt, rt, dv, work, mesh, y0, y1)
 				if err != nil {
 					return false, err
 				}
-				if !ok {
-					// Step the other way (the unknown sits near a dry state).
-					h = -h
-					vt[j] = v[j] + h
-					if ok, err = s.residual(vt, rt, mesh, y0, y1); err != nil || !ok {
-						return false, err
-					}
-				}
-				for k := 0; k < m; k++ {
-					jac[k*m+j] = (rt[k] - r[k]) / h
-				}
-			}
-			for k := range dv {
-				dv[k] = -r[k]
-			}
-			if !luSolve(jac, dv, m) {
-				return false, nil
-			}
-			s.stats.NewtonIterations++
-			accepted := false
-			for lambda := 1.0; lambda >= 1.0/64; lambda /= 2 {
-				for k := range vt {
-					vt[k] = v[k] + lambda*dv[k]
-				}
-				vt[0] = max(vt[0], -0.999) // the draw's outlet flow stays positive
-				for k := 1; k < m; k++ {
-					vt[k] = max(vt[k], 0)
-				}
-				ok, err := s.residual(vt, rt, mesh, y0, y1)
-				if err != nil {
-					return false, err
-				}
-				if ok && normInf(rt) < (1-1e-4*lambda)*nr {
+				if ok && normInf(rt) <= 0.5*nr {
+					s.broyden(v, vt, r, rt)
 					copy(v, vt)
 					copy(r, rt)
-					accepted = true
-					break
+					s.stats.NewtonIterations++
+					continue
 				}
+			}
+			if err := s.jacobian(v, r, vt, rt, mesh, y0, y1); err != nil {
+				return false, err
+			}
+			if !s.jacOK {
+				return false, nil
+			}
+			ok, err := s.step(v, r, vt, rt, dv, work, mesh, y0, y1)
+			if err != nil {
+				return false, err
+			}
+			if !s.jacOK {
+				return false, nil // singular
+			}
+			accepted := ok && normInf(rt) < (1-1e-4)*nr
+			for lambda := 0.5; !accepted && lambda >= 1.0/64; lambda /= 2 {
+				s.clampStep(v, dv, vt, lambda)
+				ok, err := s.residual(vt, rt, mesh, y0, y1)
+				if err != nil {
+					return false, err
+				}
+				accepted = ok && normInf(rt) < (1-1e-4*lambda)*nr
 			}
 			if !accepted {
 				break
 			}
+			s.stats.NewtonIterations++
+			copy(v, vt)
+			copy(r, rt)
 		}
 	}
 	ok, err := s.residual(v, r, nil, y0, y1)
@@ -294,6 +296,88 @@ func (s *solver) newton(v []float64) (bool, error) {
 	}
 	s.stats.BoundaryResidual = normInf(r)
 	return s.stats.BoundaryResidual <= s.bcTol(), nil
+}
+
+// jacobian computes the forward-difference Jacobian of the residual at v
+// on the frozen mesh into s.jac; s.jacOK reports success.
+func (s *solver) jacobian(v, r, vt, rt, mesh, y0, y1 []float64) error {
+	m := s.n + 1
+	s.jacOK = false
+	for j := 0; j < m; j++ {
+		copy(vt, v)
+		h := fdStep * max(math.Abs(v[j]), 1e-4)
+		vt[j] += h
+		ok, err := s.residual(vt, rt, mesh, y0, y1)
+		if err != nil {
+			return err
+		}
+		if !ok {
+			// Step the other way (the unknown sits near a dry state).
+			h = -h
+			vt[j] = v[j] + h
+			if ok, err = s.residual(vt, rt, mesh, y0, y1); err != nil || !ok {
+				return err
+			}
+		}
+		for k := 0; k < m; k++ {
+			s.jac[k*m+j] = (rt[k] - r[k]) / h
+		}
+	}
+	s.jacOK = true
+	return nil
+}
+
+// step solves s.jac·dv = −r and evaluates the full step's residual into
+// rt at vt (clamped to physical unknowns). It reports whether the
+// residual could be evaluated; a singular Jacobian drops it (s.jacOK).
+func (s *solver) step(v, r, vt, rt, dv, work, mesh, y0, y1 []float64) (bool, error) {
+	m := s.n + 1
+	copy(work, s.jac)
+	for k := range dv {
+		dv[k] = -r[k]
+	}
+	if !luSolve(work, dv, m) {
+		s.jacOK = false
+		return false, nil
+	}
+	s.clampStep(v, dv, vt, 1)
+	return s.residual(vt, rt, mesh, y0, y1)
+}
+
+// clampStep writes v + λ·dv into vt, keeping the draw's outlet flow
+// positive and every species' amount non-negative.
+func (s *solver) clampStep(v, dv, vt []float64, lambda float64) {
+	for k := range vt {
+		vt[k] = v[k] + lambda*dv[k]
+	}
+	vt[0] = max(vt[0], -0.999)
+	for k := 1; k < len(vt); k++ {
+		vt[k] = max(vt[k], 0)
+	}
+}
+
+// broyden updates s.jac after the step from v to vt took the residual
+// from r to rt: J += (Δr − J·Δv)·Δvᵀ/(Δvᵀ·Δv) (Broyden 1965, Math. Comp.
+// 19:577, the "good" update).
+func (s *solver) broyden(v, vt, r, rt []float64) {
+	m := s.n + 1
+	var dd float64
+	for j := 0; j < m; j++ {
+		dd += (vt[j] - v[j]) * (vt[j] - v[j])
+	}
+	if !(dd > 0) {
+		return
+	}
+	for k := 0; k < m; k++ {
+		u := rt[k] - r[k]
+		for j := 0; j < m; j++ {
+			u -= s.jac[k*m+j] * (vt[j] - v[j])
+		}
+		u /= dd
+		for j := 0; j < m; j++ {
+			s.jac[k*m+j] += u * (vt[j] - v[j])
+		}
+	}
 }
 
 // luSolve solves a·x = b in place (a is m×m, row-major; b becomes x) by
