@@ -156,7 +156,10 @@ type ModuleResponse struct {
 	// route's estimate for the same duty, per m³ of product water, and
 	// RegenerationBest the feasible route of least equivalent work (direct
 	// use only when the request names it). DrawMakeUpGPerM3 is the draw
-	// to replace per m³ of product: reverse solute flux plus that route's
+	// to replace per m³ of product: the formula units that restore the
+	// draw's most depleted species after the module (a shared ion the
+	// draw gained from the feed needs none, and draw_loss_g_per_l_permeate,
+	// a net mass, can then be below it or negative) plus that route's
 	// loss. All are omitted when the draw did not dilute.
 	RegenerationMinimum *regen.Minimum     `json:"regeneration_minimum,omitempty"`
 	Regeneration        []regen.Result     `json:"regeneration,omitempty"`
@@ -351,13 +354,16 @@ func moduleResponse(mr *moduleResolved, res *module.Result) *ModuleResponse {
 
 	// Exchange: the draw's species lost net (as species.LossesAt, summed
 	// over the area), the feed's own gained.
-	var lostKg, fwdKg float64
+	// makeUp: formula units of draw solute that restore its most depleted
+	// species (a species the draw gained needs none).
+	var lostKg, fwdKg, makeUp float64
 	for i, in := range lay.Info {
 		d := res.ToDrawMolPerS[i]
 		resp.Exchange = append(resp.Exchange, ModuleExchange{Species: in.Name, Role: in.Role,
 			ToDrawMolPH: d * 3600, ToDrawGPerH: d * in.MolarMassKgPerMol * 3.6e6})
 		if in.DrawPerUnit > 0 {
 			lostKg -= d * in.MolarMassKgPerMol
+			makeUp = max(makeUp, -d/in.DrawPerUnit)
 		} else if d > 0 {
 			fwdKg += d * in.MolarMassKgPerMol
 		}
@@ -377,9 +383,10 @@ func moduleResponse(mr *moduleResolved, res *module.Result) *ModuleResponse {
 		if len(rep.Routes) > 0 {
 			resp.RegenerationMinimum = &rep.Minimum
 			best := rep.Best(slices.Contains(mr.regen.Routes, regen.DirectUse))
-			if best != nil {
+			if best != nil && res.PermeateM3PerS > 0 {
 				resp.RegenerationBest = best.Route
-				resp.DrawMakeUpGPerM3 = ptr(resp.DrawLossGPerLPermeate*1000 + best.DrawLossGPerM3)
+				// g per m³ of permeate: mol/s × kg/mol ÷ m³/s × 1000.
+				resp.DrawMakeUpGPerM3 = ptr(makeUp*f.Draw.X.MolarMassKgPerMol()/res.PermeateM3PerS*1000 + best.DrawLossGPerM3)
 			} else {
 				regenWarnings = append(regenWarnings, warn.New(warn.Regeneration, "regeneration", "regeneration: no route evaluated can re-concentrate this draw at this duty (see each route's reason)"))
 			}

@@ -30,8 +30,11 @@ type ScreenResponse struct {
 	ParetoObjectives      []string           `json:"pareto_objectives"`
 	Robustness            *RobustnessReport  `json:"robustness,omitempty"`
 	Sweep                 []SweepSeries      `json:"sweep,omitempty"`
-	Warnings              []string           `json:"warnings"`
-	Cautions              []string           `json:"cautions"`
+	// System restates the plant of the system stage (a "system" object or
+	// basis).
+	System   *SystemReport `json:"system,omitempty"`
+	Warnings []string      `json:"warnings"`
+	Cautions []string      `json:"cautions"`
 	// ScoreNormalisation is how the metrics were scaled: "set" (min–max
 	// over the ranked candidates) or "reference" (against ScoreReference).
 	ScoreNormalisation string          `json:"score_normalisation"`
@@ -135,6 +138,10 @@ type ScreenCandidate struct {
 	// Trust marks what makes the row less certain than a row computed
 	// from measured data within its range (empty when nothing does).
 	Trust []TrustMark `json:"trust"`
+	// System is the candidate at plant scale (a "system" object or
+	// basis); SystemReason says why it could not be rated.
+	System       *SystemMetrics `json:"system,omitempty"`
+	SystemReason string         `json:"system_reason,omitempty"`
 }
 
 // TrustMark is one reason to trust a ranked row less: a stable code and
@@ -301,6 +308,14 @@ func Screen(ctx context.Context, req *ScreenRequest, progress func(done, total i
 			return nil, fromEngine("", err)
 		}
 		resp.Sweep = sweepSeries(series, req.Sweep)
+	}
+	if info.SystemBasis || req.System != nil {
+		if info.SystemBasis {
+			resp.Basis.Kind = "system"
+		}
+		if e := systemStage(ctx, req, info, resp, progress); e != nil {
+			return nil, e
+		}
 	}
 	return resp, nil
 }

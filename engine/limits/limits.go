@@ -294,6 +294,17 @@ var (
 	FitConfidence      = Range{Field: "confidence", Min: 0.5, Max: 0.999, Default: 0.95, HasDefault: true, Why: "the confidence level of the intervals"}
 	FitBootstrapSample = Range{Field: "bootstrap.samples", Min: 10, Max: 10000, Integer: true, Default: 1000, HasDefault: true, Why: "resamples; the work budget also caps samples × measured fluxes"}
 
+	// System (the screen's system stage): the plant's target, the flows
+	// and the prices of its cost per m³.
+	SystemRecovery      = Range{Field: "system.recovery", Min: 0, MinOpen: true, Max: 0.95, Default: 0.3, HasDefault: true, Why: "product over feed inflow; 0.3 by default is within the osmotic cap of seawater against a draw at twice its π (our own choice)"}
+	SystemProduct       = Range{Field: "system.product_m3_per_day", Unit: "m³/day", Min: 0, MinOpen: true, Max: 1e7, Default: 100, HasDefault: true, Why: "product water per day; 10⁷ m³/day is past the largest plant (unit-slip guard); 100 by default (our own choice)"}
+	SystemDrawRatio     = Range{Field: "system.draw_to_feed_flow_ratio", Min: 0.05, Max: 20, Default: 1, HasDefault: true, Why: "draw inflow over feed inflow (our own choice of default: equal flows)"}
+	SystemElectricity   = Range{Field: "system.prices.electricity_usd_per_kwh", Unit: "USD/kWh", Min: 0, Max: 10, Default: 0.10, HasDefault: true, Why: "industrial electricity, 0.05–0.15 USD/kWh in many markets (from memory)"}
+	SystemHeat          = Range{Field: "system.prices.heat_usd_per_kwh", Unit: "USD/kWh", Min: 0, Max: 10, Default: 0.02, HasDefault: true, Why: "low-grade heat per kWh of heat; 0 for waste heat (from memory)"}
+	SystemMembranePrice = Range{Field: "system.prices.membrane_usd_per_m2", Unit: "USD/m²", Min: 0, Max: 10000, Default: 30, HasDefault: true, Why: "installed FO membrane per m² of area (from memory, order of magnitude)"}
+	SystemMembraneLife  = Range{Field: "system.prices.membrane_life_years", Unit: "years", Min: 0.1, Max: 50, Default: 5, HasDefault: true, Why: "membrane replacement interval (from memory: 3–7 years in desalination)"}
+	SystemDrawPrice     = Range{Field: "system.prices.draw_usd_per_kg[]", Unit: "USD/kg", Min: 0, Max: 1e6, Why: "a draw solute's price; omitted: the middle of the library's price range"}
+
 	// Regeneration routes (engine/regen): the parameters of each route's
 	// energy model, under the request's "regeneration" object.
 	RegenPumpEfficiency  = Range{Field: "regeneration.pump_efficiency", Min: 0.1, Max: 1, Default: 0.8, HasDefault: true, Why: "high-pressure pump and motor, wire to water; large RO pumps reach about 0.8 (from memory)"}
@@ -397,6 +408,7 @@ func Ranges() []*Range {
 		&ModuleDrawFlow, &ModuleFeedFlow, &ModuleArea, &ModuleRecovery, &ModulePermeate, &ModuleDrawDrop, &ModuleFeedDrop, &ModulePoints, &ModuleTolerance,
 		&RegenPumpEfficiency, &RegenERDEfficiency, &RegenPressureMargin, &RegenROMaxPressure, &RegenROHighPressure, &RegenNFMaxPressure, &RegenRORejection, &RegenRejectionEntry,
 		&RegenStripC, &RegenDecomposition, &RegenHeatRecovery, &RegenThermalHeat, &RegenThermalElectric, &RegenCarnotFraction, &RegenMDGOR, &RegenMDHotC, &RegenMDElectric,
+		&SystemRecovery, &SystemProduct, &SystemDrawRatio, &SystemElectricity, &SystemHeat, &SystemMembranePrice, &SystemMembraneLife, &SystemDrawPrice,
 		&CustomSoluteCount, &CandidateCount, &OrientationCount, &ParetoCount, &FeedIonCount, &MixtureParts, &BlendParts,
 	}
 }

@@ -65,6 +65,10 @@ type Spec struct {
 	Seed        *uint64          `json:"seed,omitempty"` // default 1
 	// Sweep asks for series of every metric against one variable.
 	Sweep *SweepSpec `json:"sweep,omitempty"`
+	// System rates every candidate at plant scale (a module designed for
+	// the target recovery and product flow, its regeneration and costs);
+	// the "system" basis ranks by it. Omitted with that basis: defaults.
+	System *SystemSpec `json:"system,omitempty"`
 	// ScoreNormalisation: "set" (default: min–max over the ranked
 	// candidates) or "reference" (each metric against the reference draw,
 	// NaCl at the same basis; screen.NormaliseAgainst).
@@ -94,7 +98,10 @@ type IonSpec struct {
 
 // BasisSpec is the basis of comparison.
 type BasisSpec struct {
-	Kind           string   `json:"kind"` // "osmotic-pressure", "concentration" or "water-flux"
+	// Kind: "osmotic-pressure", "concentration", "water-flux", or
+	// "system" (draws at equal osmotic pressure, as "osmotic-pressure",
+	// ranked by the system's cost per m³ of product).
+	Kind           string   `json:"kind"`
 	Value          *float64 `json:"value,omitempty"`
 	Unit           string   `json:"unit,omitempty"` // bar, kPa, MPa, atm, psi | a concentration unit | LMH
 	MultipleOfFeed *float64 `json:"multiple_of_feed,omitempty"`
@@ -165,6 +172,9 @@ type Info struct {
 	MembraneTemperature string
 	KRule               string          // how k was found
 	Custom              map[string]bool // IDs of the user-defined solutes
+	// SystemBasis: the basis was "system" (resolved as an osmotic-pressure
+	// basis; the caller ranks by the system stage).
+	SystemBasis bool
 }
 
 // Resolve turns a scenario into what engine/screen runs: presets looked
@@ -347,6 +357,7 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 		return nil, nil, e
 	}
 	sc.Basis = b
+	info.SystemBasis = req.Basis != nil && strings.EqualFold(req.Basis.Kind, "system")
 	// Weights and Pareto objectives.
 	sc.Weights = screen.DefaultWeights
 	if req.Weights != nil {
@@ -660,7 +671,7 @@ func resolveBasis(b *BasisSpec, feedHasPi bool) (screen.Basis, error) {
 		}
 		return screen.Basis{Kind: screen.BasisOsmoticPressure, PiPa: limits.BasisPressure.Default * thermo.PascalPerBar}, nil
 	}
-	kinds := []string{"osmotic-pressure", "concentration", "water-flux"}
+	kinds := []string{"osmotic-pressure", "concentration", "water-flux", "system"}
 	val := func() (float64, error) {
 		if b.Value == nil {
 			return 0, invalid("basis.value", "> 0", "the basis needs a value")
@@ -671,7 +682,14 @@ func resolveBasis(b *BasisSpec, feedHasPi bool) (screen.Basis, error) {
 		}
 		return v, nil
 	}
-	switch strings.ToLower(b.Kind) {
+	kind := strings.ToLower(b.Kind)
+	if kind == "system" {
+		if b.Value == nil && b.MultipleOfFeed == nil {
+			return resolveBasis(nil, feedHasPi)
+		}
+		kind = "osmotic-pressure"
+	}
+	switch kind {
 	case "osmotic-pressure":
 		if b.MultipleOfFeed != nil {
 			k := *b.MultipleOfFeed

@@ -326,23 +326,27 @@ func validate(in *Input) error {
 	if n := len(in.Species); n < 1 || n > MaxSpecies {
 		return inErr("species", float64(n), fmt.Sprintf("1 to %d species (solutes or ions of the draw and the feed)", MaxSpecies))
 	}
-	var zD, zF, aD, aF float64 // Σ z·c and Σ |z|·c of each bulk
+	var zD, zF, aD, aF float64 // Σ z·c and Σ max(|z|, 1)·c of each bulk
 	for i := range in.Species {
 		sp := &in.Species[i]
 		if err := validateSpecies(in, i); err != nil {
 			return err
 		}
 		z := float64(sp.Charge)
+		w := max(math.Abs(z), 1)
 		zD += z * sp.DrawBulkMolPerM3
 		zF += z * sp.FeedBulkMolPerM3
-		aD += math.Abs(z) * sp.DrawBulkMolPerM3
-		aF += math.Abs(z) * sp.FeedBulkMolPerM3
+		aD += w * sp.DrawBulkMolPerM3
+		aF += w * sp.FeedBulkMolPerM3
 	}
 	// The ions of each bulk must balance within 5 %, the usual acceptance
 	// limit of a water analysis' ion balance (common practice): published
 	// compositions balance to their rounding (seawater's Reference
 	// Composition without its minor species to 6e-6, our effluent preset to
 	// 0.5 %). The fluxes carry no current whatever the bulks' imbalance.
+	// Neutral solutes count in the scale (weight 1): a sugar draw holding
+	// traces of the feed's ions, as along a module, is not refused for
+	// the traces' rounding.
 	if math.Abs(zD) > 0.05*aD {
 		return inErr("draw", zD/aD, "electroneutral ions (Σ z·c = 0 within 5 %; this is the relative charge excess)")
 	}
