@@ -79,7 +79,29 @@ var screenColumns = []struct {
 		}
 		return fmt.Sprintf("%d-%d", c.Robustness.RankP05, c.Robustness.RankP95)
 	}},
+	{"system cost (USD/m3)", sysNum(func(m *api.SystemMetrics) float64 { return m.CostUSDPerM3 })},
+	{"system make-up (g/m3)", sysNum(func(m *api.SystemMetrics) float64 { return m.MakeUpGPerM3 })},
+	{"system energy (kWh/m3)", sysNum(func(m *api.SystemMetrics) float64 { return m.EnergyKWhPerM3 })},
+	{"system heat (kWh/m3)", sysNum(func(m *api.SystemMetrics) float64 { return m.HeatKWhPerM3 })},
+	{"system area (m2 per m3/day)", sysNum(func(m *api.SystemMetrics) float64 { return m.AreaM2PerM3PerDay })},
+	{"system regeneration route", func(c *api.ScreenCandidate) string {
+		if c.System == nil {
+			return c.SystemReason
+		}
+		return c.System.RegenerationRoute
+	}},
 	{"excluded reason", func(c *api.ScreenCandidate) string { return "" }},
+}
+
+// sysNum is a system-metric column: empty when the row was not rated at
+// plant scale.
+func sysNum(f func(*api.SystemMetrics) float64) func(*api.ScreenCandidate) string {
+	return func(c *api.ScreenCandidate) string {
+		if c.System == nil {
+			return ""
+		}
+		return num(f(c.System))
+	}
 }
 
 // trustCodes joins a row's trust codes ("van-t-hoff; b-estimated").
@@ -283,6 +305,9 @@ func screenTable(w io.Writer, r *api.ScreenResponse, bulk map[string]float64) er
 	for i, id := range notes {
 		fmt.Fprintf(&b, "[%d] %s\n", i+1, id)
 	}
+	if err := systemTable(&b, r); err != nil {
+		return err
+	}
 	if lg := trustLegend(r.Candidates); len(lg) > 0 {
 		fmt.Fprintln(&b, "trust marks (rows to read with care):")
 		for _, c := range r.Candidates {
@@ -339,6 +364,8 @@ func countWarnings(r *api.ScreenResponse) int {
 
 func basisText(b *api.BasisReport) string {
 	switch {
+	case b.Kind == "system" && b.TargetOsmoticPressureBar != nil:
+		return fmt.Sprintf("system (draws at equal π %.3g bar, ranked by cost per m³)", *b.TargetOsmoticPressureBar)
 	case b.TargetOsmoticPressureBar != nil:
 		return fmt.Sprintf("equal π %.3g bar", *b.TargetOsmoticPressureBar)
 	case b.Concentration != nil:
@@ -347,4 +374,31 @@ func basisText(b *api.BasisReport) string {
 		return fmt.Sprintf("equal water flux %.3g LMH", *b.TargetWaterFluxLMH)
 	}
 	return b.Kind
+}
+
+// systemTable writes the plant-scale rating of a screen with a system
+// object or basis: the plant, then one row per rated candidate.
+func systemTable(b *bytes.Buffer, r *api.ScreenResponse) error {
+	sy := r.System
+	if sy == nil {
+		return nil
+	}
+	fmt.Fprintf(b, "\nplant scale: %.4g m³/day of product at recovery %.3g (%s-current, draw/feed flow %.3g); %d rated; electricity %.3g USD/kWh, heat %.3g USD/kWh, membrane %.4g USD/m² over %.3g years\n",
+		sy.ProductM3PerDay, sy.Recovery, sy.Flow, sy.DrawToFeedFlowRatio, sy.Rated, sy.ElectricityUSDPerKWh, sy.HeatUSDPerKWh, sy.MembraneUSDPerM2, sy.MembraneLifeYears)
+	tw := tabwriter.NewWriter(b, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "#\tsolute\tcost USD/m³\tmake-up USD/m³\tenergy USD/m³\tmembrane USD/m³\tmake-up g/m³\tE kWh/m³\theat kWh/m³\troute\tm² per m³/d\tcoupon #\t")
+	for _, c := range r.Candidates {
+		s := c.System
+		if s == nil {
+			fmt.Fprintf(tw, "%d\t%s\t—\t\t\t\t\t\t\t%s\t\t\t\n", c.Rank, c.Solute, c.SystemReason)
+			continue
+		}
+		fmt.Fprintf(tw, "%d\t%s\t%.3g\t%.3g\t%.3g\t%.3g\t%.4g\t%.3g\t%.3g\t%s\t%.3g\t%d\t\n", c.Rank, c.Solute, s.CostUSDPerM3, s.MakeUpCostUSDPerM3,
+			s.EnergyCostUSDPerM3, s.MembraneCostUSDPerM3, s.MakeUpGPerM3, s.EnergyKWhPerM3, s.HeatKWhPerM3, s.RegenerationRoute, s.AreaM2PerM3PerDay, s.CouponRank)
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	fmt.Fprintln(b, "E: the regeneration route's electricity plus its heat as equivalent work; "+sy.Method)
+	return nil
 }
