@@ -90,6 +90,7 @@
     if (name === "solution") P.refreshSolution();
     if (name === "ranking") P.placeSticky();
     if (name === "plots") P.refit();
+    if (name === "plant") P.refreshPlant();
   }
 
   // Starting values the form suggests when the basis kind changes to one
@@ -274,6 +275,7 @@
     P.renderLibrary();
     P.buildSolutionPanel();
     P.buildFitPanel();
+    P.buildPlantPanel();
     state.ready = true;
     if (init.note) P.offer(...init.note);
     await runScreen();

@@ -19,13 +19,14 @@
   const LABELS = { a: ["A", "a_lmh_per_bar", "LMH/bar"], b: ["B", "b_lmh", "LMH"], s: ["S", "s_um", "µm"] };
 
   let seq = 0, abort = null, last = null, fitEng = null;
-  // fitEngine starts the full engine (drawsift-fit.wasm, with the fit
-  // operation) in its own worker the first time the tab fits: the page's
-  // own engine leaves the fit out to stay inside its download budget.
-  function fitEngine() {
+  // fitEngine starts the full engine (drawsift-fit.wasm, with the fit and
+  // module operations) in its own worker the first time the Fit or the
+  // Plant tab needs it: the page's own engine leaves them out to stay
+  // inside its download budget. status names the element that says so.
+  function fitEngine(status) {
     if (!fitEng) {
       const e = new window.DrawsiftEngine("drawsift-fit.wasm");
-      $("fit-status").textContent = "loading the fitting engine…";
+      $(status || "fit-status").textContent = "loading the full engine…";
       fitEng = e.start().then(() => e, err => { fitEng = null; throw err; });
     }
     return fitEng;
@@ -236,5 +237,6 @@
   }
 
   // fitLast is the last fit (request and response), for tools and tests.
-  Object.assign(P, { buildFitPanel, fitLast: () => last });
+  // fullEngine is the same on-demand engine for the Plant tab.
+  Object.assign(P, { buildFitPanel, fitLast: () => last, fullEngine: fitEngine });
 })();

@@ -19,7 +19,7 @@ const CACHE = "drawsift-" + VERSION;
 // Every file the page loads (site_test.go checks this list against
 // index.html and engine.js).
 const FILES = ["./", "app.css", "charts.js", "store.js", "engine.js", "core.js", "form.js", "results.js", "plots.js", "library.js",
-  "mixtures.js", "fit.js", "report.js", "files.js", "app.js", "worker.js", "wasm_exec.js", "drawsift.wasm?v=" + encodeURIComponent(VERSION), "icon.svg",
+  "mixtures.js", "fit.js", "plant.js", "report.js", "files.js", "app.js", "worker.js", "wasm_exec.js", "drawsift.wasm?v=" + encodeURIComponent(VERSION), "icon.svg",
   "manifest.webmanifest", "demo.json"];
 
 // The engine's version mark in its wasm: "<drawsift-engine-version:" +
