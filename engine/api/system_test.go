@@ -81,7 +81,7 @@ func TestScreenSystemBasis(t *testing.T) {
 	}
 	q := jsonNum(100e3 / 24 / 0.3)
 	body := `{"membrane": {"preset": "tfc-standard"}, "orientation": "AL-FS", "draw": {"solute": "NaCl", "concentration": ` + jsonNum(nacl.MolalityMolPerKg) +
-		`, "unit": "mol/kg", "flow_l_per_h": ` + q + `}, "feed": {"preset": "seawater", "flow_l_per_h": ` + q + `}, "target": {"recovery": 0.3}, "tolerance": 1e-6}`
+		`, "unit": "mol/kg", "flow_l_per_h": ` + q + `}, "feed": {"preset": "seawater", "flow_l_per_h": ` + q + `}, "target": {"recovery": 0.3}, "tolerance": 1e-7}`
 	out, e := Dispatch(context.Background(), OpModule, []byte(body))
 	if e != nil {
 		t.Fatal(e)

@@ -17,7 +17,7 @@ type Target struct {
 }
 
 // designRelTol: the design's area is found to this relative tolerance
-// on the permeate, or to 10× the integrator's tolerance when that is
+// on the permeate, or to 100× the integrator's tolerance when that is
 // looser (below it the permeate is noise and Brent's method only spins).
 const designRelTol = 1e-8
 
@@ -110,7 +110,7 @@ func Design(p *Problem, t Target) (*Result, error) {
 		}
 		lo, pLo, hi, pHi = hi, pHi, next, pNext
 	}
-	ftol := max(designRelTol, 10*s.rtol)
+	ftol := max(designRelTol, 100*s.rtol)
 	var fail error
 	f := func(area float64) float64 {
 		if fail != nil {
