@@ -65,6 +65,9 @@ func TestPagePlant(t *testing.T) {
 		t.Fatalf("the plant ranking ended %s: %s", got, eval[string](t, b, `document.getElementById("system-error").textContent`))
 	}
 	b.screenshot(t, "system")
+	if n := eval[string](t, b, `document.body.dataset.systemProgress`); n == "" || n == "0" {
+		t.Errorf("no progress reported while the candidates were rated (%q)", n)
+	}
 	body := eval[map[string]any](t, b, `window.DrawsiftPage.systemLast().request`)
 	want := nativeJSON[api.ScreenResponse](t, api.OpScreen, body)
 	type row struct{ Solute, Cost string }

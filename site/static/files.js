@@ -117,7 +117,12 @@
     ["B (LMH)", c => n6(c.b_lmh)], ["B estimated", c => String(!!c.b_estimated)], ["trust", c => (c.trust || []).map(m => m.code).join("; ")],
     ["hazard flags", c => (c.hazard_flags || []).join("; ")],
     ["P(first) (fraction)", c => c.robustness ? n6(c.robustness.probability_first) : ""], ["P(top 3) (fraction)", c => c.robustness ? n6(c.robustness.probability_top3) : ""],
-    ["rank 5-95 % interval", c => c.robustness ? c.robustness.rank_p05 + "-" + c.robustness.rank_p95 : ""], ["excluded reason", () => ""],
+    ["rank 5-95 % interval", c => c.robustness ? c.robustness.rank_p05 + "-" + c.robustness.rank_p95 : ""],
+    // The plant-scale columns: empty unless the screen carried a system object or basis.
+    ["system cost (USD/m3)", c => c.system ? n6(c.system.cost_usd_per_m3) : ""], ["system make-up (g/m3)", c => c.system ? n6(c.system.make_up_g_per_m3) : ""],
+    ["system energy (kWh/m3)", c => c.system ? n6(c.system.energy_kwh_per_m3) : ""], ["system heat (kWh/m3)", c => c.system ? n6(c.system.heat_kwh_per_m3) : ""],
+    ["system area (m2 per m3/day)", c => c.system ? n6(c.system.area_m2_per_m3_per_day) : ""],
+    ["system regeneration route", c => c.system ? c.system.regeneration_route : (c.system_reason || "")], ["excluded reason", () => ""],
   ];
   function rankingCSV(res) {
     const q = csvCell;

@@ -5,7 +5,8 @@
 // system basis). Both run on the on-demand full engine (P.fullEngine).
 //
 // What the page signals on <body>: data-plant done- | error-<n> (each
-// module run) and data-system done- | error-<n> (each plant ranking).
+// module run), data-system done- | error-<n> (each plant ranking) and
+// data-system-progress (the ranking's progress reports).
 (function () {
   const P = window.DrawsiftPage;
   const { $, state, C, h, clear, fmt } = P;
@@ -219,7 +220,14 @@
     $("system-status").textContent = "designing a module for every candidate…";
     const eng = await engine("system-status");
     if (eng.error) { $("btn-system").disabled = false; return systemFail(id, { message: eng.error.message }); }
-    const r = await eng.call("screen", body);
+    let reports = 0;
+    $("system-progress").value = 0;
+    document.body.dataset.systemProgress = "0";
+    const r = await eng.call("screen", body, { onProgress: f => {
+      $("system-progress").value = f;
+      $("system-status").textContent = Math.round(100 * f) + " % of the candidates rated";
+      document.body.dataset.systemProgress = String(++reports);
+    } });
     $("btn-system").disabled = false;
     if (id !== systemSeq) return;
     if (!r.ok) return systemFail(id, r.data.error || { message: "unknown error" });
