@@ -14,6 +14,7 @@
 package main
 
 import (
+	"bufio"
 	"bytes"
 	"context"
 	"encoding/json"
@@ -163,6 +164,11 @@ func runOp(op string, args []string, stdin io.Reader, stdout, stderr io.Writer) 
 			return code
 		}
 	}
+	if op == api.OpScreen && f == "json" && bytes.Contains(body, []byte(`"sweep"`)) {
+		if code, ok := streamSweep(body, stdout, stderr); ok {
+			return code
+		}
+	}
 	out, e := api.Dispatch(context.Background(), op, body)
 	if e != nil {
 		stdout.Write(out)
@@ -212,4 +218,27 @@ func withCSV(body []byte, path string) ([]byte, error) {
 	}
 	req["csv"] = enc
 	return json.Marshal(req)
+}
+
+// streamSweep prints a screen with a sweep as it is computed
+// (api.ScreenStream through an indenting writer: the bytes render would
+// print, without holding the whole sweep). ok false: an error came before
+// the answer started, and the caller answers as for any request.
+func streamSweep(body []byte, stdout, stderr io.Writer) (code int, ok bool) {
+	bw := bufio.NewWriterSize(stdout, 64<<10)
+	started, e := api.ScreenStream(context.Background(), body, &indentWriter{w: bw}, nil)
+	if e != nil && !started {
+		return 0, false
+	}
+	if e == nil {
+		bw.WriteByte('\n')
+		if err := bw.Flush(); err != nil {
+			e = &api.Error{Message: err.Error()}
+		}
+	}
+	if e != nil {
+		fmt.Fprintf(stderr, "drawsift screen: %s\n", e.Message)
+		return 1, true
+	}
+	return 0, true
 }

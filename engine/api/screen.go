@@ -29,7 +29,6 @@ type ScreenResponse struct {
 	Weights               map[string]float64 `json:"weights"`
 	ParetoObjectives      []string           `json:"pareto_objectives"`
 	Robustness            *RobustnessReport  `json:"robustness,omitempty"`
-	Sweep                 []SweepSeries      `json:"sweep,omitempty"`
 	// System restates the plant of the system stage (a "system" object or
 	// basis).
 	System   *SystemReport `json:"system,omitempty"`
@@ -44,6 +43,9 @@ type ScreenResponse struct {
 	ModelChoices  map[string]string `json:"model_choices"`
 	Sources       []Source          `json:"sources"`
 	EngineVersion string            `json:"engine_version"`
+	// Sweep comes last, so that ScreenStream can write it one series at a
+	// time after the rest (the same bytes as one encoding).
+	Sweep []SweepSeries `json:"sweep,omitempty"`
 }
 
 // BasisReport restates the basis as applied.
@@ -270,18 +272,40 @@ type (
 // Screen ranks the scenario's candidates. progress, if not nil, receives
 // (done, total) Monte Carlo samples.
 func Screen(ctx context.Context, req *ScreenRequest, progress func(done, total int)) (*ScreenResponse, *Error) {
+	resp, sc, e := screenRanked(ctx, req, progress)
+	if e != nil {
+		return nil, e
+	}
+	if req.Sweep != nil {
+		spec, err := scenario.ResolveSweep(req.Sweep)
+		if err != nil {
+			return nil, fromEngine("", err)
+		}
+		lib, _ := library.Default()
+		series, err := screen.Sweep(ctx, sc, lib, spec)
+		if err != nil {
+			return nil, fromEngine("", err)
+		}
+		resp.Sweep = sweepSeries(series, req.Sweep)
+	}
+	return resp, nil
+}
+
+// screenRanked is a screen without its sweep: the ranking, the system
+// stage, and the resolved scenario the sweep runs on.
+func screenRanked(ctx context.Context, req *ScreenRequest, progress func(done, total int)) (*ScreenResponse, *screen.Scenario, *Error) {
 	sc, info, err := scenario.Resolve(req)
 	if err != nil {
-		return nil, fromEngine("", err)
+		return nil, nil, fromEngine("", err)
 	}
 	lib, _ := library.Default()
 	res, err := screen.Run(ctx, sc, lib, progress)
 	if err != nil {
 		if errors.Is(err, context.DeadlineExceeded) {
-			return nil, deadlineError()
+			return nil, nil, deadlineError()
 		}
 		if errors.Is(err, context.Canceled) {
-			return nil, &Error{Field: "", Message: "screen cancelled: " + err.Error(), Kind: KindInvalid}
+			return nil, nil, &Error{Field: "", Message: "screen cancelled: " + err.Error(), Kind: KindInvalid}
 		}
 		var ie *errs.InputError
 		if errors.As(err, &ie) {
@@ -293,31 +317,20 @@ func Screen(ctx context.Context, req *ScreenRequest, progress func(done, total i
 				}
 				ae.Message += " — " + strings.Join(why, "; ")
 			}
-			return nil, ae
+			return nil, nil, ae
 		}
-		return nil, fromEngine("", err)
+		return nil, nil, fromEngine("", err)
 	}
 	resp := buildScreenResponse(req, sc, info, res)
-	if req.Sweep != nil {
-		spec, err := scenario.ResolveSweep(req.Sweep)
-		if err != nil {
-			return nil, fromEngine("", err)
-		}
-		series, err := screen.Sweep(ctx, sc, lib, spec)
-		if err != nil {
-			return nil, fromEngine("", err)
-		}
-		resp.Sweep = sweepSeries(series, req.Sweep)
-	}
 	if info.SystemBasis || req.System != nil {
 		if info.SystemBasis {
 			resp.Basis.Kind = "system"
 		}
 		if e := systemStage(ctx, req, info, resp, progress); e != nil {
-			return nil, e
+			return nil, nil, e
 		}
 	}
-	return resp, nil
+	return resp, sc, nil
 }
 
 func sweepSeries(series []screen.SweepSeries, sw *SweepSpec) []SweepSeries {

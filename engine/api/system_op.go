@@ -4,7 +4,6 @@ package api
 
 import (
 	"context"
-	"runtime"
 	"sort"
 	"strings"
 	"sync"
@@ -12,6 +11,7 @@ import (
 	"drawsift/engine/library"
 	"drawsift/engine/regen"
 	"drawsift/engine/scenario"
+	"drawsift/engine/screen"
 )
 
 // systemTolerance is the module integrator's tolerance in the system
@@ -30,7 +30,8 @@ type systemOutcome struct {
 // systemStage rates every ranked candidate at plant scale (SystemMetrics)
 // and, for the "system" basis, ranks them by cost per m³; those it cannot
 // rate move to excluded with the reason. Candidates are rated on every
-// core; each is independent, so the result does not depend on the order.
+// core the request may use (screen.Cores); each is independent, so the
+// result does not depend on the order.
 func systemStage(ctx context.Context, req *ScreenRequest, info *scenario.Info, resp *ScreenResponse, progress func(done, total int)) *Error {
 	sys, err := scenario.ResolveSystem(req.System)
 	if err != nil {
@@ -127,7 +128,7 @@ func systemStage(ctx context.Context, req *ScreenRequest, info *scenario.Info, r
 		next int
 		done int
 	)
-	for w := 0; w < min(runtime.GOMAXPROCS(0), n); w++ {
+	for w := 0; w < min(screen.Cores(ctx), n); w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()

@@ -54,11 +54,17 @@ func logNormalFactor(rsd float64, src rand.Source) distuv.LogNormal {
 // so they are bit for bit those of a single-core run, whatever the number
 // of workers (a test holds this).
 func (e *env) robustness(ctx context.Context, res *Result, progress func(done, total int)) error {
+	return e.robustnessOn(ctx, res, progress, Cores(ctx))
+}
+
+// Cores is how many cores work under ctx may use: those of the Go
+// runtime, at most the WithCores limit.
+func Cores(ctx context.Context) int {
 	w := robustWorkers()
 	if n, ok := ctx.Value(coresKey{}).(int); ok && n > 0 {
 		w = min(w, n)
 	}
-	return e.robustnessOn(ctx, res, progress, w)
+	return w
 }
 
 // coresKey carries the most cores one request's robustness run may use

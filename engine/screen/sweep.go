@@ -58,43 +58,13 @@ const MaxSweepWork = 20_000
 // the values of one variable, for plots. A point that fails a hard limit
 // carries its reason instead of metrics; the rest of the sweep goes on.
 func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSpec) ([]SweepSeries, error) {
-	if err := limits.SweepPoints.Check(float64(spec.Points)); err != nil {
+	if err := CheckSweep(sc, spec); err != nil {
 		return nil, err
-	}
-	if !(spec.From >= 0 && spec.To > spec.From) || math.IsInf(spec.To, 0) {
-		return nil, inputErr("sweep.to", "> from ≥ 0", "the sweep range must be finite and increasing")
-	}
-	if w := len(sc.Candidates) * len(sc.Orientations) * spec.Points; w > MaxSweepWork {
-		per := len(sc.Candidates) * len(sc.Orientations)
-		return nil, &errs.InputError{Field: "sweep.points", Value: float64(spec.Points),
-			Limit: fmt.Sprintf("≤ %d for %d candidates × %d orientations (candidates × orientations × points ≤ %d)", MaxSweepWork/per, len(sc.Candidates), len(sc.Orientations), MaxSweepWork),
-			Msg:   "the sweep is past its work budget"}
 	}
 	local := *sc // the sweep varies its own copy
 	xs := make([]float64, spec.Points)
 	for i := range xs {
 		xs[i] = spec.From + (spec.To-spec.From)*float64(i)/float64(spec.Points-1)
-	}
-	switch spec.Variable {
-	case SweepTemperature:
-		lo, hi := thermo.ZeroCelsiusK+thermo.MinTemperatureC, thermo.ZeroCelsiusK+thermo.MaxTemperatureC
-		if spec.From < lo || spec.To > hi {
-			return nil, inputErr("sweep.to", "0–100 °C", "the temperature sweep must stay within 0–100 °C")
-		}
-	case SweepS:
-		if !(spec.From > 0) {
-			return nil, inputErr("sweep.from", "> 0 µm", "S must be positive")
-		}
-	case SweepCrossflow:
-		if !(spec.From > 0) {
-			return nil, inputErr("sweep.from", "> 0 m/s", "the crossflow velocity must be positive")
-		}
-		if math.IsInf(local.KDrawMPerS, 1) && math.IsInf(local.KFeedMPerS, 1) {
-			return nil, inputErr("sweep.variable", nil, "a crossflow sweep needs external concentration polarization: external_cp is false, so crossflow has no effect")
-		}
-		if local.KDrawMPerS != 0 || local.KFeedMPerS != 0 {
-			return nil, inputErr("sweep.variable", nil, "a crossflow sweep needs k from the channel: omit k_draw_m_per_s and k_feed_m_per_s")
-		}
 	}
 	series := make([]SweepSeries, 0, len(sc.Candidates)*len(sc.Orientations))
 	for _, s := range sc.Candidates {
@@ -179,6 +149,46 @@ func Sweep(ctx context.Context, sc *Scenario, lib *library.Library, spec SweepSp
 		}
 	}
 	return series, nil
+}
+
+// CheckSweep is the sweep's own validation (points, range, work budget,
+// the variable's conditions): what Sweep refuses before it computes, for
+// a host that computes the sweep in parts (api.ScreenStream).
+func CheckSweep(sc *Scenario, spec SweepSpec) error {
+	if err := limits.SweepPoints.Check(float64(spec.Points)); err != nil {
+		return err
+	}
+	if !(spec.From >= 0 && spec.To > spec.From) || math.IsInf(spec.To, 0) {
+		return inputErr("sweep.to", "> from ≥ 0", "the sweep range must be finite and increasing")
+	}
+	if w := len(sc.Candidates) * len(sc.Orientations) * spec.Points; w > MaxSweepWork {
+		per := len(sc.Candidates) * len(sc.Orientations)
+		return &errs.InputError{Field: "sweep.points", Value: float64(spec.Points),
+			Limit: fmt.Sprintf("≤ %d for %d candidates × %d orientations (candidates × orientations × points ≤ %d)", MaxSweepWork/per, len(sc.Candidates), len(sc.Orientations), MaxSweepWork),
+			Msg:   "the sweep is past its work budget"}
+	}
+	switch spec.Variable {
+	case SweepTemperature:
+		lo, hi := thermo.ZeroCelsiusK+thermo.MinTemperatureC, thermo.ZeroCelsiusK+thermo.MaxTemperatureC
+		if spec.From < lo || spec.To > hi {
+			return inputErr("sweep.to", "0–100 °C", "the temperature sweep must stay within 0–100 °C")
+		}
+	case SweepS:
+		if !(spec.From > 0) {
+			return inputErr("sweep.from", "> 0 µm", "S must be positive")
+		}
+	case SweepCrossflow:
+		if !(spec.From > 0) {
+			return inputErr("sweep.from", "> 0 m/s", "the crossflow velocity must be positive")
+		}
+		if math.IsInf(sc.KDrawMPerS, 1) && math.IsInf(sc.KFeedMPerS, 1) {
+			return inputErr("sweep.variable", nil, "a crossflow sweep needs external concentration polarization: external_cp is false, so crossflow has no effect")
+		}
+		if sc.KDrawMPerS != 0 || sc.KFeedMPerS != 0 {
+			return inputErr("sweep.variable", nil, "a crossflow sweep needs k from the channel: omit k_draw_m_per_s and k_feed_m_per_s")
+		}
+	}
+	return nil
 }
 
 // sweepPoint evaluates candidates lo..hi−1 of e in every orientation at

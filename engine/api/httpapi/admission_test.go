@@ -215,3 +215,22 @@ func TestOversizedBodyKeepsTheConnection(t *testing.T) {
 		t.Errorf("after a closed 413: %d", st)
 	}
 }
+
+// TestSweepStreamedAsDispatched: a screen with a sweep is streamed, byte
+// for byte the answer Dispatch returns (plus the closing newline); a sweep
+// refused by its checks is a 400 before anything is written.
+func TestSweepStreamedAsDispatched(t *testing.T) {
+	body := `{"candidates": ["NaCl", "MgCl2", "KCl"], "sweep": {"variable": "concentration", "from": 0.1, "to": 2, "unit": "mol/L", "points": 6}}`
+	want, e := api.Dispatch(context.Background(), api.OpScreen, []byte(body))
+	if e != nil {
+		t.Fatal(e)
+	}
+	rec := post(New(Options{}), "/v1/screen", body)
+	if rec.Code != http.StatusOK || rec.Header().Get("Content-Type") != "application/json" || rec.Header().Get("Content-Length") != "" {
+		t.Fatalf("status %d, Content-Type %q, Content-Length %q", rec.Code, rec.Header().Get("Content-Type"), rec.Header().Get("Content-Length"))
+	}
+	if got := rec.Body.String(); got != string(want)+"\n" {
+		t.Errorf("streamed sweep differs from Dispatch:\n got %.300s\nwant %.300s", got, want)
+	}
+	mustError(t, post(New(Options{}), "/v1/screen", `{"sweep": {"variable": "concentration", "from": 0.1, "to": 2, "unit": "mol/L", "points": 1000}}`), http.StatusBadRequest, "sweep.points")
+}

@@ -189,7 +189,10 @@ type handler struct {
 	dispatch func(ctx context.Context, op string, body []byte) ([]byte, *api.Error)
 	// batch streams a batch answer (api.BatchStream); nil when dispatch
 	// is replaced, and then batches go through dispatch.
-	batch   func(ctx context.Context, body []byte, w io.Writer) (bool, *api.Error)
+	batch func(ctx context.Context, body []byte, w io.Writer) (bool, *api.Error)
+	// sweep streams a screen with a sweep (api.ScreenStream); nil when
+	// dispatch is replaced.
+	sweep   func(ctx context.Context, body []byte, w io.Writer) (bool, *api.Error)
 	timeout time.Duration
 	heavy   *admission
 	cores   int // per heavy request
@@ -227,6 +230,9 @@ func New(opts Options) http.Handler {
 		h.dispatch = api.Dispatch
 		h.batch = func(ctx context.Context, body []byte, w io.Writer) (bool, *api.Error) {
 			return api.BatchStream(ctx, body, w, nil)
+		}
+		h.sweep = func(ctx context.Context, body []byte, w io.Writer) (bool, *api.Error) {
+			return api.ScreenStream(ctx, body, w, nil)
 		}
 	}
 	switch {
@@ -332,6 +338,12 @@ func (h *handler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 		h.streamBatch(ctx, w, id, body)
 		return
 	}
+	// A screen with a sweep is written a block of series at a time (the
+	// same bytes); the key's mere presence is enough to choose the path.
+	if rt.op == api.OpScreen && h.sweep != nil && bytes.Contains(body, []byte(`"sweep"`)) {
+		h.stream(ctx, w, id, body, "screen", h.sweep)
+		return
+	}
 	out, e := h.dispatch(ctx, rt.op, body)
 	if e != nil {
 		if e.Kind == api.KindInternal {
@@ -347,14 +359,22 @@ func (h *handler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 // the first answer gets its own status; after it, the array is completed
 // (items past the deadline answer ok false with the deadline error).
 func (h *handler) streamBatch(ctx context.Context, w http.ResponseWriter, id string, body []byte) {
+	h.stream(ctx, w, id, body, "batch", h.batch)
+}
+
+// stream writes a streamed answer (a batch, or a screen's sweep): an
+// error before the first byte gets its own status; after it, the answer
+// is completed by the operation itself.
+func (h *handler) stream(ctx context.Context, w http.ResponseWriter, id string, body []byte, what string,
+	run func(context.Context, []byte, io.Writer) (bool, *api.Error)) {
 	sw := &startWriter{w: w}
-	started, e := h.batch(ctx, body, sw)
+	started, e := run(ctx, body, sw)
 	if e != nil && !started {
 		h.writeError(w, id, h.timed(e))
 		return
 	}
 	if e != nil {
-		h.logf("request %s: batch: %s", id, e.Message)
+		h.logf("request %s: %s: %s", id, what, e.Message)
 		return
 	}
 	w.Write([]byte{'\n'}) // every JSON answer ends with a newline
