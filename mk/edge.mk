@@ -20,6 +20,9 @@ FUZZ_TARGETS := FuzzOsmotic FuzzFlux FuzzScreen FuzzBatch FuzzOsmoticFields Fuzz
 # The module's valid requests cost milliseconds (an integration per
 # shooting step): fewer inputs keep the run near the others' length.
 FUZZTIME_MODULE ?= 20000x
+# A system screen designs a module per candidate (milliseconds each;
+# most fuzzed values are refused at once: about 6 s).
+FUZZTIME_SYSTEM ?= 20000x
 
 # workerd, the edge platform's open-source runtime: a binary shipped inside
 # the npm package (@cloudflare/workerd-linux-64, pulled in by workerd).
@@ -65,3 +68,5 @@ fuzz:
 	done
 	@echo "fuzz FuzzModuleFields ($(FUZZTIME_MODULE))"
 	@$(GO) test -run '^$$' -fuzz '^FuzzModuleFields$$' -fuzztime $(FUZZTIME_MODULE) $(FUZZ_PKG)
+	@echo "fuzz FuzzSystemFields ($(FUZZTIME_SYSTEM))"
+	@$(GO) test -run '^$$' -fuzz '^FuzzSystemFields$$' -fuzztime $(FUZZTIME_SYSTEM) $(FUZZ_PKG)

@@ -159,24 +159,45 @@ func FuzzFluxFields(f *testing.F) {
 
 // FuzzModuleFields builds well-formed module requests from fuzzed values
 // (concentrations, flows, area or target, flow arrangement, pressure
-// drops), to reach the module's range checks and solvers behind the
-// decoder: every answer is a finite 200 or the contract's error.
+// drops, regeneration parameters), to reach the module's range checks and
+// solvers behind the decoder: every answer is a finite 200 or the
+// contract's error.
 func FuzzModuleFields(f *testing.F) {
-	f.Add(1.0, 35.0, 40.0, 80.0, 2.0, 0.0, 0.0, "counter", "AL-FS")
-	f.Add(2.0, 5.0, 10.0, 10.0, 0.0, 0.5, 0.01, "co", "AL-DS")
-	f.Add(0.5, 70.0, 1e-3, 1e6, 1e5, 0.0, 0.0, "counter", "AL-FS")
-	f.Add(3.0, 0.0, 40.0, 40.0, 0.0, 0.99, 0.0, "co", "AL-FS")
+	f.Add(1.0, 35.0, 40.0, 80.0, 2.0, 0.0, 0.0, "counter", "AL-FS", 0.8, 0.995, 3.0)
+	f.Add(2.0, 5.0, 10.0, 10.0, 0.0, 0.5, 0.01, "co", "AL-DS", 1.0, 0.5, 30.0)
+	f.Add(0.5, 70.0, 1e-3, 1e6, 1e5, 0.0, 0.0, "counter", "AL-FS", 0.1, 0.0, 0.1)
+	f.Add(3.0, 0.0, 40.0, 40.0, 0.0, 0.99, 0.0, "co", "AL-FS", 2.0, 1.0, -1.0)
 	h := New(Options{})
-	f.Fuzz(func(t *testing.T, cDraw, sal, qd, qf, area, rec, drop float64, flow, orientation string) {
+	f.Fuzz(func(t *testing.T, cDraw, sal, qd, qf, area, rec, drop float64, flow, orientation string, pump, rej, gor float64) {
 		size := fmt.Sprintf(`"area_m2":%s`, jnum(area))
 		if rec != 0 {
 			size = fmt.Sprintf(`"target":{"recovery":%s}`, jnum(rec))
 		}
 		body := fmt.Sprintf(`{"membrane":{"preset":"tfc-standard"},"orientation":%s,"flow":%s,`+
 			`"draw":{"solute":"NaCl","concentration":%s,"unit":"mol/L","flow_l_per_h":%s},`+
-			`"feed":{"preset":"seawater","concentration":%s,"flow_l_per_h":%s},%s,"draw_pressure_drop_bar_per_m2":%s,"profile_points":5}`,
-			jstr(orientation), jstr(flow), jnum(cDraw), jnum(qd), jnum(sal), jnum(qf), size, jnum(drop))
+			`"feed":{"preset":"seawater","concentration":%s,"flow_l_per_h":%s},%s,"draw_pressure_drop_bar_per_m2":%s,"profile_points":5,`+
+			`"regeneration":{"pump_efficiency":%s,"ro_rejection":%s,"md_gained_output_ratio":%s}}`,
+			jstr(orientation), jstr(flow), jnum(cDraw), jnum(qd), jnum(sal), jnum(qf), size, jnum(drop), jnum(pump), jnum(rej), jnum(gor))
 		rec0 := do(h, http.MethodPost, "/v1/module", "application/json", strings.NewReader(body))
+		checkAnswer(t, rec0.Code, rec0.Body.Bytes())
+	})
+}
+
+// FuzzSystemFields builds well-formed screens on the system basis from
+// fuzzed values (the draws' π, recovery, product, flow ratio and prices)
+// for two candidates against seawater: every answer is a finite 200 or
+// the contract's error.
+func FuzzSystemFields(f *testing.F) {
+	f.Add(52.0, 0.3, 100.0, 1.0, 0.1, 30.0, 5.0, "counter")
+	f.Add(80.0, 0.6, 1e7, 20.0, 0.0, 0.0, 50.0, "co")
+	f.Add(30.0, 0.95, 1e-3, 0.05, 10.0, 1e4, 0.1, "counter")
+	f.Add(-1.0, 0.0, 0.0, 0.0, -1.0, -1.0, 0.0, "sideways")
+	h := New(Options{})
+	f.Fuzz(func(t *testing.T, pi, rec, product, ratio, elec, mem, life float64, flow string) {
+		body := fmt.Sprintf(`{"feed":{"preset":"seawater"},"candidates":["NaCl","MgCl2"],"basis":{"kind":"system","value":%s,"unit":"bar"},`+
+			`"system":{"recovery":%s,"product_m3_per_day":%s,"draw_to_feed_flow_ratio":%s,"flow":%s,"prices":{"electricity_usd_per_kwh":%s,"membrane_usd_per_m2":%s,"membrane_life_years":%s}}}`,
+			jnum(pi), jnum(rec), jnum(product), jnum(ratio), jstr(flow), jnum(elec), jnum(mem), jnum(life))
+		rec0 := do(h, http.MethodPost, "/v1/screen", "application/json", strings.NewReader(body))
 		checkAnswer(t, rec0.Code, rec0.Body.Bytes())
 	})
 }
