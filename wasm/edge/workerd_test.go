@@ -310,17 +310,23 @@ func TestEdgeInWorkerd(t *testing.T) {
 	}
 
 	// Past the deadline (one second on the "short" worker), a CPU-bound
-	// robustness run and a sweep stop with the contract's 504, not the
-	// platform cutting them off: each needs many seconds of CPU (the
-	// whole library at 100,000 samples, 3 million evaluations; 340 sweep
-	// points of every candidate in two orientations, with every point a
-	// fresh preparation).
+	// robustness run and a sweep stop by the contract, not the platform
+	// cutting them off: each needs many seconds of CPU (the whole library
+	// at 100,000 samples, 3 million evaluations; 340 sweep points of every
+	// candidate in two orientations, with every point a fresh
+	// preparation). The robustness run answers 504; the sweep, streamed a
+	// candidate at a time, answers 504 if the deadline passes before its
+	// first candidate is done, else a complete 200 whose later series
+	// carry the deadline at every point (api.ScreenStream).
 	for _, body := range []string{`{"uncertainty":{"samples":100000}}`,
 		`{"orientations":["AL-DS"],"sweep":{"variable":"temperature","from":5,"to":60,"points":340}}`} {
 		got := sendTo(t, short, edgeRequest{Name: "past the deadline", Method: "POST", Path: "/v1/screen", Headers: js, Body: &body})
 		t.Logf("past the deadline: workerd answered %d in %.1f ms", got.Status, got.MS)
-		if got.Status != http.StatusGatewayTimeout || !strings.Contains(got.Body, `"field":"deadline"`) || !strings.Contains(got.Body, `"limit":"1s"`) {
-			t.Errorf("%.60s past a 1 s deadline: %d %.300s; want 504 on field deadline, limit 1s", body, got.Status, got.Body)
+		timedOut := got.Status == http.StatusGatewayTimeout && strings.Contains(got.Body, `"field":"deadline"`) && strings.Contains(got.Body, `"limit":"1s"`)
+		partial := strings.Contains(body, "sweep") && got.Status == http.StatusOK && strings.Contains(got.Body, `"reason":"not computed: context deadline exceeded"`) &&
+			strings.HasSuffix(strings.TrimSpace(got.Body), "]}")
+		if !timedOut && !partial {
+			t.Errorf("%.60s past a 1 s deadline: %d %.300s; want 504 on field deadline, limit 1s (or, for the sweep, its later series marked not computed)", body, got.Status, got.Body)
 		}
 	}
 }
