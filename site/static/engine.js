@@ -41,7 +41,7 @@
     async start() {
       let w, init;
       if (bundled() && this.wasm !== "drawsift.wasm") {
-        throw new Error("The single-file page carries the screening engine only; the Fit tab needs the served page (drawsift serve) or the CLI (drawsift fit).");
+        throw new Error("The single-file page carries the screening engine only; the Fit and Plant tabs need the served page (drawsift serve) or the CLI (drawsift fit, drawsift module, drawsift screen with the system basis).");
       }
       if (bundled()) {
         const src = document.getElementById("ds-worker").textContent;
