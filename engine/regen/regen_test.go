@@ -192,6 +192,12 @@ func TestSecondLawEveryDraw(t *testing.T) {
 					if params.CarnotFraction == 1 && r.Feasible && r.Route != DirectUse && r.EquivalentWorkKWhPerM3 < min*(1-1e-12) {
 						t.Errorf("%s %g °C %s: %.4g kWh/m³ below the minimum %.4g", rec.ID, tc, r.Route, r.EquivalentWorkKWhPerM3, min)
 					}
+					// The heat routes' second-law flag must not hide every
+					// case: at 25 °C with the defaults, MD (70 °C, GOR 3) and
+					// thermal stripping (60 °C) are feasible where they apply.
+					if tc == 25 && (r.Route == MD || r.Route == Thermal) && r.Applicable && !r.Feasible {
+						t.Errorf("%s at 25 °C: %s infeasible at the defaults: %s", rec.ID, r.Route, r.Reason)
+					}
 				}
 			}
 		}
