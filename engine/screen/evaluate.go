@@ -170,6 +170,9 @@ type candidate struct {
 	warnings   []warn.Warning
 	excl       *exclusion // set at preparation (hazard, bad temperature)
 	osmRelSD   float64
+	// regenTab: the regeneration energy tabulated for a robustness run
+	// (nil: the exact quadrature).
+	regenTab *regenTable
 }
 
 type ionCount struct {
@@ -668,6 +671,16 @@ func (e *env) metricsAt(c *candidate, ori transport.Orientation, m float64, p *p
 // diluted so that a fraction r of its water is the product, back to
 // molality m.
 func (e *env) regenEnergy(c *candidate, m float64) float64 {
+	if t := c.regenTab; t != nil {
+		if v, ok := t.at(m); ok {
+			return v
+		}
+	}
+	return e.regenEnergyExact(c, m)
+}
+
+// regenEnergyExact is regenEnergy by the quadrature on the exact π.
+func (e *env) regenEnergyExact(c *candidate, m float64) float64 {
 	r := e.sc.RegenerationRecovery
 	mDil := m * (1 - r)
 	if e.sc.VantHoff {
