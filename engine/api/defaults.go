@@ -205,14 +205,8 @@ func BatchStream(ctx context.Context, body []byte, w io.Writer, progress func(do
 		e.Field = errs.Join("batch", e.Field)
 		return false, e
 	}
-	var werr error
-	write := func(b ...[]byte) {
-		for _, p := range b {
-			if werr == nil {
-				_, werr = w.Write(p)
-			}
-		}
-	}
+	sw := &stickyWriter{w: w}
+	write := sw.write
 	e = batchEach(ctx, items, progress, func(i int, r BatchResult) error {
 		b, err := jsonx.Marshal(r)
 		if err != nil {
@@ -224,7 +218,7 @@ func BatchStream(ctx context.Context, body []byte, w io.Writer, progress func(do
 			started, sep = true, []byte{'['}
 		}
 		write(sep, b)
-		return werr
+		return sw.err
 	})
 	switch {
 	case e != nil && !started:
@@ -234,8 +228,8 @@ func BatchStream(ctx context.Context, body []byte, w io.Writer, progress func(do
 	default:
 		write([]byte{']'})
 	}
-	if werr != nil {
-		return true, &Error{Field: "batch", Message: "writing the answer: " + werr.Error(), Kind: KindInvalid}
+	if sw.err != nil {
+		return true, &Error{Field: "batch", Message: "writing the answer: " + sw.err.Error(), Kind: KindInvalid}
 	}
 	return true, nil
 }

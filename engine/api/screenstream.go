@@ -72,15 +72,8 @@ func ScreenStream(ctx context.Context, body []byte, w io.Writer, progress func(d
 	if e != nil {
 		return false, e
 	}
-	var werr error
-	write := func(b ...[]byte) {
-		for _, p := range b {
-			if werr == nil {
-				_, werr = w.Write(p)
-				started = true
-			}
-		}
-	}
+	sw := &stickyWriter{w: w}
+	write := sw.write
 	sep := []byte(`,"sweep":[`)
 	emit := func(series []SweepSeries) {
 		for i := range series {
@@ -92,9 +85,10 @@ func ScreenStream(ctx context.Context, body []byte, w io.Writer, progress func(d
 			sep = []byte{','}
 		}
 	}
+	started = true // from here on the answer is completed, never replaced by an error
 	write(head[:len(head)-1])
 	emit(first)
-	for lo := block; lo < len(sc.Candidates) && werr == nil; lo += block {
+	for lo := block; lo < len(sc.Candidates) && sw.err == nil; lo += block {
 		series, err := part(lo)
 		if err != nil {
 			series = notComputed(sc, lo, block, req.Sweep, spec.Points, err.Error())
@@ -102,10 +96,25 @@ func ScreenStream(ctx context.Context, body []byte, w io.Writer, progress func(d
 		emit(series)
 	}
 	write([]byte("]}"))
-	if werr != nil {
-		return true, &Error{Field: "sweep", Message: "writing the answer: " + werr.Error(), Kind: KindInvalid}
+	if sw.err != nil {
+		return true, &Error{Field: "sweep", Message: "writing the answer: " + sw.err.Error(), Kind: KindInvalid}
 	}
 	return true, nil
+}
+
+// stickyWriter writes until the first error and keeps it, for the
+// streamed answers (BatchStream, ScreenStream).
+type stickyWriter struct {
+	w   io.Writer
+	err error
+}
+
+func (s *stickyWriter) write(b ...[]byte) {
+	for _, p := range b {
+		if s.err == nil {
+			_, s.err = s.w.Write(p)
+		}
+	}
 }
 
 func writeAll(w io.Writer, b []byte) (bool, *Error) {
