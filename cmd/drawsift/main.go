@@ -47,7 +47,7 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		return 0
 	}
 	switch cmd {
-	case api.OpOsmotic, api.OpFlux, api.OpScreen, api.OpBatch, api.OpFit, api.OpModule:
+	case api.OpOsmotic, api.OpFlux, api.OpScreen, api.OpBatch, api.OpFit, api.OpModule, api.OpRobustnessMerge:
 		return runOp(cmd, rest, stdin, stdout, stderr)
 	case api.OpDefaults:
 		if len(rest) > 0 {

@@ -23,7 +23,7 @@ func render(w io.Writer, op, format string, resp []byte) error {
 		return err
 	case "csv", "table":
 		switch op {
-		case "screen":
+		case "screen", "robustness-merge":
 			return renderScreen(w, format, resp)
 		case "osmotic":
 			return renderOsmotic(w, format, resp)

@@ -41,7 +41,7 @@ const (
 )
 
 // Operations lists every operation Dispatch runs.
-var Operations = []string{OpOsmotic, OpFlux, OpScreen, OpSolutes, OpPresets, OpDefaults, OpBatch, OpFit, OpModule, OpHealth}
+var Operations = []string{OpOsmotic, OpFlux, OpScreen, OpSolutes, OpPresets, OpDefaults, OpBatch, OpFit, OpModule, OpRobustnessMerge, OpHealth}
 
 // Error kinds, mapped to HTTP statuses by the hosts.
 const (
@@ -138,6 +138,11 @@ func DispatchProgress(ctx context.Context, op string, body []byte, progress func
 		resp, e = fitOp(ctx, body, progress)
 	case OpModule:
 		resp, e = moduleOp(ctx, body)
+	case OpRobustnessMerge:
+		var req RobustnessMergeRequest
+		if e = decode(body, &req); e == nil {
+			resp, e = RobustnessMerge(&req)
+		}
 	case OpHealth:
 		resp = Health{Status: "ok", EngineVersion: EngineVersion, JSON: jsonx.Library}
 	default:

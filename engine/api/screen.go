@@ -68,9 +68,21 @@ type ScoreReference struct {
 
 // RobustnessReport describes the Monte Carlo run.
 type RobustnessReport struct {
-	Samples       int    `json:"samples"`
+	Samples       int    `json:"samples"` // the samples this run evaluated
 	Seed          uint64 `json:"seed"`
 	Distributions string `json:"distributions"`
+	// Shard: this run is one part of a run split by uncertainty.shard
+	// (its figures are over its own samples); robustness-merge adds the
+	// parts into the whole run's answer.
+	Shard *RobustnessShard `json:"shard,omitempty"`
+}
+
+// RobustnessShard names the part a sharded run evaluated.
+type RobustnessShard struct {
+	Index int `json:"index"`
+	Count int `json:"count"`
+	// SamplesAll is the whole run's number of samples (uncertainty.samples).
+	SamplesAll int `json:"samples_all"`
 }
 
 // FluxMetrics are the orientation-dependent metrics.
@@ -214,6 +226,9 @@ type CandidateRobustness struct {
 	RankMedian       int     `json:"rank_median"`
 	RankP95          int     `json:"rank_p95"`
 	FailedFraction   float64 `json:"failed_fraction"`
+	// RankCounts[r-1] counts the samples in which it ranked r; the last
+	// entry (one past the ranked candidates) those in which it failed.
+	RankCounts []int `json:"rank_counts"`
 }
 
 // ScreenExcluded is a candidate listed apart.
@@ -492,8 +507,7 @@ func buildScreenResponse(req *ScreenRequest, sc *screen.Scenario, info *scenario
 			c.OtherOrientations = append(c.OtherOrientations, fluxMetrics(oo.Metrics))
 		}
 		if rb := r.Robustness; rb != nil {
-			c.Robustness = &CandidateRobustness{ProbabilityFirst: rb.PFirst, ProbabilityTop3: rb.PTop3,
-				RankP05: rb.RankP05, RankMedian: rb.RankMedian, RankP95: rb.RankP95, FailedFraction: rb.FailedFraction}
+			c.Robustness = candidateRobustness(rb)
 		}
 		resp.Candidates = append(resp.Candidates, c)
 		kinds[r.Solute.Osmotic.Kind] = true
@@ -507,6 +521,9 @@ func buildScreenResponse(req *ScreenRequest, sc *screen.Scenario, info *scenario
 				"π per candidate %s, D per candidate %.3g, estimated B per candidate %.3g (on top of the shared B); prices %s; "+
 				"PCG stream (math/rand/v2) seeded with the scenario seed, gonum stat/distuv; rank quantiles empirical",
 			u.ARelSD, u.BRelSD, u.SRelSD, osmoticSDText(u), u.DiffusivityRelSD, u.EstimatedBRelSD, priceText(u.Prices))}
+		if u.ShardCount > 1 {
+			resp.Robustness.Shard = &RobustnessShard{Index: u.ShardIndex, Count: u.ShardCount, SamplesAll: u.Samples}
+		}
 	}
 	model := "real (non-ideal) osmotic pressure"
 	if sc.VantHoff {

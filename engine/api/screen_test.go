@@ -167,6 +167,10 @@ func TestScreenBadScenarios(t *testing.T) {
 		{"orientation", `{"orientation": "sideways"}`, "orientation"},
 		{"hazard", `{"exclude_hazards": ["spicy"]}`, "exclude_hazards[0]"},
 		{"samples", `{"uncertainty": {"samples": 0}}`, "uncertainty.samples"},
+		{"shard count", `{"uncertainty": {"samples": 10, "shard": {"index": 0, "count": 65}}}`, "uncertainty.shard.count"},
+		{"shard count past samples", `{"uncertainty": {"samples": 3, "shard": {"index": 0, "count": 4}}}`, "uncertainty.shard.count"},
+		{"shard index", `{"uncertainty": {"samples": 10, "shard": {"index": 2, "count": 2}}}`, "uncertainty.shard.index"},
+		{"shard index negative", `{"uncertainty": {"samples": 10, "shard": {"index": -1, "count": 2}}}`, "uncertainty.shard.index"},
 		{"temperature", `{"temperature_c": 150}`, "temperature_c"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {

@@ -232,6 +232,11 @@ var (
 	// and S scatter, a custom one takes the defaults below.
 	Samples = Range{Field: "uncertainty.samples", Min: 1, Max: 100000, Integer: true, Default: 1000, HasDefault: true,
 		Why: "10⁵ samples bound a request's time"}
+	// RobustnessShards: the parts a robustness run may be split into
+	// (uncertainty.shard.count), one per Web Worker or API request; 64 is
+	// our own bound (more parts than cores gain nothing).
+	RobustnessShards = Range{Field: "uncertainty.shard.count", Min: 1, Max: 64, Integer: true,
+		Why: "the parts of one robustness run (our own bound)"}
 	ARelSD = Range{Field: "uncertainty.a_rel_sd", Min: 0, Max: 2, Default: 0.10, HasDefault: true,
 		Why: "relative SD; custom-membrane default 10 % (common practice, from memory)"}
 	BRelSD = Range{Field: "uncertainty.b_rel_sd", Min: 0, Max: 2, Default: 0.30, HasDefault: true,
@@ -401,7 +406,7 @@ func Ranges() []*Range {
 		&ChannelHeight, &ChannelWidth, &ChannelLength, &Crossflow, &FeedCrossflow,
 		&FeedPH, &FeedIonMgPerL, &FeedIonMolarMass, &RegenerationRecovery, &Seed,
 		&BasisValue, &BasisMultiple, &BasisPressure, &BasisFlux, &Weight,
-		&Samples, &ARelSD, &BRelSD, &SRelSD, &OsmoticRelSD, &VantHoffOsmoticRelSD, &DiffusivityRelSD, &EstimatedBRelSD,
+		&Samples, &RobustnessShards, &ARelSD, &BRelSD, &SRelSD, &OsmoticRelSD, &VantHoffOsmoticRelSD, &DiffusivityRelSD, &EstimatedBRelSD,
 		&Concentration, &SweepPoints, &CustomMolarMass, &CustomDiffusivity, &CustomVantHoff, &CustomSolubility, &CustomPrice, &PiTablePoints,
 		&HazardFlagCount, &ExcludeHazardCount, &CustomIonCharge, &CustomIonCount, &CustomIonEntries,
 		&FitRows, &FitWaterFlux, &FitReverseFlux, &FitWaterFluxSD, &FitReverseFluxSD, &FitRelError, &FitAbsWaterFlux, &FitAbsReverseFlux, &FitConfidence, &FitBootstrapSample,

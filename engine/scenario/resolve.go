@@ -122,6 +122,16 @@ type UncertaintySpec struct {
 	// (default limits.EstimatedBRelSD).
 	EstimatedBRelSD *float64 `json:"estimated_b_rel_sd,omitempty"`
 	Prices          *bool    `json:"prices,omitempty"`
+	// Shard runs one part of the samples (several engines share a run;
+	// the robustness-merge operation adds the parts up).
+	Shard *ShardSpec `json:"shard,omitempty"`
+}
+
+// ShardSpec names one part of a robustness run split into Count parts:
+// the samples s with s mod Count = Index.
+type ShardSpec struct {
+	Index int `json:"index"`
+	Count int `json:"count"`
 }
 
 // SweepSpec asks for series against one variable.
@@ -440,6 +450,12 @@ func Resolve(req *Spec) (*screen.Scenario, *Info, error) {
 		}
 		if u.Prices != nil {
 			su.Prices = *u.Prices
+		}
+		if sh := u.Shard; sh != nil {
+			if err := limits.RobustnessShards.Check(float64(sh.Count)); err != nil {
+				return nil, nil, err
+			}
+			su.ShardIndex, su.ShardCount = sh.Index, sh.Count
 		}
 		sc.Uncertainty = su
 	}

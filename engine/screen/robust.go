@@ -28,6 +28,10 @@ type Robustness struct {
 	// FailedFraction: samples where the candidate failed a hard limit; they
 	// count neither towards PFirst nor PTop3.
 	FailedFraction float64
+	// RankCounts[r-1] is the number of samples in which it ranked r; the
+	// last entry (r = n+1) counts the failed ones. The other figures
+	// follow from it (RobustnessOf), and the counts of a run's parts add.
+	RankCounts []int
 }
 
 // seedStream is the second PCG word; with the scenario's seed it fixes the
@@ -115,9 +119,8 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 			Limit: fmt.Sprintf("≤ %d for %d ranked candidates (candidates × samples ≤ %d)", MaxRobustWork/n, n, MaxRobustWork),
 			Msg:   "the robustness run is past its work budget"}
 	}
-	// ranks[k*total + s] is candidate k's rank in sample s (n+1: failed);
-	// each sample's column is written by one worker.
-	ranks := make([]int32, n*total)
+	// This run's part of the samples: s ≡ index (mod parts).
+	parts, part := max(1, u.ShardCount), u.ShardIndex
 	chunk := min(robustChunk, total)
 	perts := make([]perturb, chunk*n)
 	workers = max(1, min(workers, chunk))
@@ -164,17 +167,19 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 				}
 			}
 		}
-		// Evaluate it: worker i takes samples i, i+W, i+2W, …
+		// Evaluate this part's samples of the chunk: worker i takes the
+		// i-th, (i+W)-th, … of them.
+		first := (part - done%parts + parts) % parts // the chunk's first sample of this part
 		var wg sync.WaitGroup
 		for i, w := range ws {
 			wg.Add(1)
 			go func() {
 				defer wg.Done()
-				for s := i; s < size; s += workers {
-					if s%8 == 0 && ctx.Err() != nil {
+				for j, s := 0, first+i*parts; s < size; j, s = j+1, s+workers*parts {
+					if j%8 == 0 && ctx.Err() != nil {
 						return
 					}
-					w.sample(perts[s*n:(s+1)*n], ranks, done+s, total)
+					w.sample(perts[s*n : (s+1)*n])
 				}
 			}()
 		}
@@ -188,36 +193,53 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 	if err := ctx.Err(); err != nil {
 		return err
 	}
-	res.Samples = total
-	for k := range res.Ranked {
-		rk := ranks[k*total : (k+1)*total]
-		slices.Sort(rk)
-		first, top3, failed := 0, 0, 0
-		for _, r := range rk {
-			switch {
-			case int(r) == n+1:
-				failed++
-			case r <= 3:
-				top3++
-				if r == 1 {
-					first++
-				}
-			}
+	// The counts are integers, so their sum is the same whatever the
+	// number of workers (or parts, in MergeRobustness).
+	counts := make([]int, n*(n+1))
+	for _, w := range ws {
+		for i, c := range w.counts {
+			counts[i] += c
 		}
-		rb := &Robustness{FailedFraction: float64(failed) / float64(total),
-			PFirst: float64(first) / float64(total), PTop3: float64(top3) / float64(total)}
-		rb.RankP05 = rankQuantile(rk, 0.05)
-		rb.RankMedian = rankQuantile(rk, 0.50)
-		rb.RankP95 = rankQuantile(rk, 0.95)
-		res.Ranked[k].Robustness = rb
+	}
+	res.Samples = 0
+	for _, c := range counts[:n+1] {
+		res.Samples += c
+	}
+	for k := range res.Ranked {
+		rb := RobustnessOf(counts[k*(n+1) : (k+1)*(n+1)])
+		res.Ranked[k].Robustness = &rb
 	}
 	return nil
 }
 
+// RobustnessOf turns one candidate's rank counts (counts[r-1]: samples
+// in which it ranked r among the n = len(counts)−1 candidates; counts[n]:
+// samples in which it failed a hard limit) into its figures.
+func RobustnessOf(counts []int) Robustness {
+	n, total := len(counts)-1, 0
+	for _, c := range counts {
+		total += c
+	}
+	rb := Robustness{RankCounts: slices.Clone(counts)}
+	if total == 0 || n < 1 {
+		return rb
+	}
+	top3 := 0
+	for _, c := range counts[:min(3, n)] {
+		top3 += c
+	}
+	t := float64(total)
+	rb.PFirst, rb.PTop3, rb.FailedFraction = float64(counts[0])/t, float64(top3)/t, float64(counts[n])/t
+	rb.RankP05 = rankQuantile(counts, total, 0.05)
+	rb.RankMedian = rankQuantile(counts, total, 0.50)
+	rb.RankP95 = rankQuantile(counts, total, 0.95)
+	return rb
+}
+
 // MaxRobustWork bounds a robustness run: ranked candidates × samples
 // (the whole library at 100,000 samples is about 3 million). It keeps the
-// run's time and its rank table (4 bytes a cell) bounded; the error says
-// how many samples the scenario's candidates allow.
+// run's time bounded; the error says how many samples the scenario's
+// candidates allow.
 const MaxRobustWork = 4_000_000
 
 // robustWorker evaluates samples on its own copy of what an evaluation
@@ -237,6 +259,9 @@ type robustWorker struct {
 	scratch transport.Result
 	contrib [NumObjectives]float64
 	ref     *Reference // the nominal reference draw (NormaliseReference)
+	// counts[k*(n+1) + r-1]: the samples in which candidate k ranked r
+	// (r = n+1: it failed a hard limit).
+	counts []int
 }
 
 func newRobustWorker(e *env, ci []int) *robustWorker {
@@ -244,7 +269,7 @@ func newRobustWorker(e *env, ci []int) *robustWorker {
 	we := e.forWorker()
 	w := &robustWorker{e: we, cands: make([]*candidate, n), names: make([]string, n),
 		vals: make([][NumObjectives]float64, n), known: make([][NumObjectives]bool, n), norm: make([][NumObjectives]float64, n),
-		ok: make([]bool, n), scores: make([]float64, n), idx: make([]int, n)}
+		ok: make([]bool, n), scores: make([]float64, n), idx: make([]int, n), counts: make([]int, n*(n+1))}
 	for k, j := range ci {
 		w.cands[k] = &we.cands[j]
 		w.names[k] = we.cands[j].sol.ID
@@ -252,10 +277,10 @@ func newRobustWorker(e *env, ci []int) *robustWorker {
 	return w
 }
 
-// sample evaluates, scores and ranks sample s's perturbations (one per
-// candidate, in rank order of the nominal run) and writes each
-// candidate's rank into its row of ranks (n+1 where it failed).
-func (w *robustWorker) sample(perts []perturb, ranks []int32, s, total int) {
+// sample evaluates, scores and ranks one sample's perturbations (one per
+// candidate, in rank order of the nominal run) and counts each
+// candidate's rank (n+1 where it failed).
+func (w *robustWorker) sample(perts []perturb) {
 	e, n := w.e, len(w.cands)
 	ori := e.sc.Orientations[0]
 	for k, c := range w.cands {
@@ -280,11 +305,11 @@ func (w *robustWorker) sample(perts []perturb, ranks []int32, s, total int) {
 	}
 	order(w.idx, w.scores, w.names)
 	for r, k := range w.idx {
-		rank := int32(r + 1) // failed candidates sort last, so r counts ranked ones only
+		rank := r + 1 // failed candidates sort last, so r counts ranked ones only
 		if !w.ok[k] {
-			rank = int32(n + 1)
+			rank = n + 1
 		}
-		ranks[k*total+s] = rank
+		w.counts[k*(n+1)+rank-1]++
 	}
 }
 
@@ -317,8 +342,14 @@ func (e *env) forWorker() *env {
 }
 
 // rankQuantile returns the smallest rank whose cumulative count reaches
-// p·len(sorted) in the sorted ranks of one candidate.
-func rankQuantile(sorted []int32, p float64) int {
-	i := int(math.Ceil(p*float64(len(sorted)))) - 1
-	return int(sorted[max(0, min(i, len(sorted)-1))])
+// ⌈p·total⌉ (at least one sample): the ⌈p·total⌉-th of the sorted ranks.
+func rankQuantile(counts []int, total int, p float64) int {
+	need := max(1, min(total, int(math.Ceil(p*float64(total)))))
+	cum := 0
+	for r, c := range counts {
+		if cum += c; cum >= need {
+			return r + 1
+		}
+	}
+	return len(counts)
 }

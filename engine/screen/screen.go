@@ -199,6 +199,12 @@ type Uncertainty struct {
 	EstimatedBRelSD float64
 	// Prices: draw each price uniformly within its range.
 	Prices bool
+	// Shard splits the run between several engines (the page's Web
+	// Workers, several API requests): this run evaluates only the samples
+	// s with s mod ShardCount = ShardIndex, every sample still drawn in
+	// the stream's order, and MergeRobustness adds the parts' rank counts
+	// into the figures of the whole run. ShardCount 0 or 1: every sample.
+	ShardIndex, ShardCount int
 }
 
 // The default spreads of the robustness run are the defaults of their
@@ -299,6 +305,17 @@ func (sc *Scenario) validate() error {
 			if err := limits.Samples.Check(float64(u.Samples)); err != nil {
 				return err
 			}
+		}
+		if u.ShardCount != 0 {
+			if err := limits.RobustnessShards.Check(float64(u.ShardCount)); err != nil {
+				return err
+			}
+			if u.ShardCount > max(1, u.Samples) {
+				return inputErr("uncertainty.shard.count", fmt.Sprintf("≤ uncertainty.samples (%d)", u.Samples), "more parts than samples")
+			}
+		}
+		if u.ShardIndex < 0 || u.ShardIndex >= max(1, u.ShardCount) {
+			return inputErr("uncertainty.shard.index", fmt.Sprintf("0–%d (whole number, below uncertainty.shard.count)", max(1, u.ShardCount)-1), "no such part")
 		}
 		for _, f := range []struct {
 			r *limits.Range

@@ -4,6 +4,7 @@ import (
 	"context"
 	"math"
 	"math/rand/v2"
+	"reflect"
 	"sort"
 	"strings"
 	"testing"
@@ -199,10 +200,10 @@ func TestRobustnessReproducible(t *testing.T) {
 	differ := false
 	for i := range a.Ranked {
 		ra, rb, rc := a.Ranked[i].Robustness, b.Ranked[i].Robustness, c.Ranked[i].Robustness
-		if *ra != *rb {
+		if !reflect.DeepEqual(ra, rb) {
 			t.Errorf("%s: seed 1 twice gave %+v and %+v", a.Ranked[i].Solute.ID, *ra, *rb)
 		}
-		if *ra != *rc {
+		if !reflect.DeepEqual(ra, rc) {
 			differ = true
 		}
 		if !(ra.RankP05 <= ra.RankMedian && ra.RankMedian <= ra.RankP95) {
@@ -568,9 +569,93 @@ func TestRobustnessWorkersIdentical(t *testing.T) {
 			continue
 		}
 		for k := range want {
-			if *r.Ranked[k].Robustness != *want[k].Robustness {
+			if !reflect.DeepEqual(r.Ranked[k].Robustness, want[k].Robustness) {
 				t.Errorf("%d workers, %s: %+v; 1 worker: %+v", w, want[k].Solute.ID, *r.Ranked[k].Robustness, *want[k].Robustness)
 			}
+		}
+	}
+}
+
+// A robustness run split into parts (Uncertainty.Shard*) adds up to the
+// whole run: each part evaluates its own samples of the one stream, and
+// the parts' rank counts sum to the whole run's, so the merged figures
+// are bit for bit the whole run's (here 3 parts of 601 samples, with 2
+// workers inside each part).
+func TestRobustnessShardsAddUp(t *testing.T) {
+	defer func(f func() int) { robustWorkers = f }(robustWorkers)
+	robustWorkers = func() int { return 2 }
+	whole, err := Run(context.Background(), robustScenario(t, 601), lib(t), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	const parts = 3
+	n := len(whole.Ranked)
+	sum := make([][]int, n)
+	samples := 0
+	for p := 0; p < parts; p++ {
+		sc := robustScenario(t, 601)
+		sc.Uncertainty.ShardIndex, sc.Uncertainty.ShardCount = p, parts
+		r, err := Run(context.Background(), sc, lib(t), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if want := (601 - p + parts - 1) / parts; r.Samples != want {
+			t.Errorf("part %d ran %d samples, want %d", p, r.Samples, want)
+		}
+		samples += r.Samples
+		for k := range r.Ranked {
+			if r.Ranked[k].Solute.ID != whole.Ranked[k].Solute.ID {
+				t.Fatalf("part %d ranks %s where the whole run has %s", p, r.Ranked[k].Solute.ID, whole.Ranked[k].Solute.ID)
+			}
+			if sum[k] == nil {
+				sum[k] = make([]int, n+1)
+			}
+			for i, c := range r.Ranked[k].Robustness.RankCounts {
+				sum[k][i] += c
+			}
+		}
+	}
+	if samples != whole.Samples {
+		t.Errorf("the parts ran %d samples, the whole run %d", samples, whole.Samples)
+	}
+	for k := range whole.Ranked {
+		if got := RobustnessOf(sum[k]); !reflect.DeepEqual(&got, whole.Ranked[k].Robustness) {
+			t.Errorf("%s: merged %+v, whole run %+v", whole.Ranked[k].Solute.ID, got, *whole.Ranked[k].Robustness)
+		}
+	}
+}
+
+// RobustnessOf gives the figures of their definitions over a list of
+// ranks: the fractions ranked first, in the top three and failed, and the
+// empirical quantiles (the ⌈p·N⌉-th of the sorted ranks).
+func TestRobustnessOfCounts(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	for trial := 0; trial < 200; trial++ {
+		n := 1 + rng.IntN(12)
+		ranks := make([]int, 1+rng.IntN(300))
+		counts := make([]int, n+1)
+		first, top3, failed := 0, 0, 0
+		for i := range ranks {
+			ranks[i] = 1 + rng.IntN(n+1)
+			counts[ranks[i]-1]++
+			switch {
+			case ranks[i] == n+1:
+				failed++
+			case ranks[i] <= 3:
+				top3++
+				if ranks[i] == 1 {
+					first++
+				}
+			}
+		}
+		sort.Ints(ranks)
+		N := len(ranks)
+		q := func(p float64) int { return ranks[max(0, int(math.Ceil(p*float64(N)))-1)] }
+		got := RobustnessOf(counts)
+		want := Robustness{PFirst: float64(first) / float64(N), PTop3: float64(top3) / float64(N), FailedFraction: float64(failed) / float64(N),
+			RankP05: q(0.05), RankMedian: q(0.5), RankP95: q(0.95), RankCounts: counts}
+		if !reflect.DeepEqual(got, want) {
+			t.Fatalf("trial %d (n %d, %d samples): %+v, want %+v", trial, n, N, got, want)
 		}
 	}
 }

@@ -135,6 +135,7 @@ var routes = []route{
 	{"/v1/" + api.OpBatch, http.MethodPost, api.OpBatch},
 	{"/v1/" + api.OpFit, http.MethodPost, api.OpFit},
 	{"/v1/" + api.OpModule, http.MethodPost, api.OpModule},
+	{"/v1/" + api.OpRobustnessMerge, http.MethodPost, api.OpRobustnessMerge},
 	{"/v1/" + api.OpHealth, http.MethodGet, api.OpHealth},
 }
 
