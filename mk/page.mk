@@ -7,7 +7,9 @@
 #                    tab only) + build/wasm_exec.js (same toolchain)
 #   make bundle      build/drawsift.html, the page as one file for file://
 #   make page-bench  wasm size, bundle size, navigation → first ranked result
-#                    in headless Chromium (a benchmark, not a test)
+#                    (with its phases), the warm screen's round trip, and a
+#                    robustness run on one and on every worker, in headless
+#                    Chromium (benchmarks, not tests; medians of 5 runs)
 #   make page-serve  the page and the API on 127.0.0.1:$(PORT)
 #   make test-site   the page's browser tests (headless Chromium), part of make test
 
@@ -65,7 +67,7 @@ $(PAGE_HTML): build $(PAGE_WASM) $(PAGE_EXEC) $(SITE_SRC)
 	./$(BIN)/drawsift bundle -o $@ --wasm $(PAGE_WASM)
 
 page-bench: $(PAGE_WASM)
-	$(GO) test -run '^$$' -bench PageFirstResult -benchtime 5x ./site/
+	$(GO) test -run '^$$' -bench 'Page(FirstResult|WarmScreen|Robustness)' -benchtime 5x -timeout 30m ./site/
 
 page-serve: build wasm
 	./$(BIN)/drawsift serve --addr 127.0.0.1:$(PORT) --wasm $(PAGE_WASM)

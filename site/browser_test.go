@@ -33,6 +33,8 @@ import (
 	"os/exec"
 	"path/filepath"
 	"regexp"
+	"slices"
+	"sort"
 	"strconv"
 	"strings"
 	"sync"
@@ -117,6 +119,14 @@ func pageBuild(t testing.TB) pageProducts {
 		}
 		if buildErr = run([]string{"GOOS=js", "GOARCH=wasm"}, "build", "-tags", "stdjson", "-trimpath", "-ldflags=-s -w", "-o", filepath.Join(dir, "drawsift-fit.wasm"), "./wasm/page"); buildErr != nil {
 			return
+		}
+		// Compressed beside the wasm as `make wasm` does, so that the
+		// server sends it from the first request (it compresses a file
+		// without one itself, which would count in the first visit).
+		for _, w := range []string{p.wasm, filepath.Join(dir, "drawsift-fit.wasm")} {
+			if buildErr = gzipFile(w); buildErr != nil {
+				return
+			}
 		}
 		goroot, err := exec.Command("go", "env", "GOROOT").Output()
 		if err != nil {
@@ -696,6 +706,80 @@ func TestPageRobustness(t *testing.T) {
 	b.waitRun(t, run)
 }
 
+// TestPageRobustnessWorkers: a robustness run split between two Web
+// Workers (each a part of the samples, added up by the engine's
+// robustness-merge) gives exactly the answer of one worker, and the
+// figures of the native engine's run of the same request within the
+// last-bit differences of js/wasm math (a sample may rank two near-tied
+// candidates the other way round).
+func TestPageRobustnessWorkers(t *testing.T) {
+	b, _ := openServed(t)
+	runWith := func(workers int) string {
+		b.do(t, chromedp.Evaluate[chromedp.Void](fmt.Sprintf(`window.DrawsiftPage.state.robustWorkers = %d; delete document.body.dataset.robust`, workers)),
+			chromedp.SetValue(chromedp.ID("unc-samples"), "401"),
+			chromedp.Evaluate[chromedp.Void](`document.getElementById("unc-samples").dispatchEvent(new Event("change", {bubbles: true}))`),
+			chromedp.Click(chromedp.ID("btn-robust")))
+		b.waitFor(t, `["done", "error", "cancelled"].includes(document.body.dataset.robust)`)
+		if st := eval[string](t, b, `document.body.dataset.robust`); st != "done" {
+			t.Fatalf("the run on %d workers ended %s: %s", workers, st, eval[string](t, b, `document.getElementById("run-error").textContent`))
+		}
+		if got := eval[string](t, b, `document.body.dataset.robustWorkers`); got != strconv.Itoa(workers) {
+			t.Fatalf("the run used %s workers, want %d", got, workers)
+		}
+		return eval[string](t, b, `JSON.stringify(window.DrawsiftPage.state.robust)`)
+	}
+	one, two := runWith(1), runWith(2)
+	if one != two {
+		t.Fatalf("2 workers answered\n%s\n1 worker\n%s", two, one)
+	}
+	var page struct {
+		Candidates []struct {
+			Solute     string `json:"solute"`
+			Robustness struct {
+				RankCounts []int   `json:"rank_counts"`
+				PTop3      float64 `json:"probability_top3"`
+			} `json:"robustness"`
+		} `json:"candidates"`
+		Scenario json.RawMessage `json:"scenario"`
+	}
+	if err := json.Unmarshal([]byte(two), &page); err != nil {
+		t.Fatal(err)
+	}
+	if bytes.Contains(page.Scenario, []byte(`"shard"`)) {
+		t.Errorf("the merged answer echoes a part's shard: %s", page.Scenario)
+	}
+	out, e := api.Dispatch(context.Background(), api.OpScreen, page.Scenario)
+	if e != nil {
+		t.Fatalf("native run of the page's request: %s", out)
+	}
+	var nat struct {
+		Candidates []struct {
+			Solute     string `json:"solute"`
+			Robustness struct {
+				RankCounts []int   `json:"rank_counts"`
+				PTop3      float64 `json:"probability_top3"`
+			} `json:"robustness"`
+		} `json:"candidates"`
+	}
+	if err := json.Unmarshal(out, &nat); err != nil {
+		t.Fatal(err)
+	}
+	if len(nat.Candidates) != len(page.Candidates) {
+		t.Fatalf("page ranks %d candidates, native %d", len(page.Candidates), len(nat.Candidates))
+	}
+	for i, c := range page.Candidates {
+		n := nat.Candidates[i]
+		sum := 0
+		for _, k := range c.Robustness.RankCounts {
+			sum += k
+		}
+		if c.Solute != n.Solute || sum != 401 || math.Abs(c.Robustness.PTop3-n.Robustness.PTop3) > 0.01 {
+			t.Errorf("%s: page counts %v (P(top 3) %g); native %s %v (%g)", c.Solute, c.Robustness.RankCounts, c.Robustness.PTop3,
+				n.Solute, n.Robustness.RankCounts, n.Robustness.PTop3)
+		}
+	}
+}
+
 // TestPagePrintReport prints to PDF and finds the report's sections.
 func TestPagePrintReport(t *testing.T) {
 	b, _ := openServed(t)
@@ -1019,23 +1103,137 @@ func BenchmarkPageFirstResult(b *testing.B) {
 		b.Fatal(err)
 	}
 	url, _ := startServe(b, p)
+	// The page's marks (performance.mark in engine.js and app.js), in ms
+	// after navigation: where the time to the first result goes.
+	phases := []string{"ds:compiled:drawsift.wasm", "ds:engine-ready", "ds:library-read", "ds:form-built", "ds:first-result"}
 	for _, target := range []struct{ name, url string }{{"served", url}, {"bundle", "file://" + p.bundle}} {
 		b.Run(target.name, func(b *testing.B) {
-			var total float64
+			var first, again []float64
+			at := make([][]float64, len(phases))
 			for i := 0; i < b.N; i++ {
 				bs := browser(b) // a fresh profile each time: a first visit
 				b.ResetTimer()
 				bs.do(b, chromedp.Navigate(target.url))
 				bs.waitRun(b, "")
-				ms := eval[float64](b, bs, `Number(document.body.dataset.firstResultMs)`)
-				total += ms
+				first = append(first, eval[float64](b, bs, `Number(document.body.dataset.firstResultMs)`))
+				marks := eval[map[string]float64](b, bs, `Object.fromEntries(performance.getEntriesByType("mark").map(m => [m.name, m.startTime]))`)
+				for k, ph := range phases {
+					at[k] = append(at[k], marks[ph])
+				}
+				// A revisit in the same profile, once the engine has warmed
+				// up: the browser's caches (and the service worker when
+				// served) now hold the page and the compiled engine.
+				bs.waitFor(b, `document.body.dataset.warm === "done"`)
+				bs.do(b, chromedp.Navigate(target.url))
+				bs.waitRun(b, "")
+				again = append(again, eval[float64](b, bs, `Number(document.body.dataset.firstResultMs)`))
 			}
-			b.ReportMetric(total/float64(b.N), "ms/first-result")
+			b.ReportMetric(median(first), "ms/first-result")
+			b.ReportMetric(spread(first), "ms-spread/first-result")
+			b.ReportMetric(median(again), "ms/first-result-revisit")
+			for k, ph := range phases {
+				b.ReportMetric(median(at[k]), "ms/"+strings.TrimPrefix(strings.TrimSuffix(ph, ":drawsift.wasm"), "ds:"))
+			}
 			b.ReportMetric(float64(len(wasm)), "wasm-bytes")
 			b.ReportMetric(float64(gzipLen(wasm)), "wasm-gzip-bytes")
 			b.ReportMetric(float64(bundle.Size()), "bundle-bytes")
 		})
 	}
+}
+
+// jsTimeScreens runs the page's current scenario through its engine n
+// times, one after another as edits would, and returns each round trip
+// in ms (the worker's message, the engine, the reply parsed).
+const jsTimeScreens = `(async n => {
+	const P = window.DrawsiftPage, sc = P.engineScenario(P.state.scenario, false), out = [];
+	for (let i = 0; i < n; i++) {
+		const t0 = performance.now();
+		const r = await P.state.engine.call("screen", sc);
+		if (!r.ok) throw new Error(JSON.stringify(r.data));
+		out.push(performance.now() - t0);
+	}
+	return out;
+})`
+
+// BenchmarkPageWarmScreen: the demo screen's round trip in the page once
+// the page has started (its engine warmed during start-up): the first
+// screens after the first result, and the steady state (the median of
+// screens 21–40).
+func BenchmarkPageWarmScreen(b *testing.B) {
+	p := pageBuild(b)
+	url, _ := startServe(b, p)
+	var early, steady []float64
+	for i := 0; i < b.N; i++ {
+		bs := browser(b)
+		bs.do(b, chromedp.Navigate(url))
+		bs.waitRun(b, "")
+		bs.waitFor(b, `document.body.dataset.warm === "done"`)
+		ms := eval[[]float64](b, bs, jsTimeScreens+`(40)`)
+		early = append(early, median(ms[:5]))
+		steady = append(steady, median(ms[20:]))
+	}
+	b.ReportMetric(median(early), "ms/screen-first5")
+	b.ReportMetric(median(steady), "ms/screen-steady")
+	b.ReportMetric(spread(steady), "ms-spread/screen-steady")
+}
+
+// BenchmarkPageRobustness: 1,000 samples of the demo scenario in the
+// page, on one worker and on every worker the page uses
+// (navigator.hardwareConcurrency, at most 4).
+func BenchmarkPageRobustness(b *testing.B) {
+	p := pageBuild(b)
+	url, _ := startServe(b, p)
+	bs := browser(b)
+	bs.do(b, chromedp.Navigate(url))
+	bs.waitRun(b, "")
+	cores := eval[int](b, bs, `window.DrawsiftPage.robustWorkerCount()`)
+	var times [2][]float64
+	for i := 0; i < b.N; i++ {
+		for k, workers := range []int{1, cores} {
+			bs.do(b, chromedp.Evaluate[chromedp.Void](fmt.Sprintf(`window.DrawsiftPage.state.robustWorkers = %d; delete document.body.dataset.robust`, workers)),
+				chromedp.SetValue(chromedp.ID("unc-samples"), "1000"), chromedp.Click(chromedp.ID("btn-robust")))
+			bs.waitFor(b, `["done", "error", "cancelled"].includes(document.body.dataset.robust)`)
+			if st := eval[string](b, bs, `document.body.dataset.robust`); st != "done" {
+				b.Fatalf("the robustness run ended %s", st)
+			}
+			times[k] = append(times[k], eval[float64](b, bs, `Number(document.body.dataset.robustMs)`))
+		}
+	}
+	b.ReportMetric(median(times[0]), "ms/robust-1-worker")
+	b.ReportMetric(median(times[1]), fmt.Sprintf("ms/robust-%d-workers", cores))
+	b.ReportMetric(median(times[0])/median(times[1]), "speed-up")
+}
+
+// median and spread (max − min) of a benchmark's samples.
+func median(x []float64) float64 {
+	y := append([]float64(nil), x...)
+	sort.Float64s(y)
+	if len(y) == 0 {
+		return 0
+	}
+	return (y[(len(y)-1)/2] + y[len(y)/2]) / 2
+}
+
+func spread(x []float64) float64 {
+	if len(x) == 0 {
+		return 0
+	}
+	return slices.Max(x) - slices.Min(x)
+}
+
+// gzipFile writes p.gz (gzip -9).
+func gzipFile(p string) error {
+	b, err := os.ReadFile(p)
+	if err != nil {
+		return err
+	}
+	var buf bytes.Buffer
+	zw, _ := gzip.NewWriterLevel(&buf, gzip.BestCompression)
+	zw.Write(b)
+	if err := zw.Close(); err != nil {
+		return err
+	}
+	return os.WriteFile(p+".gz", buf.Bytes(), 0o644)
 }
 
 func gzipLen(b []byte) int {

@@ -24,6 +24,11 @@ func TestPageVersionIsEngineVersion(t *testing.T) {
 	if string(m[1]) != api.EngineVersion {
 		t.Errorf("index.html says engine %s; the engine is %s", m[1], api.EngineVersion)
 	}
+	// The engine's download starts from the head (a preload), at the URL
+	// engine.js fetches: the same version.
+	if !strings.Contains(string(b), `<link rel="preload" href="drawsift.wasm?v=`+api.EngineVersion+`" as="fetch" type="application/wasm" crossorigin>`) {
+		t.Errorf("index.html does not preload drawsift.wasm?v=%s", api.EngineVersion)
+	}
 }
 
 // TestPageNoForeignOrigins: the page's files name no other origin, no

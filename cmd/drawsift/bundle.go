@@ -76,6 +76,7 @@ var (
 	reStyle     = regexp.MustCompile(`<link rel="stylesheet" href="([a-z0-9_-]+\.css)">`)
 	reIcon      = regexp.MustCompile(`<link rel="icon" href="([a-z0-9_-]+\.svg)" type="image/svg\+xml">`)
 	reManifest  = regexp.MustCompile(`<link rel="manifest" href="[^"]*">\n?`)
+	rePreload   = regexp.MustCompile(`<link rel="preload" [^>]*>\n?`)
 )
 
 // buildBundle turns the site's index.html into one self-contained page.
@@ -87,7 +88,7 @@ var (
 // <script> elements of non-script types, which the browser never runs;
 // engine.js builds the worker from a Blob and decompresses the wasm with
 // DecompressionStream. The manifest is dropped (file:// has no service
-// worker) and the icon becomes a data: URL.
+// worker), so is the wasm's preload, and the icon becomes a data: URL.
 func buildBundle(files fs.FS, wasm, wasmExec []byte) ([]byte, error) {
 	read := func(name string) (string, error) {
 		b, err := fs.ReadFile(files, name)
@@ -129,6 +130,7 @@ func buildBundle(files fs.FS, wasm, wasmExec []byte) ([]byte, error) {
 		html = strings.Replace(html, m[0], `<link rel="icon" href="data:image/svg+xml;base64,`+base64.StdEncoding.EncodeToString([]byte(icon))+`">`, 1)
 	}
 	html = reManifest.ReplaceAllString(html, "")
+	html = rePreload.ReplaceAllString(html, "") // the wasm travels inside the page
 
 	worker, err := read("worker.js")
 	if err != nil {

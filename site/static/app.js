@@ -70,7 +70,10 @@
     state.result = r.data;
     state.robust = null;
     P.renderResult(r.data, performance.now() - t0);
-    if (!document.body.dataset.firstResultMs) document.body.dataset.firstResultMs = String(Math.round(performance.now()));
+    if (!document.body.dataset.firstResultMs) {
+      document.body.dataset.firstResultMs = String(Math.round(performance.now()));
+      performance.mark("ds:first-result");
+    }
     finish("done", seq, edit);
     P.refreshSolution();
     P.renderPlots(seq);
@@ -250,6 +253,7 @@
     }
     P.status("Engine " + engine.version + " ready");
     document.body.dataset.engine = "ready";
+    performance.mark("ds:engine-ready");
     // The engine's defaults and limits come first: the scenario the page
     // opens with is checked against them.
     const defaults = engine.call("defaults").then(r => {
@@ -264,6 +268,7 @@
       return;
     }
     if (!pr.ok || !so.ok) { P.banner("The engine's library could not be read."); return; }
+    performance.mark("ds:library-read");
     state.membranes = pr.data.membranes; state.feeds = pr.data.feeds; state.library = so.data.solutes;
     for (const c of init.sc.custom_solutes || []) if (!state.custom.some(x => x.id.toLowerCase() === c.id.toLowerCase())) state.custom.push(c);
     P.buildForm();
@@ -278,7 +283,21 @@
     P.buildPlantPanel();
     state.ready = true;
     if (init.note) P.offer(...init.note);
+    performance.mark("ds:form-built");
     await runScreen();
+    warmUp();
+  }
+
+  // warmUp runs the opening scenario's screen again in the engine while
+  // the page is idle after the first result: the browser compiles a
+  // WebAssembly function with its optimising tier only once it has run
+  // often, and without this the user's first edits would pay for it.
+  // Body data-warm: running | done.
+  const warmRuns = 24;
+  async function warmUp() {
+    document.body.dataset.warm = "running";
+    await state.engine.warm("screen", P.engineScenario(state.scenario, false), warmRuns);
+    document.body.dataset.warm = "done";
   }
 
   Object.assign(P, { setScenario, changed, scheduleRun, runScreen, selectTab, stale });

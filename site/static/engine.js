@@ -20,7 +20,25 @@
     return await new Response(stream).arrayBuffer();
   }
 
-  let bundleBytes = null; // decompressed once, copied for each (re)start
+  // compiled holds one compiled module per engine build, shared by every
+  // worker that runs it (the page's engine, the robustness helpers, a
+  // restart): the download and the compilation happen once, and the
+  // browser's optimising tier works on code that all of them run.
+  const compiled = new Map();
+  function compile(wasm) {
+    let p = compiled.get(wasm);
+    if (!p) {
+      p = bundled() ? wasmBytes().then(b => WebAssembly.compile(b)) : (async () => {
+        const url = new URL(wasm + "?v=" + encodeURIComponent(expected), document.baseURI).href;
+        const resp = await fetch(url, { credentials: "same-origin" });
+        if (!resp.ok) throw new Error("could not load the engine (" + resp.status + " " + resp.statusText + ")");
+        return WebAssembly.compileStreaming(resp);
+      })();
+      p.then(() => performance.mark("ds:compiled:" + wasm), () => compiled.delete(wasm)); // a failure is tried again on restart
+      compiled.set(wasm, p);
+    }
+    return p;
+  }
 
   class Engine {
     // wasm names the engine build to load: drawsift.wasm (the page's), or
@@ -35,11 +53,12 @@
       // or found another engine version); every call then fails with it.
       this.broken = null;
       this.onstatus = () => {};
+      this.idlers = []; // resolved when no call is pending (warm)
     }
 
     // start creates the worker and resolves with the engine's version.
     async start() {
-      let w, init;
+      let w;
       if (bundled() && this.wasm !== "drawsift.wasm") {
         throw new Error("The single-file page carries the screening engine only; the Fit and Plant tabs need the served page (drawsift serve) or the CLI (drawsift fit, drawsift module, drawsift screen with the system basis).");
       }
@@ -48,14 +67,12 @@
         const url = URL.createObjectURL(new Blob([src], { type: "text/javascript" }));
         w = new Worker(url);
         URL.revokeObjectURL(url);
-        if (!bundleBytes) bundleBytes = await wasmBytes();
-        const copy = bundleBytes.slice(0);
-        init = () => w.postMessage({ type: "init", bytes: copy }, [copy]);
       } else {
         w = new Worker("worker.js");
-        const url = new URL(this.wasm + "?v=" + encodeURIComponent(expected), document.baseURI).href;
-        init = () => w.postMessage({ type: "init", url: url });
       }
+      // The worker starts (and loads wasm_exec.js) while the module compiles.
+      const module = compile(this.wasm);
+      const init = async () => w.postMessage({ type: "init", module: await module });
       this.worker = w;
       const ready = new Promise((resolve, reject) => {
         w.onmessage = ev => {
@@ -66,7 +83,7 @@
         };
         w.onerror = ev => { ev.preventDefault(); reject(new Error(ev.message || "the engine worker failed")); };
       });
-      init();
+      await Promise.all([init(), ready]);
       const v = await ready;
       w.onmessage = ev => this.message(ev.data);
       this.version = v;
@@ -85,6 +102,7 @@
       if (m.type === "progress") { if (p.onProgress) p.onProgress(m.fraction); return; }
       if (m.type === "done") {
         this.pending.delete(m.id);
+        if (!this.pending.size) for (const f of this.idlers.splice(0)) f();
         let data;
         try { data = JSON.parse(m.text); } catch (e) { data = { error: { field: "", message: "unreadable engine reply" } }; }
         p.resolve({ ok: m.ok, data: data });
@@ -106,6 +124,18 @@
       });
     }
 
+    // warm runs op on body up to times times while no other call waits,
+    // so that the browser has compiled the engine's hot code with its
+    // optimising tier before the user's next edit needs it; a call the
+    // page makes meanwhile goes first (it waits at most one warm run).
+    async warm(op, body, times) {
+      for (let i = 0; i < times && !this.broken; i++) {
+        while (this.pending.size) await new Promise(f => this.idlers.push(f));
+        const r = await this.call(op, body);
+        if (!r.ok) return;
+      }
+    }
+
     // cancel asks the engine to stop; if it has not stopped within a
     // second (a long step that never yields), the worker is replaced.
     cancel(id) {
@@ -122,6 +152,7 @@
       const old = this.worker;
       for (const [, p] of this.pending) p.resolve({ ok: false, cancelled: true, data: { error: { field: "", message: "cancelled" } } });
       this.pending.clear();
+      for (const f of this.idlers.splice(0)) f();
       if (old) old.terminate();
       this.onstatus("restarting");
       // Every restart checks the version again (start does); a failure is

@@ -331,6 +331,54 @@
   // body data-robust is running | done | cancelled | error; data-robust-
   // progress counts the progress reports of the current run.
   let robustAbort = null;
+
+  // robustWorkerCount: the engines a robustness run is split between, one
+  // per core the browser reports, at most 4 (each holds its own copy of
+  // the engine's memory); state.robustWorkers, when set, overrides it.
+  function robustWorkerCount() {
+    return state.robustWorkers || Math.max(1, Math.min(4, navigator.hardwareConcurrency || 1));
+  }
+  // robustEngines returns n started engines: the page's own and helpers
+  // on the same compiled module, started on first use and kept. A helper
+  // that cannot start is left out (the run is split fewer ways).
+  async function robustEngines(n) {
+    state.helpers = state.helpers || [];
+    while (state.helpers.length < n - 1) {
+      const e = new window.DrawsiftEngine();
+      state.helpers.push(e.start().then(() => e, () => null));
+    }
+    const started = await Promise.all(state.helpers.slice(0, n - 1));
+    return [state.engine, ...started.filter(e => e && !e.broken)];
+  }
+
+  // robustCall runs the robustness screen sc: on one engine as it is, or
+  // split into one part per engine (uncertainty.shard) and the parts added
+  // up by the engine's robustness-merge (the same answer, byte for byte,
+  // as one engine's). Progress is the mean of the parts'.
+  async function robustCall(sc, signal, onProgress) {
+    const engines = await robustEngines(Math.min(robustWorkerCount(), sc.uncertainty.samples));
+    document.body.dataset.robustWorkers = String(engines.length);
+    if (engines.length === 1) return state.engine.call("screen", sc, { signal, onProgress });
+    const frac = engines.map(() => 0);
+    const parts = await Promise.all(engines.map((e, i) => {
+      const part = Object.assign({}, sc, { uncertainty: Object.assign({}, sc.uncertainty, { shard: { index: i, count: engines.length } }) });
+      return e.call("screen", part, { signal, onProgress: f => { frac[i] = f; onProgress(frac.reduce((a, b) => a + b, 0) / frac.length); } });
+    }));
+    const bad = parts.find(r => r.cancelled) || parts.find(r => !r.ok);
+    if (bad || signal.aborted) return bad || { ok: false, cancelled: true, data: { error: { field: "", message: "cancelled" } } };
+    // The merge needs of each part only what tells the parts apart and
+    // their counts; its figures then go into the first part's answer.
+    const slim = d => ({ scenario: d.scenario, engine_version: d.engine_version, robustness: d.robustness,
+      candidates: d.candidates.map(c => ({ solute: c.solute, robustness: c.robustness })) });
+    const m = await state.engine.call("robustness-merge", { parts: parts.map(r => slim(r.data)) });
+    if (!m.ok) return m;
+    const out = parts[0].data;
+    out.scenario = m.data.scenario;
+    out.robustness = m.data.robustness;
+    out.candidates.forEach((c, k) => { c.robustness = m.data.candidates[k].robustness; });
+    return { ok: true, data: out };
+  }
+
   async function runRobust() {
     if (!state.ready || robustAbort) return;
     P.clearErrors();
@@ -347,12 +395,9 @@
     document.body.dataset.robustProgress = "0";
     document.body.dataset.robust = "running";
     const t0 = performance.now();
-    const r = await state.engine.call("screen", sc, {
-      signal: robustAbort.signal,
-      onProgress: f => {
-        $("robust-progress").value = f; $("robust-status").textContent = Math.round(100 * f) + " % of " + sc.uncertainty.samples + " samples";
-        document.body.dataset.robustProgress = String(++reports);
-      },
+    const r = await robustCall(sc, robustAbort.signal, f => {
+      $("robust-progress").value = f; $("robust-status").textContent = Math.round(100 * f) + " % of " + sc.uncertainty.samples + " samples";
+      document.body.dataset.robustProgress = String(++reports);
     });
     const aborted = robustAbort.signal.aborted;
     robustAbort = null;
@@ -369,8 +414,11 @@
       document.body.dataset.robust = "error";
       return;
     }
+    const ms = performance.now() - t0, workers = Number(document.body.dataset.robustWorkers);
+    document.body.dataset.robustMs = String(ms);
     $("robust-progress").value = 1;
-    $("robust-status").textContent = "Done: " + r.data.robustness.samples + " samples in " + ((performance.now() - t0) / 1000).toFixed(1) + " s (seed " + r.data.robustness.seed + ").";
+    $("robust-status").textContent = "Done: " + r.data.robustness.samples + " samples in " + (ms / 1000).toFixed(1) + " s" +
+      (workers > 1 ? " on " + workers + " workers" : "") + " (seed " + r.data.robustness.seed + ").";
     state.robust = r.data;
     renderRobust();
     P.renderSources();
@@ -417,5 +465,5 @@
     box.appendChild(P.figure("robustness", svg, "Bar: ranks from the 5th to the 95th percentile; dot: median; diamond: nominal rank. A short bar near 1 is a robust choice."));
   }
 
-  Object.assign(P, { scoreBasisText, trustSymbol, trustLegend, columns, shownColumns, showAllColumns, placeSticky, renderResult, renderTable, renderScaling, runRobust, cancelRobust, renderRobust });
+  Object.assign(P, { scoreBasisText, trustSymbol, trustLegend, columns, shownColumns, showAllColumns, placeSticky, renderResult, renderTable, renderScaling, runRobust, cancelRobust, renderRobust, robustWorkerCount, robustCall });
 })();

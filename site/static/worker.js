@@ -3,7 +3,8 @@
 // bundle the page builds this worker from a Blob that already holds
 // wasm_exec.js followed by this file.
 //
-// Messages in:  {type: "init", url} or {type: "init", bytes: ArrayBuffer}
+// Messages in:  {type: "init", module: WebAssembly.Module} (compiled once
+//               by the page and shared by its workers)
 //               {type: "call", id, op, body}
 //               {type: "cancel", id}
 // Messages out: {type: "ready", version} | {type: "failed", message}
@@ -13,18 +14,14 @@
 
 if (typeof Go === "undefined") importScripts("wasm_exec.js");
 
-let booted = null;
+// booted settles when the engine has started (or failed to); a call
+// that arrives before the init message waits for it.
+let started;
+const booted = new Promise(resolve => { started = resolve; });
 
 async function boot(msg) {
   const go = new Go();
-  let instance;
-  if (msg.bytes) {
-    instance = (await WebAssembly.instantiate(msg.bytes, go.importObject)).instance;
-  } else {
-    const resp = await fetch(msg.url, { credentials: "same-origin" });
-    if (!resp.ok) throw new Error("could not load the engine (" + resp.status + " " + resp.statusText + ")");
-    instance = (await WebAssembly.instantiateStreaming(resp, go.importObject)).instance;
-  }
+  const instance = await WebAssembly.instantiate(msg.module, go.importObject);
   const ready = new Promise(resolve => { self.drawsiftReady = resolve; });
   go.run(instance).then(() => self.postMessage({ type: "failed", message: "the engine stopped" }));
   const version = await ready;
@@ -35,10 +32,10 @@ self.onmessage = ev => {
   const m = ev.data || {};
   switch (m.type) {
     case "init":
-      booted = boot(m).catch(err => {
+      started(boot(m).catch(err => {
         self.postMessage({ type: "failed", message: String(err && err.message || err) });
         throw err;
-      });
+      }));
       break;
     case "call":
       booted.then(() => {
