@@ -12,6 +12,7 @@ import (
 	"runtime/debug"
 	"sort"
 	"strings"
+	"sync"
 
 	"drawsift/engine/errs"
 	"drawsift/engine/internal/jsonx"
@@ -213,6 +214,37 @@ type Source struct {
 // soluteSources lists a record's sources in a stable order, prefixed by
 // the solute ID.
 func soluteSources(s *library.Solute) []Source {
+	if lib, err := library.Default(); err == nil {
+		if own, ok := lib.Lookup(s.ID); ok && own == s {
+			return cachedSources(s, func() []Source { return listSoluteSources(s) })
+		}
+	}
+	return listSoluteSources(s)
+}
+
+// recordSources holds the sorted sources of the library's own solute and
+// membrane records, which never change once loaded (a request's custom
+// solute is listed afresh): a flux request no longer sorts them.
+var recordSources sync.Map // record pointer → []Source
+
+func cachedSources(key any, list func() []Source) []Source {
+	if v, ok := recordSources.Load(key); ok {
+		return v.([]Source)
+	}
+	v, _ := recordSources.LoadOrStore(key, list())
+	return v.([]Source)
+}
+
+// membraneSources lists a membrane record's sources (a preset's cached).
+func membraneSources(r *library.Membrane) []Source {
+	list := func() []Source { return sortedSources("membrane."+r.ID, r.Sources) }
+	if own, ok := library.LookupMembrane(r.ID); ok && own == r {
+		return cachedSources(r, list)
+	}
+	return list()
+}
+
+func listSoluteSources(s *library.Solute) []Source {
 	keys := make([]string, 0, len(s.Sources))
 	for k := range s.Sources {
 		keys = append(keys, k)

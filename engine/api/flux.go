@@ -265,7 +265,7 @@ func fluxSourcesFor(f *scenario.Flux, src []Source) []Source {
 	}
 	src = append(src, soluteSources(f.Draw.Solute)...)
 	if r := f.Membrane.Record; r != nil {
-		src = append(src, sortedSources("membrane."+r.ID, r.Sources)...)
+		src = append(src, membraneSources(r)...)
 	}
 	return src
 }

@@ -105,17 +105,22 @@ func RobustnessMerge(req *RobustnessMergeRequest) (*ScreenResponse, *Error) {
 	return &out, nil
 }
 
-// withoutShard encodes a part with what differs between the parts of one
-// run left out (its figures, its part, the echoed shard), to compare it
-// with the others.
+// withoutShard encodes what makes a part's answer, with its part of the
+// samples left out: the echoed request without its shard, the engine
+// version and the candidates' order. Two parts that agree on it are
+// parts of one screen (the same request on the same engine gives the
+// same answer), which the comparison checks without encoding the whole
+// answers.
 func withoutShard(p *ScreenResponse) ([]byte, *Error) {
-	q := *p
-	q.Candidates = append([]ScreenCandidate(nil), p.Candidates...)
-	for k := range q.Candidates {
-		q.Candidates[k].Robustness = nil
+	order := make([]string, len(p.Candidates))
+	for k, c := range p.Candidates {
+		order[k] = c.Solute
 	}
-	q.Robustness, q.Scenario = nil, unsharded(p.Scenario)
-	b, err := jsonx.Marshal(&q)
+	b, err := jsonx.Marshal(struct {
+		Scenario *ScreenRequest `json:"scenario"`
+		Version  string         `json:"engine_version"`
+		Order    []string       `json:"order"`
+	}{unsharded(p.Scenario), p.EngineVersion, order})
 	if err != nil {
 		return nil, Invalid("parts", "screen answers", "a part could not be read: %v", err)
 	}

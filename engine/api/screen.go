@@ -565,7 +565,7 @@ func buildScreenResponse(req *ScreenRequest, sc *screen.Scenario, info *scenario
 		Source{Field: "screen.scaling.ksp", Reference: "Ball & Nordstrom (1991) USGS Open-File Report 91-183 (WATEQ4F); Parkhurst & Appelo (2013) PHREEQC version 3, USGS Techniques and Methods 6-A43"},
 	)
 	if r := info.Membrane; r != nil {
-		resp.Sources = append(resp.Sources, sortedSources("membrane."+r.ID, r.Sources)...)
+		resp.Sources = append(resp.Sources, membraneSources(r)...)
 	}
 	if r := info.Feed; r != nil {
 		resp.Sources = append(resp.Sources, sortedSources("feed."+r.ID, r.Sources)...)
