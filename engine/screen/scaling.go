@@ -152,7 +152,7 @@ func (e *env) prepareScaling() {
 	for _, c := range thermo.CarbonateIons() {
 		add(c.Symbol, c.Charge)
 	}
-	mx, err := thermo.NewIonMixture(ions, e.tK)
+	mx, err := thermo.SharedIonMixture(ions, e.tK)
 	if err != nil {
 		e.warnings = append(e.warnings, warn.New(warn.ModelNote, "scaling", "scaling: no mixed-electrolyte model for these ions (%v); saturation indices are not computed", err))
 		return

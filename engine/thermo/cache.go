@@ -116,3 +116,54 @@ var libraryRecords = sync.OnceValue(func() map[*library.Solute]bool {
 	}
 	return out
 })
+
+// SharedIonMixture is NewIonMixture shared between callers: the model of
+// one ion list (in its order) at one temperature is built once and kept,
+// so that every screen against the same feed does not rebuild its
+// scaling model (the mixing terms of every ion pair and triplet). A
+// Mixture is immutable once built (its mineral list behind sync.Once),
+// so one value serves concurrent requests; callers must not change it
+// (its Warnings included). At most mixturesMax models are kept; past
+// that the cache starts afresh.
+func SharedIonMixture(ions []MixIon, tK float64) (*Mixture, error) {
+	b := strconv.AppendUint(nil, math.Float64bits(tK), 16)
+	for _, ion := range ions {
+		b = strconv.AppendInt(append(append(b, 0), ion.Symbol...), int64(ion.Charge), 10)
+	}
+	k := string(b)
+	mixtures.mu.Lock()
+	e, ok := mixtures.m[k]
+	if !ok {
+		if len(mixtures.m) >= mixturesMax {
+			mixtures.m = map[string]*mixtureEntry{}
+		}
+		e = &mixtureEntry{}
+		mixtures.m[k] = e
+	}
+	mixtures.mu.Unlock()
+	e.once.Do(func() { e.mx, e.err = NewIonMixture(ions, tK) })
+	if e.err != nil {
+		mixtures.mu.Lock()
+		if mixtures.m[k] == e {
+			delete(mixtures.m, k)
+		}
+		mixtures.mu.Unlock()
+	}
+	return e.mx, e.err
+}
+
+// mixturesMax bounds the shared mixtures (a model over a few dozen ions
+// takes some tens of kB): the feeds and candidate sets of a busy server at
+// a few temperatures, our own choice.
+const mixturesMax = 256
+
+type mixtureEntry struct {
+	once sync.Once
+	mx   *Mixture
+	err  error
+}
+
+var mixtures = struct {
+	mu sync.Mutex
+	m  map[string]*mixtureEntry
+}{m: map[string]*mixtureEntry{}}

@@ -1,6 +1,7 @@
 package thermo
 
 import (
+	"slices"
 	"sync"
 	"testing"
 
@@ -79,5 +80,40 @@ func TestPreparedShares(t *testing.T) {
 	// Warnings of a shared Solution cannot be appended into.
 	if len(got[0].Warnings) != cap(got[0].Warnings) {
 		t.Error("a shared Solution's warnings have spare capacity")
+	}
+}
+
+// SharedIonMixture gives one model per ion list and temperature, the
+// same as a model built afresh (here seawater's major ions with the
+// carbonate species, as the screen's scaling model has them), and
+// another for another order or temperature.
+func TestSharedIonMixture(t *testing.T) {
+	ions := []MixIon{{"Na+", 1}, {"Mg+2", 2}, {"Ca+2", 2}, {"K+", 1}, {"Cl-", -1}, {"SO4-2", -2}, {"HCO3-", -1}, {"CO3-2", -2}, {"CO2", 0}}
+	a, err := SharedIonMixture(ions, 298.15)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if b, _ := SharedIonMixture(append([]MixIon(nil), ions...), 298.15); b != a {
+		t.Error("the same ions at the same temperature gave another model")
+	}
+	swapped := append([]MixIon(nil), ions...)
+	swapped[0], swapped[1] = swapped[1], swapped[0]
+	if b, _ := SharedIonMixture(swapped, 298.15); b == a {
+		t.Error("another order of the ions gave the same model (its vectors are in that order)")
+	}
+	if b, _ := SharedIonMixture(ions, 308.15); b == a {
+		t.Error("another temperature gave the same model")
+	}
+	fresh, err := NewIonMixture(ions, 298.15)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := []float64{0.486, 0.0547, 0.0107, 0.0106, 0.566, 0.0293, 0.0017, 0.0002, 0.00001}
+	g1, g2 := make([]float64, len(m)), make([]float64, len(m))
+	if p1, p2 := a.Eval(m, g1), fresh.Eval(m, g2); p1 != p2 || !slices.Equal(g1, g2) {
+		t.Errorf("shared model: φ term %g, ln γ %v; fresh model: %g, %v", p1, g1, p2, g2)
+	}
+	if _, err := SharedIonMixture([]MixIon{{"Na+", 1}, {"Na+", 1}}, 298.15); err == nil {
+		t.Error("an ion listed twice was accepted")
 	}
 }
