@@ -212,7 +212,12 @@ func NewTransport(mem *Permeability, draw, feed TransportSide) (*Transport, erro
 		t.Info = append(t.Info, info)
 		return nil
 	}
-	for _, u := range unitsOf(draw.Solute, draw.Whole) {
+	drawUnits, feedUnits := unitsOf(draw.Solute, draw.Whole), []unit(nil)
+	if feed.Solute != nil && feed.CMolPerM3 > 0 {
+		feedUnits = unitsOf(feed.Solute, feed.Whole)
+	}
+	t.Info = make([]SpeciesInfo, 0, min(len(drawUnits)+len(feedUnits), transport.MaxSpecies))
+	for _, u := range drawUnits {
 		if u.charge != 0 {
 			t.drawIons = true
 		}
@@ -220,8 +225,8 @@ func NewTransport(mem *Permeability, draw, feed TransportSide) (*Transport, erro
 			return nil, err
 		}
 	}
-	if feed.Solute != nil && feed.CMolPerM3 > 0 {
-		for _, u := range unitsOf(feed.Solute, feed.Whole) {
+	if feedUnits != nil {
+		for _, u := range feedUnits {
 			if u.charge != 0 {
 				t.feedIon = true
 			}
@@ -241,7 +246,7 @@ func NewTransport(mem *Permeability, draw, feed TransportSide) (*Transport, erro
 	for i, in := range t.Info {
 		t.Rule.SetParticles(i, in.Particles)
 		t.tmpl[i] = transport.Species{Name: in.Name, Charge: in.Charge, FeedBulkMolPerM3: in.FeedMolPerM3, BMPerS: in.BMPerS,
-			Field: fmt.Sprintf("species.%s", in.Name)}
+			Field: "species." + in.Name}
 		switch in.Role {
 		case RoleDraw:
 			t.Rule.SetShare(0, i, 1)
