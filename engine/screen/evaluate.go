@@ -209,6 +209,10 @@ type env struct {
 	// lastIn is the last solve's problem (its species in lastSp).
 	lastIn transport.Input
 	lastSp [transport.MaxSpecies]transport.Species
+	// quiet: a robustness worker's env, where an exclusion's reason counts
+	// and its text is never shown, so a sample's unreachable target is
+	// refused without building the text (no allocation per sample).
+	quiet bool
 }
 
 type ionConc struct {
@@ -402,6 +406,12 @@ func drawB(m *Membrane, s *library.Solute) (float64, bool) {
 // from NaCl by diffusivity (library.SoluteB.For).
 func feedB(m *Membrane, s *library.Solute) (float64, bool) { return m.B.For(s) }
 
+// The exclusions of a quiet env (robustness workers): the reason alone.
+var (
+	quietInsoluble   = &exclusion{ReasonInsoluble, "the target is beyond its solubility in this sample"}
+	quietUnreachable = &exclusion{ReasonUnreachable, "the target is beyond its model's range in this sample"}
+)
+
 // basisMolality returns the draw molality that meets the basis, or an
 // exclusion.
 func (e *env) basisMolality(c *candidate, ori transport.Orientation, p *perturb, scratch *transport.Result) (float64, *exclusion) {
@@ -418,6 +428,12 @@ func (e *env) basisMolality(c *candidate, ori transport.Orientation, p *perturb,
 					c.sol.ID, cc/1000, e.targetPi/thermo.PascalPerBar)}
 			}
 			return m, nil
+		}
+		if e.quiet && target > x.MaxPiPa() {
+			if math.IsInf(sol, 1) {
+				return 0, quietUnreachable
+			}
+			return 0, quietInsoluble
 		}
 		m, err := x.MolalityForPi(target)
 		if err == nil {
@@ -513,16 +529,17 @@ func (e *env) solve(c *candidate, ori transport.Orientation, m float64, p *pertu
 		kF, e.kWarn[1] = mt.KMPerS, mt.Warnings
 	}
 	c.pi.f = p.fPi
-	in := transport.Input{
+	// The input lives in e.lastIn (kept for the crossing notes), so that
+	// a solve allocates nothing.
+	in := &e.lastIn
+	*in = transport.Input{
 		AMPerSPa: sc.Membrane.AMPerSPa * p.fA, SM: sc.Membrane.SM * p.fS, Orientation: ori,
 		KDrawMPerS: kD, KFeedMPerS: kF, FacePi: c.facePi,
 	}
 	n := c.layout.N()
 	c.layout.Fill(e.lastSp[:n], ori, cD, d, e.feedD, p.fB, c.piFn, e.feedFn)
 	in.Species = e.lastSp[:n]
-	err := transport.SolveInto(&in, out)
-	e.lastIn = in
-	return err
+	return transport.SolveInto(in, out)
 }
 
 // layoutFor lays out candidate c's transport species against the feed

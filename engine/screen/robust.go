@@ -267,6 +267,7 @@ type robustWorker struct {
 func newRobustWorker(e *env, ci []int) *robustWorker {
 	n := len(ci)
 	we := e.forWorker()
+	we.quiet = true // its exclusions count, their texts are never shown
 	w := &robustWorker{e: we, cands: make([]*candidate, n), names: make([]string, n),
 		vals: make([][NumObjectives]float64, n), known: make([][NumObjectives]bool, n), norm: make([][NumObjectives]float64, n),
 		ok: make([]bool, n), scores: make([]float64, n), idx: make([]int, n), counts: make([]int, n*(n+1))}

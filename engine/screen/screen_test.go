@@ -695,3 +695,28 @@ func TestSweepWorkersIdentical(t *testing.T) {
 		}
 	}
 }
+
+// A robustness sample allocates nothing: a run of 1,200 samples makes no
+// more heap allocations than one of 200 beyond a bounded few per chunk
+// of samples (its goroutines), whatever the candidates failing in it
+// (here the seawater scenario, where some miss the basis in a sample).
+func TestRobustnessSampleAllocs(t *testing.T) {
+	defer func(f func() int) { robustWorkers = f }(robustWorkers)
+	robustWorkers = func() int { return 2 }
+	allocs := func(samples int) float64 {
+		sc := robustScenario(t, samples)
+		if _, err := Run(context.Background(), sc, lib(t), nil); err != nil { // prepared solutions built
+			t.Fatal(err)
+		}
+		return testing.AllocsPerRun(3, func() {
+			if _, err := Run(context.Background(), sc, lib(t), nil); err != nil {
+				t.Fatal(err)
+			}
+		})
+	}
+	few, many := allocs(200), allocs(1200)
+	if extra := many - few; extra > 16*float64(1200/robustChunk+1) {
+		t.Errorf("1,200 samples allocate %.0f times, 200 samples %.0f: %.2f per extra sample", many, few, extra/1000)
+	}
+	t.Logf("allocations: %.0f for 200 samples, %.0f for 1,200", few, many)
+}

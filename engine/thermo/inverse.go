@@ -25,6 +25,10 @@ func (x *Solution) MolalityForPi(targetPa float64) (float64, error) {
 	return x.molalityForPi(targetPa, roots.DefaultMaxIterations)
 }
 
+// MaxPiPa is the highest π MolalityForPi reaches (at the solubility, or
+// at the top of a miscible solute's range); a higher target is refused.
+func (x *Solution) MaxPiPa() float64 { return x.topPi * (1 + 1e-12) }
+
 // molalityForPi is MolalityForPi with an iteration limit (tests lower it).
 func (x *Solution) molalityForPi(targetPa float64, maxIter int) (float64, error) {
 	if !(targetPa >= 0) || math.IsInf(targetPa, 0) {
@@ -34,7 +38,7 @@ func (x *Solution) molalityForPi(targetPa float64, maxIter int) (float64, error)
 		return 0, nil
 	}
 	top, piTop := x.topMolal, x.topPi
-	if targetPa > piTop*(1+1e-12) {
+	if targetPa > x.MaxPiPa() {
 		return 0, &errs.InputError{Field: "target", Value: targetPa / PascalPerBar,
 			Limit: formatBar(piTop), Msg: x.Solute.ID + " cannot reach this osmotic pressure below its solubility limit"}
 	}

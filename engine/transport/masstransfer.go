@@ -60,6 +60,10 @@ const (
 	maxViscosityPaS  = 10.0 // Pa·s
 )
 
+// unverifiedOnly is the note every correlation's result carries, shared
+// by the results that carry no other (no allocation per solve).
+var unverifiedOnly = []warn.Warning{{Code: warn.Unverified, Text: warnUnverified}}
+
 // MassTransferCoefficient returns the mass-transfer coefficient k of the
 // concentration boundary layer in a crossflow channel:
 //
@@ -123,7 +127,11 @@ func MassTransferCoefficient(ch Channel, f Fluid) (MassTransfer, error) {
 		}
 		mt.Sh = 1.85 * math.Cbrt(re*sc*dh/ch.LengthM)
 	}
-	mt.Warnings = append(mt.Warnings, warn.Warning{Code: warn.Unverified, Text: warnUnverified})
+	if mt.Warnings == nil {
+		mt.Warnings = unverifiedOnly[:1:1] // shared, full: an append copies
+	} else {
+		mt.Warnings = append(mt.Warnings, unverifiedOnly[0])
+	}
 	mt.KMPerS = mt.Sh * f.DiffusivityM2PerS / dh
 	return mt, nil
 }
