@@ -16,7 +16,7 @@ EDGE_TAGS ?= stdjson
 # fixed in Go 1.27); a count has no deadline to race.
 FUZZTIME  ?= 100000x
 FUZZ_PKG  := ./engine/api/httpapi/
-FUZZ_TARGETS := FuzzOsmotic FuzzFlux FuzzScreen FuzzBatch FuzzOsmoticFields FuzzFluxFields FuzzTransport
+FUZZ_TARGETS := FuzzOsmotic FuzzFlux FuzzScreen FuzzBatch FuzzOsmoticFields FuzzFluxFields FuzzTransport FuzzRobustnessMerge
 # The module's valid requests cost milliseconds (an integration per
 # shooting step): fewer inputs keep the run near the others' length.
 FUZZTIME_MODULE ?= 20000x

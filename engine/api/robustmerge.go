@@ -81,11 +81,16 @@ func RobustnessMerge(req *RobustnessMergeRequest) (*ScreenResponse, *Error) {
 			if sums[k] == nil {
 				sums[k] = make([]int, n+1)
 			}
+			total := 0
 			for r, c := range rb.RankCounts {
-				if c < 0 {
-					return nil, Invalid(fmt.Sprintf("%s.candidates[%d].robustness.rank_counts[%d]", field, k, r), "≥ 0", "a negative count")
+				if c < 0 || c > p.Robustness.Samples {
+					return nil, Invalid(fmt.Sprintf("%s.candidates[%d].robustness.rank_counts[%d]", field, k, r), fmt.Sprintf("0–%d (the part's samples)", p.Robustness.Samples), "a count out of range")
 				}
 				sums[k][r] += c
+				total += c
+			}
+			if total != p.Robustness.Samples {
+				return nil, Invalid(fmt.Sprintf("%s.candidates[%d].robustness.rank_counts", field, k), fmt.Sprintf("adding to %d (the part's samples)", p.Robustness.Samples), "the counts add to %d", total)
 			}
 		}
 		samples += p.Robustness.Samples

@@ -71,11 +71,18 @@ func TestRobustnessMergeRefused(t *testing.T) {
 	p1 := dispatchBytes(t, OpScreen, shardBody(1, 2))
 	whole := dispatchBytes(t, OpScreen, shardBody(0, 0))
 	other := dispatchBytes(t, OpScreen, strings.Replace(shardBody(1, 2), `"seed": 11`, `"seed": 12`, 1))
+	var edited ScreenResponse
+	if err := json.Unmarshal(p1, &edited); err != nil {
+		t.Fatal(err)
+	}
+	edited.Candidates[2].Robustness.RankCounts[0]++ // counts that no longer add to the part's samples
+	bumped, _ := json.Marshal(&edited)
 	for _, tc := range []struct {
 		name  string
 		parts []json.RawMessage
 		field string
 	}{
+		{"counts edited", []json.RawMessage{p0, bumped}, "parts[1].candidates[2].robustness.rank_counts"},
 		{"none", nil, "parts"},
 		{"one of two", []json.RawMessage{p0}, "parts"},
 		{"twice the same", []json.RawMessage{p0, p0}, "parts[1].robustness.shard.index"},

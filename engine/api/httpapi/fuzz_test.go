@@ -245,3 +245,24 @@ func jstr(s string) string {
 	b, _ := json.Marshal(s)
 	return string(b)
 }
+
+// FuzzRobustnessMerge: any body to the merge — whole parts, parts of
+// other runs, counts edited — is merged or refused with the contract's
+// error, never a 500 or a non-finite figure. The seeds are the two parts
+// of a small split run (and the same with a count made negative).
+func FuzzRobustnessMerge(f *testing.F) {
+	h := New(Options{})
+	part := func(i int) string {
+		body := fmt.Sprintf(`{"candidates":["NaCl","KCl"],"uncertainty":{"samples":20,"shard":{"index":%d,"count":2}}}`, i)
+		rec := do(h, http.MethodPost, "/v1/screen", "application/json", strings.NewReader(body))
+		if rec.Code != http.StatusOK {
+			f.Fatalf("part %d: %d %s", i, rec.Code, rec.Body)
+		}
+		return rec.Body.String()
+	}
+	p0, p1 := part(0), part(1)
+	fuzzPost(f, "/v1/robustness-merge",
+		`{"parts":[`+p0+`,`+p1+`]}`,
+		`{"parts":[`+p1+`,`+strings.Replace(p0, `"rank_counts":[`, `"rank_counts":[-5,`, 1)+`]}`,
+		`{"parts":[]}`, `{"parts":[{}]}`)
+}
