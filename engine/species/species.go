@@ -225,14 +225,12 @@ func NewTransport(mem *Permeability, draw, feed TransportSide) (*Transport, erro
 			return nil, err
 		}
 	}
-	if feedUnits != nil {
-		for _, u := range feedUnits {
-			if u.charge != 0 {
-				t.feedIon = true
-			}
-			if err := add(u, 'f', 0, u.perUnit*feed.CMolPerM3, feed.BMPerS); err != nil {
-				return nil, err
-			}
+	for _, u := range feedUnits {
+		if u.charge != 0 {
+			t.feedIon = true
+		}
+		if err := add(u, 'f', 0, u.perUnit*feed.CMolPerM3, feed.BMPerS); err != nil {
+			return nil, err
 		}
 	}
 	n := len(t.Info)
