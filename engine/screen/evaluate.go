@@ -170,9 +170,9 @@ type candidate struct {
 	warnings   []warn.Warning
 	excl       *exclusion // set at preparation (hazard, bad temperature)
 	osmRelSD   float64
-	// regenTab: the regeneration energy tabulated for a robustness run
-	// (nil: the exact quadrature).
-	regenTab *regenTable
+	// tabs: the smooth functions a robustness run asks at every sample,
+	// tabulated for it (nil: the exact functions).
+	tabs *candidateTables
 }
 
 type ionCount struct {
@@ -435,6 +435,11 @@ func (e *env) basisMolality(c *candidate, ori transport.Orientation, p *perturb,
 			}
 			return 0, quietInsoluble
 		}
+		if t := c.tabs; t != nil && t.inv != nil {
+			if m, ok := t.inv.at(target); ok {
+				return m, nil
+			}
+		}
 		m, err := x.MolalityForPi(target)
 		if err == nil {
 			return m, nil
@@ -514,7 +519,7 @@ func (e *env) solve(c *candidate, ori transport.Orientation, m float64, p *pertu
 	kD := sc.KDrawMPerS
 	e.kWarn = [2][]warn.Warning{}
 	if kD == 0 {
-		mt, err := channelK(sc.Channel, false, x.DensityKgPerM3(m), x.ViscosityPaS(m), d)
+		mt, err := channelK(sc.Channel, false, x.DensityKgPerM3(m), e.viscosity(c, m), d)
 		if err != nil {
 			return err
 		}
@@ -670,7 +675,7 @@ func (e *env) metricsAt(c *candidate, ori transport.Orientation, m float64, p *p
 		out.CostMinUSDPerM3 = math.Max(0, out.SRSFKgPerM3) * lo
 		out.CostMaxUSDPerM3 = math.Max(0, out.SRSFKgPerM3) * hi
 	}
-	out.ViscosityPaS = x.ViscosityPaS(m)
+	out.ViscosityPaS = e.viscosity(c, m)
 	out.RegenJPerM3 = p.fPi * e.regenEnergy(c, m)
 	out.FeedFaceDrawMolPerM3 = c.layout.DrawFeedFace(r)
 	if p == &nominal {
@@ -688,8 +693,8 @@ func (e *env) metricsAt(c *candidate, ori transport.Orientation, m float64, p *p
 // diluted so that a fraction r of its water is the product, back to
 // molality m.
 func (e *env) regenEnergy(c *candidate, m float64) float64 {
-	if t := c.regenTab; t != nil {
-		if v, ok := t.at(m); ok {
+	if t := c.tabs; t != nil && t.regen != nil {
+		if v, ok := t.regen.at(m); ok {
 			return v
 		}
 	}

@@ -2,42 +2,46 @@ package screen
 
 import "math"
 
-// regenTable tabulates one candidate's regeneration energy against its
-// molality for a robustness run, whose samples each ask for it at a
-// slightly different molality (the basis moves with the sampled π): a
-// Chebyshev interpolant in ln m over [a, b] replaces the 16-point
-// quadrature of 16 exact π evaluations by one Clenshaw sum.
+// lnTable tabulates a smooth positive function of a positive variable
+// for a robustness run, whose samples each ask for it at a slightly
+// different point (the basis moves with the sampled π): a Chebyshev
+// interpolant in ln x over [a, b] replaces the exact evaluation by one
+// Clenshaw sum. A candidate has three (candidateTables): its
+// regeneration energy (a 16-point quadrature of exact π) and its
+// viscosity against molality, and its molality against the basis π (a
+// Newton solve on the exact π).
 //
-// The table checks itself when it is built: at the 2N points between
-// its nodes it must match the exact energy to regenTableTol relative,
-// else newRegenTable returns nil and the run keeps the exact quadrature
-// (a π model with a kink, such as a bridge to a measured saturated
-// solution, may fail it). Outside [a, b] the exact value is used.
-type regenTable struct {
+// The table checks itself when it is built: at the 2N+1 points between
+// and beside its nodes it must match the exact function to lnTableTol
+// relative, else newLnTable returns nil and the run keeps the exact
+// function (a π model with a kink, such as a bridge to a measured
+// saturated solution, may fail it). Outside [a, b] the exact value is
+// used.
+type lnTable struct {
 	lnA, lnB float64
-	coef     [regenTableNodes]float64
+	coef     [lnTableNodes]float64
 }
 
 const (
-	regenTableNodes = 32
-	// regenTableSpan: the table covers the nominal molality ÷ and × this,
+	lnTableNodes = 32
+	// lnTableSpan: the tables cover the nominal molality ÷ and × this,
 	// wider than a sampled π factor moves the basis (our own choice).
-	regenTableSpan = 2.5
-	// regenTableTol is the accepted relative error of the table: far below
+	lnTableSpan = 2.5
+	// lnTableTol is the accepted relative error of the table: far below
 	// any spread the robustness run samples (a few per cent), so ranks
 	// move only where two candidates tie to 1e-8. Smooth single-salt π
 	// models reach about 1e-14; seawater's mixture model 1.4e-9.
-	regenTableTol = 1e-8
+	lnTableTol = 1e-8
 )
 
-// newRegenTable tabulates f over [a, b] (0 < a < b), or returns nil when
-// the interpolant misses f by more than regenTableTol at a check point.
-func newRegenTable(f func(m float64) float64, a, b float64) *regenTable {
+// newLnTable tabulates f over [a, b] (0 < a < b), or returns nil when
+// the interpolant misses f by more than lnTableTol at a check point.
+func newLnTable(f func(m float64) float64, a, b float64) *lnTable {
 	if !(a > 0 && b > a) || math.IsInf(b, 0) {
 		return nil
 	}
-	t := &regenTable{lnA: math.Log(a), lnB: math.Log(b)}
-	const n = regenTableNodes
+	t := &lnTable{lnA: math.Log(a), lnB: math.Log(b)}
+	const n = lnTableNodes
 	var v [n]float64
 	for k := 0; k < n; k++ {
 		v[k] = f(t.m(math.Cos(math.Pi * (float64(k) + 0.5) / n)))
@@ -52,7 +56,7 @@ func newRegenTable(f func(m float64) float64, a, b float64) *regenTable {
 		}
 		t.coef[j] = 2 * s / n
 	}
-	if t.maxRelError(f) > regenTableTol {
+	if t.maxRelError(f) > lnTableTol {
 		return nil
 	}
 	return t
@@ -60,8 +64,8 @@ func newRegenTable(f func(m float64) float64, a, b float64) *regenTable {
 
 // maxRelError is the table's largest relative error against f at the 2N+1
 // points between and beside its nodes (+Inf where f is not finite).
-func (t *regenTable) maxRelError(f func(m float64) float64) float64 {
-	const n = regenTableNodes
+func (t *lnTable) maxRelError(f func(m float64) float64) float64 {
+	const n = lnTableNodes
 	worst := 0.0
 	for k := 0; k <= 2*n; k++ {
 		m := t.m(math.Cos(math.Pi * float64(k) / (2 * n)))
@@ -76,13 +80,13 @@ func (t *regenTable) maxRelError(f func(m float64) float64) float64 {
 	return worst
 }
 
-// m is the molality at u ∈ [−1, 1].
-func (t *regenTable) m(u float64) float64 {
+// m is the variable (a molality, or a π for the inverse) at u ∈ [−1, 1].
+func (t *lnTable) m(u float64) float64 {
 	return math.Exp(t.lnA + (u+1)/2*(t.lnB-t.lnA))
 }
 
-// at is the tabulated energy at molality m; false outside the table.
-func (t *regenTable) at(m float64) (float64, bool) {
+// at is the tabulated value at m; false outside the table.
+func (t *lnTable) at(m float64) (float64, bool) {
 	if !(m > 0) {
 		return 0, false
 	}
@@ -96,8 +100,49 @@ func (t *regenTable) at(m float64) (float64, bool) {
 	u = min(max(u, -1), 1)
 	// Clenshaw's recurrence for Σ' c_j T_j(u).
 	var b1, b2 float64
-	for j := regenTableNodes - 1; j >= 1; j-- {
+	for j := lnTableNodes - 1; j >= 1; j-- {
 		b1, b2 = 2*u*b1-b2+t.coef[j], b1
 	}
 	return u*b1 - b2 + t.coef[0]/2, true
+}
+
+// candidateTables are the tables of one candidate for a robustness run
+// (each nil where refused: the exact function then runs).
+type candidateTables struct {
+	regen, visc *lnTable // against molality
+	inv         *lnTable // molality against the basis π, Pa
+}
+
+// tabulate builds c's tables around its nominal molality m0: over m0 ÷
+// and × lnTableSpan within the π model's supported range (past it π may
+// bend, a bridge or an extrapolation, which a table's check would refuse
+// for the whole span), the inverse within the solubility too.
+func (e *env) tabulate(c *candidate, m0 float64) {
+	x := c.x
+	lo, hi := m0/lnTableSpan, min(m0*lnTableSpan, max(m0, x.SupportedMolPerKg()))
+	c.tabs = &candidateTables{
+		regen: newLnTable(func(m float64) float64 { return e.regenEnergyExact(c, m) }, lo, hi),
+		visc:  newLnTable(x.ViscosityPaS, lo, hi),
+	}
+	if e.sc.Basis.Kind == BasisOsmoticPressure && !e.sc.VantHoff {
+		top := min(hi, x.SolubilityMolPerKg())
+		inv := func(pi float64) float64 {
+			m, err := x.MolalityForPi(pi)
+			if err != nil {
+				return math.NaN() // refuses the table
+			}
+			return m
+		}
+		c.tabs.inv = newLnTable(inv, x.OsmoticPressurePa(lo), x.OsmoticPressurePa(top))
+	}
+}
+
+// viscosity is c's viscosity at m, from its table where it has one.
+func (e *env) viscosity(c *candidate, m float64) float64 {
+	if t := c.tabs; t != nil && t.visc != nil {
+		if v, ok := t.visc.at(m); ok {
+			return v
+		}
+	}
+	return c.x.ViscosityPaS(m)
 }

@@ -124,16 +124,11 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 	chunk := min(robustChunk, total)
 	perts := make([]perturb, chunk*n)
 	workers = max(1, min(workers, chunk))
-	// Each candidate's regeneration energy, tabulated once around its
-	// nominal molality for every worker (regenTable).
+	// Each candidate's smooth functions of the sample, tabulated once
+	// around its nominal molality for every worker (candidateTables).
 	for k := range res.Ranked {
-		c := &e.cands[ci[k]]
-		if m0 := res.Ranked[k].Metrics.MolalityMolPerKg; c.regenTab == nil && m0 > 0 {
-			// Within the π model's supported range: past it π may bend
-			// (a bridge, an extrapolation), which the table's check would
-			// refuse for the whole span.
-			hi := min(m0*regenTableSpan, max(m0, c.x.SupportedMolPerKg()))
-			c.regenTab = newRegenTable(func(m float64) float64 { return e.regenEnergyExact(c, m) }, m0/regenTableSpan, hi)
+		if c := &e.cands[ci[k]]; c.tabs == nil && res.Ranked[k].Metrics.MolalityMolPerKg > 0 {
+			e.tabulate(c, res.Ranked[k].Metrics.MolalityMolPerKg)
 		}
 	}
 	ws := make([]*robustWorker, workers)
