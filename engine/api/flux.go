@@ -1,6 +1,8 @@
 package api
 
 import (
+	"slices"
+
 	"drawsift/engine/library"
 	"drawsift/engine/scenario"
 	"drawsift/engine/species"
@@ -202,6 +204,8 @@ func Flux(req *FluxRequest) (*FluxResponse, *Error) {
 	}
 	var feedOnly bool
 	var fwd float64
+	resp.Species = make([]SpeciesFlux, 0, len(f.Layout.Info))
+	resp.Profiles = make([]SpeciesProfile, 0, len(f.Layout.Info))
 	for i, info := range f.Layout.Info {
 		r, sp := res.Species[i], in.Species[i]
 		toFeed, toDraw := transport.OneWay(in, &res, i)
@@ -259,6 +263,11 @@ func membraneReport(f *scenario.Flux) MembraneReport {
 // fluxSourcesFor appends to src the sources of a resolved flux problem:
 // the flux model, the draw's osmotic model and record, the membrane's.
 func fluxSourcesFor(f *scenario.Flux, src []Source) []Source {
+	n := len(fluxSources) + len(modelSources[f.Draw.Solute.Osmotic.Kind]) + len(f.Draw.Solute.Sources)
+	if r := f.Membrane.Record; r != nil {
+		n += len(r.Sources)
+	}
+	src = slices.Grow(src, n)
 	src = append(src, fluxSources...)
 	if f.Model == scenario.Real {
 		src = append(src, modelSources[f.Draw.Solute.Osmotic.Kind]...)
