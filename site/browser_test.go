@@ -996,6 +996,16 @@ func TestBundleFromFile(t *testing.T) {
 	if msg := eval[string](t, b, `document.getElementById("banner").textContent`); !strings.Contains(msg, "opened from a file") {
 		t.Errorf("the file page's share link says %q", msg)
 	}
+	// A robustness run split between two workers, each built from the
+	// page's Blob on the one compiled module, completes offline too.
+	b.do(t, chromedp.Evaluate[chromedp.Void](`window.DrawsiftPage.state.robustWorkers = 2; delete document.body.dataset.robust`),
+		chromedp.SetValue(chromedp.ID("unc-samples"), "200"),
+		chromedp.Evaluate[chromedp.Void](`document.getElementById("unc-samples").dispatchEvent(new Event("change", {bubbles: true}))`),
+		chromedp.Click(chromedp.ID("btn-robust")))
+	b.waitFor(t, `["done", "error", "cancelled"].includes(document.body.dataset.robust)`)
+	if st, n := eval[string](t, b, `document.body.dataset.robust`), eval[string](t, b, `document.body.dataset.robustWorkers`); st != "done" || n != "2" {
+		t.Errorf("the file page's split robustness run ended %s on %s workers: %s", st, n, eval[string](t, b, `document.getElementById("run-error").textContent`))
+	}
 	mu.Lock()
 	defer mu.Unlock()
 	for _, u := range urls {
