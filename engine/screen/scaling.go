@@ -2,6 +2,7 @@ package screen
 
 import (
 	"math"
+	"slices"
 	"strings"
 
 	"drawsift/engine/species"
@@ -194,7 +195,7 @@ func (e *env) prepareScaling() {
 	}
 	for i := range e.cands {
 		c := &e.cands[i]
-		c.ionIdx = c.ionIdx[:0]
+		c.ionIdx = slices.Grow(c.ionIdx[:0], len(c.ions))
 		for _, ion := range c.ions {
 			j, ok := mx.Index(ion.symbol)
 			if !ok {
@@ -204,6 +205,7 @@ func (e *env) prepareScaling() {
 		}
 		c.speciesIdx = c.speciesIdx[:0]
 		if c.layout != nil {
+			c.speciesIdx = slices.Grow(c.speciesIdx, len(c.layout.Info))
 			for _, in := range c.layout.Info {
 				j, ok := mx.Index(in.Name)
 				if !ok || in.Charge == 0 {

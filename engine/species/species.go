@@ -7,6 +7,8 @@ package species
 
 import (
 	"fmt"
+	"sync"
+	"sync/atomic"
 
 	"drawsift/engine/errs"
 	"drawsift/engine/library"
@@ -244,7 +246,7 @@ func NewTransport(mem *Permeability, draw, feed TransportSide) (*Transport, erro
 	for i, in := range t.Info {
 		t.Rule.SetParticles(i, in.Particles)
 		t.tmpl[i] = transport.Species{Name: in.Name, Charge: in.Charge, FeedBulkMolPerM3: in.FeedMolPerM3, BMPerS: in.BMPerS,
-			Field: "species." + in.Name}
+			Field: fieldOf(in.Name)}
 		switch in.Role {
 		case RoleDraw:
 			t.Rule.SetShare(0, i, 1)
@@ -427,3 +429,25 @@ func (t *Transport) Clone() *Transport {
 
 // N is the number of species.
 func (t *Transport) N() int { return len(t.Info) }
+
+// fieldOf is a species' field path in errors ("species.Na+"), made once
+// per name: a screen lays out every candidate against the feed on every
+// run. At most fieldNamesMax names are kept (custom species come and go
+// with requests); past that the path is built each time.
+func fieldOf(name string) string {
+	if v, ok := fieldNames.Load(name); ok {
+		return v.(string)
+	}
+	f := "species." + name
+	if fieldNamesCount.Add(1) <= fieldNamesMax {
+		fieldNames.Store(name, f)
+	}
+	return f
+}
+
+const fieldNamesMax = 4096
+
+var (
+	fieldNames      sync.Map // species name → "species.<name>"
+	fieldNamesCount atomic.Int64
+)
