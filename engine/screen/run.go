@@ -106,9 +106,10 @@ func Run(ctx context.Context, sc *Scenario, lib *library.Library, progress func(
 		}
 		r := Ranked{ci: i, Solute: c.sol, Metrics: m, BMPerS: c.bMPerS, BEstimated: c.bEstimated,
 			HasPrice: c.hasPrice, PriceMin: c.priceMin, PriceMax: c.priceMax}
+		r.Warnings = make([]warn.Warning, 0, len(c.warnings)+len(m.Warnings)+4)
 		r.Warnings = append(r.Warnings, c.warnings...)
 		r.Warnings = append(r.Warnings, m.Warnings...)
-		r.Warnings = append(r.Warnings, metricWarnings(c, &m)...)
+		r.Warnings = metricWarnings(r.Warnings, c, &m)
 		for _, o := range sc.Orientations[1:] {
 			oo := OtherOrientation{Orientation: o}
 			var mo Metrics
@@ -206,9 +207,9 @@ func referenceDraw(ctx context.Context, sc *Scenario, lib *library.Library) (*Re
 	return ref, nil
 }
 
-// metricWarnings flags a candidate's results worth a second look.
-func metricWarnings(c *candidate, m *Metrics) []warn.Warning {
-	var w []warn.Warning
+// metricWarnings appends to w the notes on a candidate's results worth a
+// second look.
+func metricWarnings(w []warn.Warning, c *candidate, m *Metrics) []warn.Warning {
 	id := c.sol.ID
 	x := c.x
 	if from, _, ok := x.BridgeMolPerKg(); ok && m.MolalityMolPerKg > from*(1+1e-9) {

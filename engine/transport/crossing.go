@@ -31,7 +31,7 @@ func CrossingWarnings(in *Input, res *Result, drawID string, netLoss float64) []
 	var w []warn.Warning
 	bar := func(pa float64) float64 { return pa / 1e5 } // 1 bar = 10⁵ Pa (exact)
 	// Species moving feed → draw, by name.
-	var crossing []string
+	crossing := make([]string, 0, len(res.Species))
 	for i, s := range res.Species {
 		if s.FluxMolPerM2S > 0 && i < len(in.Species) {
 			crossing = append(crossing, in.Species[i].Name)

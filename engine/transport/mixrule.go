@@ -35,7 +35,8 @@ type mixGroup struct {
 // NewMixingRule returns a rule over n species with no solutions yet.
 // Every species counts as one particle until SetParticles.
 func NewMixingRule(n int) *MixingRule {
-	m := &MixingRule{n: n, nu: make([]float64, n)}
+	// Room for the draw and the feed, the usual two solutions.
+	m := &MixingRule{n: n, nu: make([]float64, n), groups: make([]mixGroup, 0, 2), share: make([]float64, 0, 2*n)}
 	for i := range m.nu {
 		m.nu[i] = 1
 	}
