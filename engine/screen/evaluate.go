@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"drawsift/engine/errs"
@@ -344,7 +345,9 @@ func prepare(ctx context.Context, sc *Scenario, lib *library.Library) (*env, err
 		} else {
 			c.warnings = append(c.warnings, warn.New(warn.NoPrice, s.ID, "%s: no price on record; scored as the worst on replenishment cost", s.ID))
 		}
-		for _, ion := range s.IonShares() {
+		shares := s.IonShares()
+		c.ions = make([]ionCount, 0, len(shares))
+		for _, ion := range shares {
 			c.ions = append(c.ions, ionCount{ion.Symbol, ion.Charge, ion.PerUnit})
 		}
 		if h := hazardHit(s, excl); h != "" {
@@ -637,9 +640,14 @@ func (e *env) metricsAt(c *candidate, ori transport.Orientation, m float64, p *p
 		// The channel's regime and the correlation's caveats reach every
 		// host with the candidate (only on the nominal run: the Monte
 		// Carlo samples would repeat them).
+		out.Warnings = slices.Grow(out.Warnings, len(e.kWarn[0])+len(e.kWarn[1]))
 		for i, side := range [2]string{"k_draw", "k_feed"} {
+			if len(e.kWarn[i]) == 0 {
+				continue
+			}
+			about := c.sol.ID + " " + side
 			for _, w := range e.kWarn[i] {
-				out.Warnings = append(out.Warnings, w.About(c.sol.ID+" "+side))
+				out.Warnings = append(out.Warnings, w.About(about))
 			}
 		}
 	}
