@@ -196,10 +196,13 @@ type env struct {
 	feedPi   scaledPi
 	feedFn   transport.OsmoticFunc
 	feedIons []ionConc // bulk, mol/L
-	kFeed    float64   // nominal, +Inf for none
-	targetPi float64   // Pa, osmotic-pressure basis
-	davies   float64   // Davies A at T (log10 units)
-	scale    *scaleModel
+	// feedUnits: the feed's transport species, listed once for every
+	// candidate's layout.
+	feedUnits *species.Units
+	kFeed     float64 // nominal, +Inf for none
+	targetPi  float64 // Pa, osmotic-pressure basis
+	davies    float64 // Davies A at T (log10 units)
+	scale     *scaleModel
 	// feedScaling: the saturation indices of the bulk feed.
 	feedScaling Scaling
 	cands       []candidate
@@ -564,7 +567,10 @@ func (e *env) layoutFor(c *candidate) error {
 	}
 	feed := species.TransportSide{}
 	if e.feedSol != nil {
-		feed = species.TransportSide{Solute: e.feedSol, Whole: sc.Feed.Surrogate, CMolPerM3: e.feedC, Nu: e.feedX.Nu()}
+		if e.feedUnits == nil {
+			e.feedUnits = species.SideUnits(e.feedSol, sc.Feed.Surrogate)
+		}
+		feed = species.TransportSide{Solute: e.feedSol, Whole: sc.Feed.Surrogate, CMolPerM3: e.feedC, Nu: e.feedX.Nu(), Units: e.feedUnits}
 	}
 	t, err := species.NewTransport(&perm, species.TransportSide{Solute: c.sol, Nu: c.x.Nu(), BMPerS: over}, feed)
 	if err != nil {

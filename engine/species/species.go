@@ -163,6 +163,25 @@ type TransportSide struct {
 	// the other (the draw's b_lmh; the feed's b_feed_lmh), with origin
 	// BUser.
 	BMPerS *float64
+	// Units, when set, are the side's species as SideUnits(Solute, Whole)
+	// lists them, made once for a side laid out against many others (a
+	// screen's feed against every candidate).
+	Units *Units
+}
+
+// Units are the species one formula unit of a solution brings, with
+// their masses and diffusivities (read-only once made).
+type Units struct{ u []unit }
+
+// SideUnits lists the species of s (as one species when whole).
+func SideUnits(s *library.Solute, whole bool) *Units { return &Units{unitsOf(s, whole)} }
+
+// units returns the side's species, made now unless given.
+func (s *TransportSide) units() []unit {
+	if s.Units != nil {
+		return s.Units.u
+	}
+	return unitsOf(s.Solute, s.Whole)
 }
 
 // Permeability is a membrane's B data (m/s): the record's (NaCl, measured
@@ -214,9 +233,9 @@ func NewTransport(mem *Permeability, draw, feed TransportSide) (*Transport, erro
 		t.Info = append(t.Info, info)
 		return nil
 	}
-	drawUnits, feedUnits := unitsOf(draw.Solute, draw.Whole), []unit(nil)
+	drawUnits, feedUnits := draw.units(), []unit(nil)
 	if feed.Solute != nil && feed.CMolPerM3 > 0 {
-		feedUnits = unitsOf(feed.Solute, feed.Whole)
+		feedUnits = feed.units()
 	}
 	t.Info = make([]SpeciesInfo, 0, min(len(drawUnits)+len(feedUnits), transport.MaxSpecies))
 	for _, u := range drawUnits {
