@@ -68,7 +68,9 @@
       return;
     }
     state.result = r.data;
-    state.robust = null;
+    // A robustness run's figures stay while they belong to this edit (a
+    // run started right after an edit may end before its ranking).
+    if (state.robustEdit !== edit) state.robust = null;
     P.renderResult(r.data, performance.now() - t0);
     if (!document.body.dataset.firstResultMs) {
       document.body.dataset.firstResultMs = String(Math.round(performance.now()));

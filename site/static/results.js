@@ -384,7 +384,7 @@
     P.clearErrors();
     const pre = P.checkForm(state.scenario);
     if (pre.length) { P.showErrors(pre); return; }
-    const sc = P.engineScenario(state.scenario, true);
+    const sc = P.engineScenario(state.scenario, true), edit = state.edits;
     if (!sc.uncertainty) sc.uncertainty = {};
     if (!sc.uncertainty.samples) sc.uncertainty.samples = P.dflt("uncertainty.samples");
     robustAbort = new AbortController();
@@ -420,6 +420,7 @@
     $("robust-status").textContent = "Done: " + r.data.robustness.samples + " samples in " + (ms / 1000).toFixed(1) + " s" +
       (workers > 1 ? " on " + workers + " workers" : "") + " (seed " + r.data.robustness.seed + ").";
     state.robust = r.data;
+    state.robustEdit = edit;
     renderRobust();
     P.renderSources();
     P.renderReport();
