@@ -32,26 +32,7 @@ func Prepared(s *library.Solute, tK float64) (*Solution, error) {
 	default:
 		return NewSolution(s, tK)
 	}
-	prepared.mu.Lock()
-	e, ok := prepared.m[k]
-	if !ok {
-		if len(prepared.m) >= preparedMax {
-			prepared.m = map[preparedKey]*preparedEntry{}
-		}
-		e = &preparedEntry{}
-		prepared.m[k] = e
-	}
-	prepared.mu.Unlock()
-	e.once.Do(func() { e.x, e.err = NewSolution(s, tK) })
-	if e.err != nil {
-		// An error (a temperature out of range) is not kept.
-		prepared.mu.Lock()
-		if prepared.m[k] == e {
-			delete(prepared.m, k)
-		}
-		prepared.mu.Unlock()
-	}
-	return e.x, e.err
+	return prepared.get(k, func() (*Solution, error) { return NewSolution(s, tK) })
 }
 
 // preparedMax bounds the cache: the library's solutes at a few dozen
@@ -64,16 +45,7 @@ type preparedKey struct {
 	tK2   uint64
 }
 
-type preparedEntry struct {
-	once sync.Once
-	x    *Solution
-	err  error
-}
-
-var prepared = struct {
-	mu sync.Mutex
-	m  map[preparedKey]*preparedEntry
-}{m: map[preparedKey]*preparedEntry{}}
+var prepared = newOnceCache[preparedKey, *Solution](preparedMax)
 
 // inLibrary reports whether s is a record of the embedded library (the
 // same pointer, not merely the same ID: a custom solute may reuse no
@@ -130,26 +102,7 @@ func SharedIonMixture(ions []MixIon, tK float64) (*Mixture, error) {
 	for _, ion := range ions {
 		b = strconv.AppendInt(append(append(b, 0), ion.Symbol...), int64(ion.Charge), 10)
 	}
-	k := string(b)
-	mixtures.mu.Lock()
-	e, ok := mixtures.m[k]
-	if !ok {
-		if len(mixtures.m) >= mixturesMax {
-			mixtures.m = map[string]*mixtureEntry{}
-		}
-		e = &mixtureEntry{}
-		mixtures.m[k] = e
-	}
-	mixtures.mu.Unlock()
-	e.once.Do(func() { e.mx, e.err = NewIonMixture(ions, tK) })
-	if e.err != nil {
-		mixtures.mu.Lock()
-		if mixtures.m[k] == e {
-			delete(mixtures.m, k)
-		}
-		mixtures.mu.Unlock()
-	}
-	return e.mx, e.err
+	return mixtures.get(string(b), func() (*Mixture, error) { return NewIonMixture(ions, tK) })
 }
 
 // mixturesMax bounds the shared mixtures (a model over a few dozen ions
@@ -157,13 +110,46 @@ func SharedIonMixture(ions []MixIon, tK float64) (*Mixture, error) {
 // a few temperatures, our own choice.
 const mixturesMax = 256
 
-type mixtureEntry struct {
+var mixtures = newOnceCache[string, *Mixture](mixturesMax)
+
+// onceCache builds each key's value once, shared by concurrent callers
+// (the others wait for the first), and keeps at most max values; past
+// that it starts afresh. A build that fails is not kept.
+type onceCache[K comparable, V any] struct {
+	mu  sync.Mutex
+	m   map[K]*onceEntry[V]
+	max int
+}
+
+type onceEntry[V any] struct {
 	once sync.Once
-	mx   *Mixture
+	v    V
 	err  error
 }
 
-var mixtures = struct {
-	mu sync.Mutex
-	m  map[string]*mixtureEntry
-}{m: map[string]*mixtureEntry{}}
+func newOnceCache[K comparable, V any](max int) *onceCache[K, V] {
+	return &onceCache[K, V]{m: map[K]*onceEntry[V]{}, max: max}
+}
+
+func (c *onceCache[K, V]) get(k K, build func() (V, error)) (V, error) {
+	c.mu.Lock()
+	e, ok := c.m[k]
+	if !ok {
+		if len(c.m) >= c.max {
+			c.m = map[K]*onceEntry[V]{}
+		}
+		e = &onceEntry[V]{}
+		c.m[k] = e
+	}
+	c.mu.Unlock()
+	e.once.Do(func() { e.v, e.err = build() })
+	if e.err != nil {
+		// An error (a temperature out of range) is not kept.
+		c.mu.Lock()
+		if c.m[k] == e {
+			delete(c.m, k)
+		}
+		c.mu.Unlock()
+	}
+	return e.v, e.err
+}
