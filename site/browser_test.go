@@ -1121,7 +1121,7 @@ func BenchmarkPageFirstResult(b *testing.B) {
 	url, _ := startServe(b, p)
 	// The page's marks (performance.mark in engine.js and app.js), in ms
 	// after navigation: where the time to the first result goes.
-	phases := []string{"ds:compiled:drawsift.wasm", "ds:engine-ready", "ds:library-read", "ds:form-built", "ds:first-result"}
+	phases := []string{"ds:compiled:drawsift.wasm", "ds:engine-ready", "ds:library-read", "ds:form-built", "ds:first-answer", "ds:first-result"}
 	for _, target := range []struct{ name, url string }{{"served", url}, {"bundle", "file://" + p.bundle}} {
 		b.Run(target.name, func(b *testing.B) {
 			var first, again []float64

@@ -4,7 +4,6 @@ package site_test
 
 import (
 	"bytes"
-	"io/fs"
 	"net/http"
 	"net/http/httptest"
 	"os"
@@ -15,7 +14,6 @@ import (
 	"github.com/chromedp/chromedp"
 
 	"drawsift/engine/api"
-	"drawsift/site"
 )
 
 // TestPageOfflineKeepsMatchingEngine (issue #15 item 10): the service
@@ -40,22 +38,12 @@ func TestPageOfflineKeepsMatchingEngine(t *testing.T) {
 	var wasm atomic.Pointer[[]byte]
 	wasm.Store(&other)
 
-	index, err := fs.ReadFile(site.FS, "index.html")
-	if err != nil {
-		t.Fatal(err)
-	}
-	mux := http.NewServeMux()
-	mux.Handle("/", http.FileServerFS(site.FS))
-	mux.HandleFunc("/{$}", func(w http.ResponseWriter, r *http.Request) {
-		w.Header().Set("Content-Type", "text/html; charset=utf-8")
-		w.Write(index)
-	})
+	mux := siteMux(t, p)
 	mux.HandleFunc("/drawsift.wasm", func(w http.ResponseWriter, r *http.Request) {
 		w.Header().Set("Content-Type", "application/wasm")
 		w.Header().Set("Cache-Control", "no-cache")
 		w.Write(*wasm.Load())
 	})
-	mux.HandleFunc("/wasm_exec.js", func(w http.ResponseWriter, r *http.Request) { http.ServeFile(w, r, p.exec) })
 	srv := httptest.NewServer(mux)
 	defer srv.Close()
 	b := browser(t)

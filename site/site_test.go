@@ -100,7 +100,7 @@ func TestServiceWorkerCachesEveryFile(t *testing.T) {
 	for _, q := range regexp.MustCompile(`"([^"]+)"`).FindAllStringSubmatch(m[1], -1) {
 		cached[q[1]] = true
 	}
-	want := []string{"./", "worker.js", "wasm_exec.js", "demo.json", "drawsift.wasm?v="}
+	want := []string{"./", "worker.js", "wasm_exec.js", "demo.json", "drawsift.wasm?v=", "listings.json?v="}
 	for _, r := range regexp.MustCompile(`(?:src|href)="([A-Za-z0-9_.-]+)"`).FindAllStringSubmatch(read("index.html"), -1) {
 		want = append(want, r[1])
 	}
@@ -111,7 +111,7 @@ func TestServiceWorkerCachesEveryFile(t *testing.T) {
 	}
 	for f := range cached {
 		switch f {
-		case "./", "wasm_exec.js", "drawsift.wasm?v=": // the page itself and the build products
+		case "./", "wasm_exec.js", "drawsift.wasm?v=", "listings.json?v=": // the page itself and what the host makes
 			continue
 		}
 		if _, err := fs.Stat(site.FS, f); err != nil {

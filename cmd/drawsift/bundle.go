@@ -83,11 +83,11 @@ var (
 //
 // The page's scripts move, in order, to the end of <body> as inline
 // scripts (inline scripts cannot be deferred). The worker's source
-// (wasm_exec.js, then worker.js), the demo scenario and the
-// gzip-compressed wasm travel in
+// (wasm_exec.js, then worker.js), the demo scenario, and the wasm and
+// the engine's listings (listings.go), both gzip-compressed, travel in
 // <script> elements of non-script types, which the browser never runs;
-// engine.js builds the worker from a Blob and decompresses the wasm with
-// DecompressionStream. The manifest is dropped (file:// has no service
+// engine.js builds the worker from a Blob and decompresses the wasm and
+// the listings with DecompressionStream. The manifest is dropped (file:// has no service
 // worker), so is the wasm's preload, and the icon becomes a data: URL.
 func buildBundle(files fs.FS, wasm, wasmExec []byte) ([]byte, error) {
 	read := func(name string) (string, error) {
@@ -141,24 +141,29 @@ func buildBundle(files fs.FS, wasm, wasmExec []byte) ([]byte, error) {
 	if err != nil {
 		return nil, err
 	}
+	lists, err := listings()
+	if err != nil {
+		return nil, err
+	}
 	for _, s := range append([]string{css, workerSrc, demo}, scripts...) {
 		if strings.Contains(strings.ToLower(s), "</script") || strings.Contains(strings.ToLower(s), "</style") {
 			return nil, fmt.Errorf("a script or style contains a closing tag and cannot be inlined")
 		}
 	}
-	var gz bytes.Buffer
-	zw, _ := gzip.NewWriterLevel(&gz, gzip.BestCompression)
-	zw.Write(wasm)
-	if err := zw.Close(); err != nil {
-		return nil, err
+	// The wasm and the listings travel gzip-compressed in base64.
+	packed := func(b []byte) string {
+		var gz bytes.Buffer
+		zw, _ := gzip.NewWriterLevel(&gz, gzip.BestCompression)
+		zw.Write(b)
+		zw.Close() // writes to memory: cannot fail
+		return base64.StdEncoding.EncodeToString(gz.Bytes())
 	}
 
 	var tail strings.Builder
 	tail.WriteString(`<script type="application/json" id="ds-demo">` + demo + "</script>\n")
+	tail.WriteString(`<script type="application/octet-stream" id="ds-listings">` + packed(lists) + "</script>\n")
 	tail.WriteString(`<script type="text/plain" id="ds-worker">` + workerSrc + "</script>\n")
-	tail.WriteString(`<script type="application/octet-stream" id="ds-wasm">`)
-	tail.WriteString(base64.StdEncoding.EncodeToString(gz.Bytes()))
-	tail.WriteString("</script>\n")
+	tail.WriteString(`<script type="application/octet-stream" id="ds-wasm">` + packed(wasm) + "</script>\n")
 	hashes := []string{}
 	for _, s := range scripts {
 		tail.WriteString("<script>" + s + "</script>\n")

@@ -83,7 +83,8 @@ type siteHandler struct {
 	stamp map[string]time.Time
 }
 
-// newSiteHandler serves the static page and the engine's wasm, read from
+// newSiteHandler serves the static page, the engine's listings (made by
+// this build's engine: listings.go) and the engine's wasm, read from
 // wasmPath (a build product; `make wasm`), with wasm_exec.js from the same
 // directory. A missing wasm is not an error here (the API still serves):
 // its URL answers 404 with a hint, and the page says the engine is missing.
@@ -109,6 +110,11 @@ func newSiteHandler(wasmPath string) (http.Handler, error) {
 	if h.static["/index.html"] == nil {
 		return nil, fmt.Errorf("site files: index.html is missing")
 	}
+	l, err := listings()
+	if err != nil {
+		return nil, err
+	}
+	h.static["/"+listingsFile] = newSiteFile(listingsFile, l, start)
 	return h, nil
 }
 

@@ -60,6 +60,7 @@
     const t0 = performance.now();
     $("run-summary").textContent = "Screening…";
     const r = await state.engine.call("screen", P.engineScenario(sc, false));
+    if (!document.body.dataset.firstResultMs) performance.mark("ds:first-answer");
     if (seq !== state.runSeq) return; // a newer run has started
     if (!r.ok) {
       P.showError(r.data.error || { message: "unknown error" });
@@ -218,60 +219,36 @@
     }
     wire();
     selectTab(state.prefs.tab || "ranking");
-    if ("serviceWorker" in navigator && /^https?:$/.test(location.protocol) && !document.getElementById("ds-wasm")) {
-      // The offline copy's state, on body data-offline: "ready" once this
-      // version's service worker is active (its files cached), "refused"
-      // when its install found files of another version.
-      const offline = (state, text) => { document.body.dataset.offline = state; $("offline-state").textContent = text; };
-      navigator.serviceWorker.onmessage = ev => {
-        const m = ev.data || {};
-        if (m.type === "offline-refused" && m.version === P.VERSION) offline("refused", " · no offline copy saved: " + m.reason);
-      };
-      navigator.serviceWorker.register("sw.js?v=" + encodeURIComponent(P.VERSION))
-        .then(() => navigator.serviceWorker.ready)
-        .then(reg => {
-          if (reg.active && new URL(reg.active.scriptURL).searchParams.get("v") === P.VERSION) offline("ready", " · works offline");
-        })
-        .catch(() => { /* offline support is optional */ });
-    }
     const engine = new window.DrawsiftEngine();
     state.engine = engine;
     engine.onstatus = (s, why) => {
-      if (s === "failed") {
-        P.status("Engine failed", true);
-        P.banner(why);
-        document.body.dataset.engine = "failed";
-        return;
-      }
+      if (s === "failed") { failed(why); return; }
       P.status(s === "ready" ? "Engine " + engine.version + " ready" : "Restarting the engine…");
     };
+    // The engine compiles while the form is built from the listings sent
+    // with the page; a call made meanwhile waits for the engine.
+    const booted = engine.start().then(() => {
+      P.status("Engine " + engine.version + " ready");
+      document.body.dataset.engine = "ready";
+      performance.mark("ds:engine-ready");
+      return true;
+    }, e => { failed(e.message); return false; });
+    let lists = listingsOff() ? null : await window.DrawsiftEngine.listings();
+    const sent = !!lists;
+    let init;
     try {
-      await engine.start();
-    } catch (e) {
-      P.status("Engine failed", true);
-      P.banner(e.message);
-      document.body.dataset.engine = "failed";
-      return;
-    }
-    P.status("Engine " + engine.version + " ready");
-    document.body.dataset.engine = "ready";
-    performance.mark("ds:engine-ready");
-    // The engine's defaults and limits come first: the scenario the page
-    // opens with is checked against them.
-    const defaults = engine.call("defaults").then(r => {
-      if (!r.ok) throw new Error("the engine's defaults could not be read");
-      P.setDefaults(r.data);
-    });
-    let pr, so, init;
-    try {
-      [pr, so, init] = await Promise.all([engine.call("presets"), engine.call("solutes"), defaults.then(P.initialScenario)]);
+      if (!lists) {
+        if (!await booted) return;
+        lists = await engineListings();
+      }
+      P.setDefaults(lists.defaults);
+      init = await P.initialScenario();
     } catch (e) {
       P.banner("The page could not start: " + e.message);
       return;
     }
-    if (!pr.ok || !so.ok) { P.banner("The engine's library could not be read."); return; }
     performance.mark("ds:library-read");
-    state.membranes = pr.data.membranes; state.feeds = pr.data.feeds; state.library = so.data.solutes;
+    state.membranes = lists.presets.membranes; state.feeds = lists.presets.feeds; state.library = lists.solutes.solutes;
     for (const c of init.sc.custom_solutes || []) if (!state.custom.some(x => x.id.toLowerCase() === c.id.toLowerCase())) state.custom.push(c);
     P.buildForm();
     sweepLimits();
@@ -286,8 +263,68 @@
     state.ready = true;
     if (init.note) P.offer(...init.note);
     performance.mark("ds:form-built");
-    await runScreen();
-    warmUp();
+    if (await booted) {
+      await runScreen();
+      if (sent) await checkListings(lists);
+      warmUp();
+    }
+    registerOffline();
+  }
+
+  function failed(why) {
+    P.status("Engine failed", true);
+    P.banner(why);
+    document.body.dataset.engine = "failed";
+  }
+
+  // engineListings asks the engine for its defaults, presets and solutes.
+  async function engineListings() {
+    const [d, pr, so] = await Promise.all(["defaults", "presets", "solutes"].map(op => state.engine.call(op)));
+    if (!d.ok) throw new Error("the engine's defaults could not be read");
+    if (!pr.ok || !so.ok) throw new Error("the engine's library could not be read");
+    return { defaults: d.data, presets: pr.data, solutes: so.data };
+  }
+
+  // checkListings compares the listings the page was built from with its
+  // engine's own answers (they differ only when a server sends the page
+  // of one build with the engine of another under the same version): on a
+  // difference the page says so, and after a reload reads them from the
+  // engine. Body data-listings: checked | differ | engine (none were sent,
+  // or the check failed).
+  const LISTINGS_OFF = "drawsift-listings-from-engine";
+  function listingsOff() {
+    try { return !!sessionStorage.getItem(LISTINGS_OFF); } catch (e) { return false; }
+  }
+  async function checkListings(sent) {
+    let got;
+    try { got = await engineListings(); } catch (e) { document.body.dataset.listings = "engine"; return; }
+    const same = ["defaults", "presets", "solutes"].every(k => JSON.stringify(got[k]) === JSON.stringify(sent[k]));
+    if (!same) {
+      try { sessionStorage.setItem(LISTINGS_OFF, "1"); } catch (e) { /* storage off: the banner still says it */ }
+      P.banner("The limits and library this page came with differ from its engine's (the server holds two builds of one version). Reload the page: it will read them from the engine.");
+    }
+    document.body.dataset.listings = same ? "checked" : "differ";
+  }
+
+  // registerOffline installs the service worker that keeps this version's
+  // files for offline use; it runs after the first ranking, so that its
+  // download of every file does not compete with the page's start.
+  function registerOffline() {
+    if (!("serviceWorker" in navigator) || !/^https?:$/.test(location.protocol) || document.getElementById("ds-wasm")) return;
+    // The offline copy's state, on body data-offline: "ready" once this
+    // version's service worker is active (its files cached), "refused"
+    // when its install found files of another version.
+    const offline = (state, text) => { document.body.dataset.offline = state; $("offline-state").textContent = text; };
+    navigator.serviceWorker.onmessage = ev => {
+      const m = ev.data || {};
+      if (m.type === "offline-refused" && m.version === P.VERSION) offline("refused", " · no offline copy saved: " + m.reason);
+    };
+    navigator.serviceWorker.register("sw.js?v=" + encodeURIComponent(P.VERSION))
+      .then(() => navigator.serviceWorker.ready)
+      .then(reg => {
+        if (reg.active && new URL(reg.active.scriptURL).searchParams.get("v") === P.VERSION) offline("ready", " · works offline");
+      })
+      .catch(() => { /* offline support is optional */ });
   }
 
   // warmUp runs the opening scenario's screen again in the engine while

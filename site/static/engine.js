@@ -11,8 +11,10 @@
     return document.getElementById("ds-wasm") !== null;
   }
 
-  async function wasmBytes() {
-    const b64 = document.getElementById("ds-wasm").textContent.trim();
+  // inflated returns the bytes of the bundle's element id, which holds
+  // them gzip-compressed in base64.
+  async function inflated(id) {
+    const b64 = document.getElementById(id).textContent.trim();
     const bin = atob(b64);
     const gz = new Uint8Array(bin.length);
     for (let i = 0; i < bin.length; i++) gz[i] = bin.charCodeAt(i);
@@ -28,7 +30,7 @@
   function compile(wasm) {
     let p = compiled.get(wasm);
     if (!p) {
-      p = bundled() ? wasmBytes().then(b => WebAssembly.compile(b)) : (async () => {
+      p = bundled() ? inflated("ds-wasm").then(b => WebAssembly.compile(b)) : (async () => {
         const url = new URL(wasm + "?v=" + encodeURIComponent(expected), document.baseURI).href;
         const resp = await fetch(url, { credentials: "same-origin" });
         if (!resp.ok) throw new Error("could not load the engine (" + resp.status + " " + resp.statusText + ")");
@@ -40,6 +42,22 @@
     return p;
   }
 
+  // listings resolves with the engine's listings sent with the page
+  // ({version, defaults, presets, solutes}: listings.json beside the
+  // served page, inline in the single-file page), or with null when there
+  // is none of this page's version: the page then asks its engine. The
+  // page builds its form from them while the engine compiles, and checks
+  // them against the engine's own answers after the first ranking.
+  async function listings() {
+    try {
+      const l = bundled() ? JSON.parse(new TextDecoder().decode(await inflated("ds-listings")))
+        : await fetch("listings.json?v=" + encodeURIComponent(expected), { credentials: "same-origin" }).then(r => r.ok ? r.json() : null);
+      return l && l.version === expected && l.defaults && l.presets && l.solutes ? l : null;
+    } catch (e) {
+      return null; // unreadable: the engine answers instead
+    }
+  }
+
   class Engine {
     // wasm names the engine build to load: drawsift.wasm (the page's), or
     // drawsift-fit.wasm (the full engine the Fit tab loads when used).
@@ -49,6 +67,7 @@
       this.pending = new Map();
       this.seq = 0;
       this.version = null;
+      this.booting = null; // the first start, which calls made before it wait for
       // broken holds why the engine cannot be used (a restart that failed
       // or found another engine version); every call then fails with it.
       this.broken = null;
@@ -57,7 +76,15 @@
     }
 
     // start creates the worker and resolves with the engine's version.
-    async start() {
+    // A call made before the first start has checked that version waits
+    // for it.
+    start() {
+      const p = this.boot();
+      if (!this.booting) this.booting = p;
+      return p;
+    }
+
+    async boot() {
       let w;
       if (bundled() && this.wasm !== "drawsift.wasm") {
         throw new Error("The single-file page carries the screening engine only; the Fit and Plant tabs need the served page (drawsift serve) or the CLI (drawsift fit, drawsift module, drawsift screen with the system basis).");
@@ -114,6 +141,10 @@
     call(op, body, opts) {
       opts = opts || {};
       if (this.broken) return Promise.resolve({ ok: false, data: { error: { field: "", message: this.broken.message } } });
+      if (this.version === null && this.booting) {
+        return this.booting.then(() => this.call(op, body, opts),
+          e => ({ ok: false, data: { error: { field: "", message: (this.broken || e).message } } }));
+      }
       const id = "r" + (++this.seq);
       return new Promise((resolve, reject) => {
         this.pending.set(id, { resolve, reject, onProgress: opts.onProgress });
@@ -165,4 +196,5 @@
   }
 
   window.DrawsiftEngine = Engine;
+  window.DrawsiftEngine.listings = listings;
 })();

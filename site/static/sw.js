@@ -7,7 +7,8 @@
 // The cache holds only a set that matches its version: it is filled once,
 // at install, all files or none, after checking that the page declares
 // VERSION (its drawsift-engine-version meta) and that the engine's wasm
-// carries the same version (the mark wasm/page builds into it). A server
+// carries the same version (the mark wasm/page builds into it), as do the
+// engine's listings (their version field). A server
 // that answers with another build (a deploy in progress, a proxy's stale
 // copy) fails the install, so the set already cached stays whole, and
 // the open pages are told why (message "offline-refused"). Answers fetched
@@ -19,8 +20,13 @@ const CACHE = "drawsift-" + VERSION;
 // Every file the page loads (site_test.go checks this list against
 // index.html and engine.js).
 const FILES = ["./", "app.css", "charts.js", "store.js", "engine.js", "core.js", "form.js", "results.js", "plots.js", "library.js",
-  "mixtures.js", "fit.js", "plant.js", "report.js", "files.js", "app.js", "worker.js", "wasm_exec.js", "drawsift.wasm?v=" + encodeURIComponent(VERSION), "icon.svg",
+  "mixtures.js", "fit.js", "plant.js", "report.js", "files.js", "app.js", "worker.js", "wasm_exec.js", "drawsift.wasm?v=" + encodeURIComponent(VERSION),
+  "listings.json?v=" + encodeURIComponent(VERSION), "icon.svg",
   "manifest.webmanifest", "demo.json"];
+// The engine's listings are optional: a host that does not make them (see
+// cmd/drawsift/listings.go) leaves them out of the set, and the page then
+// reads them from its engine.
+const LISTINGS = "listings.json?v=" + encodeURIComponent(VERSION);
 
 // The engine's version mark in its wasm: "<drawsift-engine-version:" +
 // version + ">" (wasm/page/main.go).
@@ -40,8 +46,10 @@ function wasmVersion(bytes) {
 }
 
 // checked resolves with the answer for file f if it may be cached under
-// VERSION, else rejects saying why.
+// VERSION (null for listings the host does not make), else rejects saying
+// why.
 async function checked(f, resp) {
+  if (!resp.ok && f === LISTINGS) return null; // optional: the page asks its engine instead
   if (!resp.ok) throw new Error(f + " answered " + resp.status);
   let got = null;
   if (f === "./") {
@@ -49,9 +57,12 @@ async function checked(f, resp) {
     got = m ? m[1] : "none";
   } else if (f.startsWith("drawsift.wasm")) {
     got = wasmVersion(new Uint8Array(await resp.clone().arrayBuffer())) || "none";
+  } else if (f === LISTINGS) {
+    got = String((await resp.clone().json()).version);
   }
   if (got !== null && got !== VERSION) {
-    throw new Error("the server sent " + (f === "./" ? "a page" : "an engine") + " of version " + got + ", not " + VERSION);
+    const what = f === "./" ? "a page" : f === LISTINGS ? "engine listings" : "an engine";
+    throw new Error("the server sent " + what + " of version " + got + ", not " + VERSION);
   }
   return resp;
 }
@@ -61,7 +72,7 @@ async function fill() {
   const answers = await Promise.all(FILES.map(f => fetch(new Request(f, { cache: "no-cache" })).then(r => checked(f, r))));
   const c = await caches.open(CACHE);
   try {
-    await Promise.all(answers.map((r, i) => c.put(FILES[i], r)));
+    await Promise.all(answers.map((r, i) => r && c.put(FILES[i], r)));
   } catch (e) {
     await caches.delete(CACHE);
     throw e;
