@@ -7,7 +7,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
-	"strings"
+	"strconv"
 
 	"drawsift/engine/errs"
 	"drawsift/engine/internal/roots"
@@ -196,13 +196,13 @@ type env struct {
 	feedPi   scaledPi
 	feedFn   transport.OsmoticFunc
 	feedIons []ionConc // bulk, mol/L
-	// feedUnits: the feed's transport species, listed once for every
-	// candidate's layout.
-	feedUnits *species.Units
-	kFeed     float64 // nominal, +Inf for none
-	targetPi  float64 // Pa, osmotic-pressure basis
-	davies    float64 // Davies A at T (log10 units)
-	scale     *scaleModel
+	// feedSide: the feed's transport species with their B, laid out once
+	// for every candidate's layout.
+	feedSide *species.Side
+	kFeed    float64 // nominal, +Inf for none
+	targetPi float64 // Pa, osmotic-pressure basis
+	davies   float64 // Davies A at T (log10 units)
+	scale    *scaleModel
 	// feedScaling: the saturation indices of the bulk feed.
 	feedScaling Scaling
 	cands       []candidate
@@ -567,10 +567,11 @@ func (e *env) layoutFor(c *candidate) error {
 	}
 	feed := species.TransportSide{}
 	if e.feedSol != nil {
-		if e.feedUnits == nil {
-			e.feedUnits = species.SideUnits(e.feedSol, sc.Feed.Surrogate)
+		feed = species.TransportSide{Solute: e.feedSol, Whole: sc.Feed.Surrogate, CMolPerM3: e.feedC, Nu: e.feedX.Nu()}
+		if e.feedSide == nil {
+			e.feedSide = species.PrepareSide(&perm, feed)
 		}
-		feed = species.TransportSide{Solute: e.feedSol, Whole: sc.Feed.Surrogate, CMolPerM3: e.feedC, Nu: e.feedX.Nu(), Units: e.feedUnits}
+		feed.Prepared = e.feedSide
 	}
 	t, err := species.NewTransport(&perm, species.TransportSide{Solute: c.sol, Nu: c.x.Nu(), BMPerS: over}, feed)
 	if err != nil {
@@ -597,15 +598,26 @@ func (e *env) layoutFor(c *candidate) error {
 	if uniform && b0 >= 0 {
 		c.bMPerS = b0
 	}
-	var est []string
+	// The note on estimated B, joined by hand rather than through fmt:
+	// every candidate of every screen has one.
+	var est []byte
 	for _, in := range t.Info {
 		if in.BOrigin.Estimated() && in.Role != species.RoleFeed {
-			est = append(est, fmt.Sprintf("%s %.3g LMH", in.Name, in.BMPerS/thermo.MPerSPerLMH))
+			if est == nil {
+				est = append(make([]byte, 0, 160), c.sol.ID...)
+				est = append(est, ": B estimated by hindered diffusion from the membrane's NaCl value ("...)
+			} else {
+				est = append(est, ", "...)
+			}
+			est = append(est, in.Name...)
+			est = append(est, ' ')
+			est = strconv.AppendFloat(est, in.BMPerS/thermo.MPerSPerLMH, 'g', 3, 64)
+			est = append(est, " LMH"...)
 		}
 	}
-	if len(est) > 0 {
-		c.warnings = append(c.warnings, warn.New(warn.BEstimated, c.sol.ID, "%s: B estimated by hindered diffusion from the membrane's NaCl value (%s); enter a measured B where known",
-			c.sol.ID, strings.Join(est, ", ")))
+	if est != nil {
+		est = append(est, "); enter a measured B where known"...)
+		c.warnings = append(c.warnings, warn.Warning{Code: warn.BEstimated, Subject: c.sol.ID, Text: string(est)})
 	}
 	return nil
 }

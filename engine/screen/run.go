@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 
 	"drawsift/engine/errs"
@@ -208,7 +209,8 @@ func referenceDraw(ctx context.Context, sc *Scenario, lib *library.Library) (*Re
 }
 
 // metricWarnings appends to w the notes on a candidate's results worth a
-// second look.
+// second look. It runs for every candidate of every screen: the common
+// notes are joined by hand rather than through fmt.
 func metricWarnings(w []warn.Warning, c *candidate, m *Metrics) []warn.Warning {
 	id := c.sol.ID
 	x := c.x
@@ -220,12 +222,13 @@ func metricWarnings(w []warn.Warning, c *candidate, m *Metrics) []warn.Warning {
 			c.sol.ID, m.MolalityMolPerKg, x.ValidMolPerKg()))
 	}
 	if mf, ok := x.MolalityFromMolarity(m.FeedFaceDrawMolPerM3); !ok || mf > x.SolubilityMolPerKg() {
-		w = append(w, warn.New(warn.Solubility, id, "%s exceeds its solubility at the feed-side face of the active layer", c.sol.ID))
+		w = append(w, warn.Warning{Code: warn.Solubility, Subject: id, Text: id + " exceeds its solubility at the feed-side face of the active layer"})
 	}
 	if m.Scaling.Any && m.Scaling.Max > 0 {
 		for k := Mineral(0); k < NumMinerals; k++ {
 			if m.Scaling.Has[k] && m.Scaling.SI[k] > 0 {
-				w = append(w, warn.New(warn.Scaling, id, "%s: %s supersaturated at the feed-side membrane surface (SI %.2f)", c.sol.ID, k.Name(), m.Scaling.SI[k]))
+				w = append(w, warn.Warning{Code: warn.Scaling, Subject: id,
+					Text: id + ": " + k.Name() + " supersaturated at the feed-side membrane surface (SI " + strconv.FormatFloat(m.Scaling.SI[k], 'f', 2, 64) + ")"})
 			}
 		}
 	}
@@ -233,10 +236,10 @@ func metricWarnings(w []warn.Warning, c *candidate, m *Metrics) []warn.Warning {
 		w = append(w, warn.New(warn.Extrapolated, id, "%s: ionic strength %.2g mol/L at the feed-side surface is beyond the Davies equation's range; the hydroxyapatite index is indicative", c.sol.ID, m.Scaling.IonicStrengthMolPerL))
 	}
 	if m.SolubilityMargin < 0.1 && !math.IsInf(m.SolubilityMolPerKg, 1) {
-		w = append(w, warn.New(warn.Solubility, id, "%s: within 10 %% of its solubility", c.sol.ID))
+		w = append(w, warn.Warning{Code: warn.Solubility, Subject: id, Text: id + ": within 10 % of its solubility"})
 	}
 	if len(c.sol.HazardFlags) > 0 {
-		w = append(w, warn.New(warn.ModelNote, id, "%s: handle per its safety data sheet (flagged: %s)", c.sol.ID, strings.Join(c.sol.HazardFlags, ", ")))
+		w = append(w, warn.Warning{Code: warn.ModelNote, Subject: id, Text: id + ": handle per its safety data sheet (flagged: " + strings.Join(c.sol.HazardFlags, ", ") + ")"})
 	}
 	return w
 }

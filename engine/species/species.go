@@ -8,7 +8,6 @@ package species
 import (
 	"fmt"
 	"sync"
-	"sync/atomic"
 
 	"drawsift/engine/errs"
 	"drawsift/engine/library"
@@ -163,23 +162,42 @@ type TransportSide struct {
 	// the other (the draw's b_lmh; the feed's b_feed_lmh), with origin
 	// BUser.
 	BMPerS *float64
-	// Units, when set, are the side's species as SideUnits(Solute, Whole)
-	// lists them, made once for a side laid out against many others (a
-	// screen's feed against every candidate).
-	Units *Units
+	// Prepared, when set, is the side laid out once by PrepareSide (with
+	// the same membrane and this side's BMPerS), for a side laid out
+	// against many others (a screen's feed against every candidate).
+	Prepared *Side
 }
 
-// Units are the species one formula unit of a solution brings, with
-// their masses and diffusivities (read-only once made).
-type Units struct{ u []unit }
+// Side is one stream's species per formula unit, with their masses,
+// diffusivities and B, laid out once (read-only once made).
+type Side struct {
+	u []unit
+	b []sideB
+}
 
-// SideUnits lists the species of s (as one species when whole).
-func SideUnits(s *library.Solute, whole bool) *Units { return &Units{unitsOf(s, whole)} }
+// sideB is one species' B and its origin, or why it has none.
+type sideB struct {
+	b      float64
+	origin library.BOrigin
+	err    error
+}
 
-// units returns the side's species, made now unless given.
+// PrepareSide lays out side's species (as one species when whole) with B
+// from mem and the side's override, as NewTransport would for a species
+// it does not share with the other side.
+func PrepareSide(mem *Permeability, side TransportSide) *Side {
+	u := unitsOf(side.Solute, side.Whole)
+	s := &Side{u: u, b: make([]sideB, len(u))}
+	for i := range u {
+		s.b[i].b, s.b[i].origin, s.b[i].err = mem.speciesB(u[i], side.BMPerS)
+	}
+	return s
+}
+
+// units returns the side's species, made now unless prepared.
 func (s *TransportSide) units() []unit {
-	if s.Units != nil {
-		return s.Units.u
+	if s.Prepared != nil {
+		return s.Prepared.u
 	}
 	return unitsOf(s.Solute, s.Whole)
 }
@@ -201,7 +219,9 @@ type Permeability struct {
 // B.
 func NewTransport(mem *Permeability, draw, feed TransportSide) (*Transport, error) {
 	t := &Transport{}
-	add := func(u unit, side byte, perUnit, feedC float64, over *float64) error {
+	// add lays out unit u of side 'd' or 'f', with B from pre when the
+	// side was prepared.
+	add := func(u unit, side byte, perUnit, feedC float64, over *float64, pre *sideB) error {
 		for i := range t.Info {
 			in := &t.Info[i]
 			if in.Name == u.name && in.Charge == u.charge && !u.wholeUnit && !in.whole {
@@ -225,7 +245,14 @@ func NewTransport(mem *Permeability, draw, feed TransportSide) (*Transport, erro
 			info.neutralSide = side
 		}
 		info.whole = u.wholeUnit && side == 'f' && feed.Whole
-		b, origin, err := mem.speciesB(u, over)
+		var b float64
+		var origin library.BOrigin
+		var err error
+		if pre != nil {
+			b, origin, err = pre.b, pre.origin, pre.err
+		} else {
+			b, origin, err = mem.speciesB(u, over)
+		}
 		if err != nil {
 			return err
 		}
@@ -242,15 +269,19 @@ func NewTransport(mem *Permeability, draw, feed TransportSide) (*Transport, erro
 		if u.charge != 0 {
 			t.drawIons = true
 		}
-		if err := add(u, 'd', u.perUnit, 0, draw.BMPerS); err != nil {
+		if err := add(u, 'd', u.perUnit, 0, draw.BMPerS, nil); err != nil {
 			return nil, err
 		}
 	}
-	for _, u := range feedUnits {
+	for i, u := range feedUnits {
 		if u.charge != 0 {
 			t.feedIon = true
 		}
-		if err := add(u, 'f', 0, u.perUnit*feed.CMolPerM3, feed.BMPerS); err != nil {
+		var pre *sideB
+		if feed.Prepared != nil {
+			pre = &feed.Prepared.b[i]
+		}
+		if err := add(u, 'f', 0, u.perUnit*feed.CMolPerM3, feed.BMPerS, pre); err != nil {
 			return nil, err
 		}
 	}
@@ -454,19 +485,29 @@ func (t *Transport) N() int { return len(t.Info) }
 // run. At most fieldNamesMax names are kept (custom species come and go
 // with requests); past that the path is built each time.
 func fieldOf(name string) string {
-	if v, ok := fieldNames.Load(name); ok {
-		return v.(string)
+	fieldNames.RLock()
+	f, ok := fieldNames.m[name]
+	fieldNames.RUnlock()
+	if ok {
+		return f
 	}
-	f := "species." + name
-	if fieldNamesCount.Add(1) <= fieldNamesMax {
-		fieldNames.Store(name, f)
+	f = "species." + name
+	fieldNames.Lock()
+	if len(fieldNames.m) < fieldNamesMax {
+		if fieldNames.m == nil {
+			fieldNames.m = map[string]string{}
+		}
+		fieldNames.m[name] = f
 	}
+	fieldNames.Unlock()
 	return f
 }
 
 const fieldNamesMax = 4096
 
-var (
-	fieldNames      sync.Map // species name → "species.<name>"
-	fieldNamesCount atomic.Int64
-)
+// fieldNames: species name → "species.<name>" (a plain map under a lock:
+// in js/wasm a sync.Map's lookup costs several times a map's).
+var fieldNames struct {
+	sync.RWMutex
+	m map[string]string
+}

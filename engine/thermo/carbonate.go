@@ -105,13 +105,20 @@ const carbonateMaxIter = 60
 // speciateTol is the relative change at which the exact speciations stop.
 const speciateTol = 1e-13
 
+// carbonateK returns K₁, K₂ and K_w at the mixture's temperature, computed
+// once per mixture.
+func (mx *Mixture) carbonateK() (k1, k2, kw float64) {
+	mx.kOnce.Do(func() {
+		mx.k = [3]float64{math.Pow(10, LogK1Carbonic(mx.tK)), math.Pow(10, LogK2Carbonic(mx.tK)), math.Pow(10, LogKw(mx.tK))}
+	})
+	return mx.k[0], mx.k[1], mx.k[2]
+}
+
 // speciateAt sets out's carbonate species for the given DIC and a_H, by
 // successive substitution of the activity coefficients (each step solves
 // the mass-action laws exactly for fixed γ). lg is work space.
 func (mx *Mixture) speciateAt(out, lg []float64, ix carbonateIdx, dic, aH, tol float64) (int, error) {
-	k1 := math.Pow(10, LogK1Carbonic(mx.tK))
-	k2 := math.Pow(10, LogK2Carbonic(mx.tK))
-	kw := math.Pow(10, LogKw(mx.tK))
+	k1, k2, kw := mx.carbonateK()
 	sum0 := 0.0
 	for i, v := range out {
 		if i != ix.co2 && i != ix.h && i != ix.oh && i != ix.hco3 && i != ix.co3 {

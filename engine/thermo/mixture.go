@@ -95,6 +95,9 @@ type Mixture struct {
 	lams  []lambdaTerm
 	alpha []float64
 	aphi  float64
+	// kOnce, k: the carbonate equilibrium constants at tK (carbonateK).
+	kOnce sync.Once
+	k     [3]float64
 	// missingTheta: like-charged pairs without a tabulated θ;
 	// missingPairs: cation–anion pairs without binary parameters.
 	missingTheta, missingPairs []string
