@@ -194,12 +194,49 @@ func PrepareSide(mem *Permeability, side TransportSide) *Side {
 	return s
 }
 
-// units returns the side's species, made now unless prepared.
+// units returns the side's species (read-only): prepared, or listed once
+// per solute record.
 func (s *TransportSide) units() []unit {
 	if s.Prepared != nil {
 		return s.Prepared.u
 	}
-	return unitsOf(s.Solute, s.Whole)
+	return cachedUnits(s.Solute, s.Whole)
+}
+
+// cachedUnits is unitsOf, listed once per solute record (records are
+// read-only once made; a screen lays out every candidate on every run).
+// At most unitsMax records are kept (custom solutes come and go with
+// requests); past that the list is made each time.
+func cachedUnits(s *library.Solute, whole bool) []unit {
+	k := unitsKey{s, whole}
+	unitsMemo.RLock()
+	u, ok := unitsMemo.m[k]
+	unitsMemo.RUnlock()
+	if ok {
+		return u
+	}
+	u = unitsOf(s, whole)
+	unitsMemo.Lock()
+	if len(unitsMemo.m) < unitsMax {
+		if unitsMemo.m == nil {
+			unitsMemo.m = map[unitsKey][]unit{}
+		}
+		unitsMemo.m[k] = u
+	}
+	unitsMemo.Unlock()
+	return u
+}
+
+const unitsMax = 1024
+
+type unitsKey struct {
+	s     *library.Solute
+	whole bool
+}
+
+var unitsMemo struct {
+	sync.RWMutex
+	m map[unitsKey][]unit
 }
 
 // Permeability is a membrane's B data (m/s): the record's (NaCl, measured

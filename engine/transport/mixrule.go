@@ -23,8 +23,9 @@ package transport
 type MixingRule struct {
 	n      int
 	groups []mixGroup
-	share  []float64 // share[g*n+i] = σ_gi
-	nu     []float64 // n_i, particles per species unit
+	share  []float64   // share[g*n+i] = σ_gi
+	nu     []float64   // n_i, particles per species unit
+	two    [2]mixGroup // room for the usual two solutions (groups)
 }
 
 type mixGroup struct {
@@ -35,8 +36,12 @@ type mixGroup struct {
 // NewMixingRule returns a rule over n species with no solutions yet.
 // Every species counts as one particle until SetParticles.
 func NewMixingRule(n int) *MixingRule {
-	// Room for the draw and the feed, the usual two solutions.
-	m := &MixingRule{n: n, nu: make([]float64, n), groups: make([]mixGroup, 0, 2), share: make([]float64, 0, 2*n)}
+	// Two allocations (a screen makes a rule per candidate): the rule,
+	// with room for the usual two solutions (the draw and the feed), and
+	// one array for nu and those two solutions' shares.
+	buf := make([]float64, 3*n)
+	m := &MixingRule{n: n, nu: buf[:n:n], share: buf[n : n : 3*n]}
+	m.groups = m.two[:0]
 	for i := range m.nu {
 		m.nu[i] = 1
 	}
