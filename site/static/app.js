@@ -266,7 +266,7 @@
     if (await booted) {
       await runScreen();
       if (sent) await checkListings(lists);
-      warmUp();
+      await warmUp();
     }
     registerOffline();
   }
@@ -307,8 +307,9 @@
   }
 
   // registerOffline installs the service worker that keeps this version's
-  // files for offline use; it runs after the first ranking, so that its
-  // download of every file does not compete with the page's start.
+  // files for offline use; it runs once the engine has warmed up after the
+  // first ranking, so that its download of every file competes with
+  // neither the page's start nor the warm-up.
   function registerOffline() {
     if (!("serviceWorker" in navigator) || !/^https?:$/.test(location.protocol) || document.getElementById("ds-wasm")) return;
     // The offline copy's state, on body data-offline: "ready" once this
