@@ -205,38 +205,46 @@ func (s *TransportSide) units() []unit {
 
 // cachedUnits is unitsOf, listed once per solute record (records are
 // read-only once made; a screen lays out every candidate on every run).
-// At most unitsMax records are kept (custom solutes come and go with
-// requests); past that the list is made each time.
 func cachedUnits(s *library.Solute, whole bool) []unit {
-	k := unitsKey{s, whole}
-	unitsMemo.RLock()
-	u, ok := unitsMemo.m[k]
-	unitsMemo.RUnlock()
-	if ok {
-		return u
-	}
-	u = unitsOf(s, whole)
-	unitsMemo.Lock()
-	if len(unitsMemo.m) < unitsMax {
-		if unitsMemo.m == nil {
-			unitsMemo.m = map[unitsKey][]unit{}
-		}
-		unitsMemo.m[k] = u
-	}
-	unitsMemo.Unlock()
-	return u
+	return unitsMemo.get(unitsKey{s, whole}, func() []unit { return unitsOf(s, whole) })
 }
-
-const unitsMax = 1024
 
 type unitsKey struct {
 	s     *library.Solute
 	whole bool
 }
 
-var unitsMemo struct {
-	sync.RWMutex
-	m map[unitsKey][]unit
+// unitsMemo keeps at most 1024 records' lists (custom solutes come and go
+// with requests; past that a list is made each time).
+var unitsMemo = memo[unitsKey, []unit]{max: 1024}
+
+// memo is a bounded map filled on first use, safe for concurrent use: a
+// plain map under a lock (in js/wasm a sync.Map's lookup costs several
+// times a map's). Values must be the same whoever makes them.
+type memo[K comparable, V any] struct {
+	mu  sync.RWMutex
+	m   map[K]V
+	max int
+}
+
+// get returns the value kept for k, else build's, kept while there is room.
+func (c *memo[K, V]) get(k K, build func() V) V {
+	c.mu.RLock()
+	v, ok := c.m[k]
+	c.mu.RUnlock()
+	if ok {
+		return v
+	}
+	v = build()
+	c.mu.Lock()
+	if len(c.m) < c.max {
+		if c.m == nil {
+			c.m = map[K]V{}
+		}
+		c.m[k] = v
+	}
+	c.mu.Unlock()
+	return v
 }
 
 // Permeability is a membrane's B data (m/s): the record's (NaCl, measured
@@ -519,32 +527,10 @@ func (t *Transport) N() int { return len(t.Info) }
 
 // fieldOf is a species' field path in errors ("species.Na+"), made once
 // per name: a screen lays out every candidate against the feed on every
-// run. At most fieldNamesMax names are kept (custom species come and go
-// with requests); past that the path is built each time.
+// run. At most 4096 names are kept (custom species come and go with
+// requests); past that the path is built each time.
 func fieldOf(name string) string {
-	fieldNames.RLock()
-	f, ok := fieldNames.m[name]
-	fieldNames.RUnlock()
-	if ok {
-		return f
-	}
-	f = "species." + name
-	fieldNames.Lock()
-	if len(fieldNames.m) < fieldNamesMax {
-		if fieldNames.m == nil {
-			fieldNames.m = map[string]string{}
-		}
-		fieldNames.m[name] = f
-	}
-	fieldNames.Unlock()
-	return f
+	return fieldNames.get(name, func() string { return "species." + name })
 }
 
-const fieldNamesMax = 4096
-
-// fieldNames: species name → "species.<name>" (a plain map under a lock:
-// in js/wasm a sync.Map's lookup costs several times a map's).
-var fieldNames struct {
-	sync.RWMutex
-	m map[string]string
-}
+var fieldNames = memo[string, string]{max: 4096}
