@@ -3,6 +3,7 @@ package scenario
 import (
 	"fmt"
 	"math"
+	"strconv"
 
 	"drawsift/engine/errs"
 	"drawsift/engine/library"
@@ -226,12 +227,15 @@ func (m *Membrane) AtTemperature(tK float64) *warn.Warning {
 	}
 	refC, tC := m.RefK-thermo.ZeroCelsiusK, tK-thermo.ZeroCelsiusK
 	m.Temperature.FactorA, m.Temperature.FactorB = fa, fb
-	m.Temperature.Rule = fmt.Sprintf("A and B measured at %.4g °C, carried to %.4g °C: %s (×%.4g), %s (×%.4g)", refC, tC, ruleA, fa, ruleB, fb)
+	// "A and B measured at %.4g °C, carried to %.4g °C: %s (×%.4g), %s
+	// (×%.4g)", joined by hand: every flux request states it.
+	g4 := func(v float64) string { return strconv.FormatFloat(v, 'g', 4, 64) }
+	m.Temperature.Rule = "A and B measured at " + g4(refC) + " °C, carried to " + g4(tC) + " °C: " +
+		ruleA + " (×" + g4(fa) + "), " + ruleB + " (×" + g4(fb) + ")"
 	if math.Abs(tK-m.RefK) < 1e-9 {
 		return nil
 	}
-	w := warn.New(warn.ModelNote, "membrane", "%s", m.Temperature.Rule)
-	return &w
+	return &warn.Warning{Code: warn.ModelNote, Subject: "membrane", Text: m.Temperature.Rule}
 }
 
 // BFor returns B (m/s) of the membrane for solute s and whether it is an
