@@ -67,7 +67,7 @@
       this.pending = new Map();
       this.seq = 0;
       this.version = null;
-      this.booting = null; // the first start, which calls made before it wait for
+      this.booting = null; // the start that calls made before the version is known wait for
       // broken holds why the engine cannot be used (a restart that failed
       // or found another engine version); every call then fails with it.
       this.broken = null;
@@ -76,11 +76,11 @@
     }
 
     // start creates the worker and resolves with the engine's version.
-    // A call made before the first start has checked that version waits
-    // for it.
+    // A call made before a start has first checked that version waits for
+    // the latest start.
     start() {
       const p = this.boot();
-      if (!this.booting) this.booting = p;
+      if (this.version === null) this.booting = p;
       return p;
     }
 
