@@ -101,11 +101,56 @@ func Dispatch(ctx context.Context, op string, body []byte) (out []byte, e *Error
 func DispatchProgress(ctx context.Context, op string, body []byte, progress func(done, total int)) (out []byte, e *Error) {
 	defer func() {
 		if r := recover(); r != nil {
-			e = &Error{Message: "internal error", Kind: KindInternal, detail: fmt.Sprintf("panic: %v\n%s", r, debug.Stack())}
+			e = panicError(r)
 			out = encodeError(e)
 		}
 	}()
-	var resp any
+	resp, e := answer(ctx, op, body, progress)
+	if e != nil {
+		return encodeError(e), e
+	}
+	return encodeResponse(resp)
+}
+
+// AppendDispatch is DispatchProgress appending the answer (the same bytes)
+// to dst, for a caller that reuses its buffers: the encoding is written
+// into dst's room instead of a fresh copy of its own, which is a tenth of
+// a flux request's time and most of its garbage.
+func AppendDispatch(ctx context.Context, dst []byte, op string, body []byte, progress func(done, total int)) (out []byte, e *Error) {
+	n := len(dst)
+	defer func() {
+		if r := recover(); r != nil {
+			e = panicError(r)
+			out = append(dst[:n], encodeError(e)...)
+		}
+	}()
+	resp, e := answer(ctx, op, body, progress)
+	if e != nil {
+		return append(dst, encodeError(e)...), e
+	}
+	w := appender{dst}
+	if err := jsonx.NewEncoder(&w).Encode(resp); err != nil {
+		b, e := encodeResponse(resp) // the same failure, worded by encodeResponse
+		return append(dst[:n], b...), e
+	}
+	return w.b[:len(w.b)-1], nil // the encoder's newline dropped, as Marshal has none
+}
+
+// appender is an io.Writer appending to its slice.
+type appender struct{ b []byte }
+
+func (a *appender) Write(p []byte) (int, error) {
+	a.b = append(a.b, p...)
+	return len(p), nil
+}
+
+// panicError is the KindInternal error of a panic inside the engine.
+func panicError(r any) *Error {
+	return &Error{Message: "internal error", Kind: KindInternal, detail: fmt.Sprintf("panic: %v\n%s", r, debug.Stack())}
+}
+
+// answer decodes a request and runs its operation.
+func answer(ctx context.Context, op string, body []byte, progress func(done, total int)) (resp any, e *Error) {
 	switch op {
 	case OpOsmotic:
 		var req OsmoticRequest
@@ -149,10 +194,7 @@ func DispatchProgress(ctx context.Context, op string, body []byte, progress func
 	default:
 		e = &Error{Field: "operation", Message: fmt.Sprintf("unknown operation %q (one of %s)", op, strings.Join(Operations, ", ")), Kind: KindNotFound}
 	}
-	if e != nil {
-		return encodeError(e), e
-	}
-	return encodeResponse(resp)
+	return resp, e
 }
 
 // encodeResponse encodes a response. The last guard of "never NaN or

@@ -57,6 +57,7 @@ import (
 	"runtime/debug"
 	"strconv"
 	"strings"
+	"sync"
 	"time"
 
 	"drawsift/engine/api"
@@ -197,6 +198,32 @@ type handler struct {
 	timeout time.Duration
 	heavy   *admission
 	cores   int // per heavy request
+	// pooled: answers are encoded into reused buffers (api.AppendDispatch)
+	// rather than by dispatch; false when dispatch is replaced.
+	pooled bool
+}
+
+// answerBuffers are the reused answer buffers; one that grew past
+// maxPooledAnswer (a large screen) is left to the collector, so the pool
+// holds at most a few small buffers per core.
+var answerBuffers = sync.Pool{New: func() any { b := make([]byte, 0, 16<<10); return &b }}
+
+const maxPooledAnswer = 256 << 10
+
+// answer runs one operation; the answer is valid until done is called.
+func (h *handler) answer(ctx context.Context, op string, body []byte) (out []byte, e *api.Error, done func()) {
+	if !h.pooled {
+		out, e = h.dispatch(ctx, op, body)
+		return out, e, func() {}
+	}
+	bp := answerBuffers.Get().(*[]byte)
+	out, e = api.AppendDispatch(ctx, (*bp)[:0], op, body, nil)
+	return out, e, func() {
+		if cap(out) <= maxPooledAnswer {
+			*bp = out[:0]
+			answerBuffers.Put(bp)
+		}
+	}
 }
 
 // heavyCores is how many cores the heavy requests share: all but one,
@@ -228,6 +255,7 @@ func New(opts Options) http.Handler {
 		h.logf = func(string, ...any) {}
 	}
 	if h.dispatch == nil {
+		h.pooled = true
 		h.dispatch = api.Dispatch
 		h.batch = func(ctx context.Context, body []byte, w io.Writer) (bool, *api.Error) {
 			return api.BatchStream(ctx, body, w, nil)
@@ -345,7 +373,8 @@ func (h *handler) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 		h.stream(ctx, w, id, body, "screen", h.sweep)
 		return
 	}
-	out, e := h.dispatch(ctx, rt.op, body)
+	out, e, done := h.answer(ctx, rt.op, body)
+	defer done()
 	if e != nil {
 		if e.Kind == api.KindInternal {
 			h.logf("request %s: %s: internal error: %s", id, rt.op, e.Detail())
