@@ -263,6 +263,45 @@ func membraneReport(f *scenario.Flux) MembraneReport {
 // fluxSourcesFor appends to src the sources of a resolved flux problem:
 // the flux model, the draw's osmotic model and record, the membrane's.
 func fluxSourcesFor(f *scenario.Flux, src []Source) []Source {
+	if len(src) > 0 {
+		return listFluxSources(f, src)
+	}
+	// A library solute on a preset membrane (or none) has one list per
+	// model, kept; custom records are listed afresh and never kept.
+	k := fluxSourcesKey{f.Draw.Solute, f.Membrane.Record, f.Model == scenario.Real}
+	if v, ok := recordSources.Load(k); ok {
+		return v.([]Source)
+	}
+	list := slices.Clip(listFluxSources(f, nil)) // an append by a caller copies
+	if libraryOwned(f.Draw.Solute, f.Membrane.Record) {
+		recordSources.Store(k, list)
+	}
+	return list
+}
+
+type fluxSourcesKey struct {
+	solute   *library.Solute
+	membrane *library.Membrane
+	real     bool
+}
+
+// libraryOwned reports whether s and m (nil or) are the library's records.
+func libraryOwned(s *library.Solute, m *library.Membrane) bool {
+	lib, err := library.Default()
+	if err != nil {
+		return false
+	}
+	if own, ok := lib.Lookup(s.ID); !ok || own != s {
+		return false
+	}
+	if m == nil {
+		return true
+	}
+	own, ok := library.LookupMembrane(m.ID)
+	return ok && own == m
+}
+
+func listFluxSources(f *scenario.Flux, src []Source) []Source {
 	n := len(fluxSources) + len(modelSources[f.Draw.Solute.Osmotic.Kind]) + len(f.Draw.Solute.Sources)
 	if r := f.Membrane.Record; r != nil {
 		n += len(r.Sources)
