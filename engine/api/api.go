@@ -114,7 +114,7 @@ func DispatchProgress(ctx context.Context, op string, body []byte, progress func
 
 // AppendDispatch is DispatchProgress appending the answer (the same bytes)
 // to dst, for a caller that reuses its buffers: the encoding is written
-// into dst's room instead of a fresh copy of its own, which is a tenth of
+// into dst's room instead of a fresh copy of its own, which is a fifth of
 // a flux request's time and most of its garbage.
 func AppendDispatch(ctx context.Context, dst []byte, op string, body []byte, progress func(done, total int)) (out []byte, e *Error) {
 	n := len(dst)

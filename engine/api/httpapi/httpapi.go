@@ -184,10 +184,11 @@ func status(kind string) int {
 // handler is the http.Handler returned by New. Its fields are read-only
 // after New.
 type handler struct {
-	maxBody  int64
-	origins  map[string]bool
-	anyOrig  bool
-	logf     func(format string, args ...any)
+	maxBody int64
+	origins map[string]bool
+	anyOrig bool
+	logf    func(format string, args ...any)
+	// dispatch replaces the pooled api.AppendDispatch (tests); nil by default.
 	dispatch func(ctx context.Context, op string, body []byte) ([]byte, *api.Error)
 	// batch streams a batch answer (api.BatchStream); nil when dispatch
 	// is replaced, and then batches go through dispatch.
@@ -198,9 +199,6 @@ type handler struct {
 	timeout time.Duration
 	heavy   *admission
 	cores   int // per heavy request
-	// pooled: answers are encoded into reused buffers (api.AppendDispatch)
-	// rather than by dispatch; false when dispatch is replaced.
-	pooled bool
 }
 
 // answerBuffers are the reused answer buffers; one that grew past
@@ -212,7 +210,7 @@ const maxPooledAnswer = 256 << 10
 
 // answer runs one operation; the answer is valid until done is called.
 func (h *handler) answer(ctx context.Context, op string, body []byte) (out []byte, e *api.Error, done func()) {
-	if !h.pooled {
+	if h.dispatch != nil {
 		out, e = h.dispatch(ctx, op, body)
 		return out, e, func() {}
 	}
@@ -255,8 +253,6 @@ func New(opts Options) http.Handler {
 		h.logf = func(string, ...any) {}
 	}
 	if h.dispatch == nil {
-		h.pooled = true
-		h.dispatch = api.Dispatch
 		h.batch = func(ctx context.Context, body []byte, w io.Writer) (bool, *api.Error) {
 			return api.BatchStream(ctx, body, w, nil)
 		}
