@@ -625,19 +625,41 @@ func JIntegral(x float64) (j, dj float64) {
 }
 
 // jTable holds H(u) = J(eᵘ) and dH/du = x·J′(x) on a uniform grid of
-// u = ln x over [ln 1e-4, ln 1e3], for jFast.
+// u = ln x over [ln 1e-4, ln 1e3], for jFast. It is built a piece of
+// jPiece nodes at a time, on first use of the piece: one solution's ionic
+// strengths reach a few pieces, and a whole table (1,201 quadratures) was
+// a tenth of the page's first screen. Every node holds what a whole build
+// gives it.
 var jTable struct {
-	once  sync.Once
-	u0, h float64
-	hv    []float64
-	dv    []float64
+	u0, h  float64
+	hv, dv [jTabNodes]float64
+	built  [jTabNodes/jPiece + 1]sync.Once
 }
 
 const (
 	jTabLo    = 1e-4
 	jTabHi    = 1e3
 	jTabNodes = 1201
+	jPiece    = 48
 )
+
+func init() {
+	jTable.u0 = math.Log(jTabLo)
+	jTable.h = (math.Log(jTabHi) - jTable.u0) / (jTabNodes - 1)
+}
+
+// jNode builds the piece of jTable that holds node k.
+func jNode(k int) {
+	t := &jTable
+	p := k / jPiece
+	t.built[p].Do(func() {
+		for k := p * jPiece; k < min((p+1)*jPiece, jTabNodes); k++ {
+			xk := math.Exp(t.u0 + float64(k)*t.h)
+			jk, dk := JIntegral(xk)
+			t.hv[k], t.dv[k] = jk, xk*dk
+		}
+	})
+}
 
 // jFast returns J(x) and J′(x) by cubic Hermite interpolation in ln x of a
 // table of JIntegral (values and exact slopes), falling back to JIntegral
@@ -645,26 +667,20 @@ const (
 // so ᴱθ′ stays the exact derivative of the ᴱθ used (Eval and ExcessGibbs
 // agree to rounding). Interpolation error below 1e-9 relative in J and
 // 5e-8 in J′, plus 1e-9 absolute in J′ for x below about 1e-2, where J
-// behaves as x² ln x (TestJFast); the table is built once, on first use.
+// behaves as x² ln x (TestJFast).
 func jFast(x float64) (j, dj float64) {
 	if !(x >= jTabLo && x < jTabHi) {
 		return JIntegral(x)
 	}
 	t := &jTable
-	t.once.Do(func() {
-		t.u0 = math.Log(jTabLo)
-		t.h = (math.Log(jTabHi) - t.u0) / (jTabNodes - 1)
-		t.hv, t.dv = make([]float64, jTabNodes), make([]float64, jTabNodes)
-		for k := range t.hv {
-			xk := math.Exp(t.u0 + float64(k)*t.h)
-			jk, dk := JIntegral(xk)
-			t.hv[k], t.dv[k] = jk, xk*dk
-		}
-	})
 	u := (math.Log(x) - t.u0) / t.h
 	k := int(u)
 	if k >= jTabNodes-1 {
 		k = jTabNodes - 2
+	}
+	jNode(k)
+	if (k+1)%jPiece == 0 {
+		jNode(k + 1)
 	}
 	s := u - float64(k)
 	s2, s3 := s*s, s*s*s

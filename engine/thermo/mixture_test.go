@@ -2,6 +2,7 @@ package thermo
 
 import (
 	"math"
+	"sync"
 	"testing"
 
 	"gonum.org/v1/gonum/integrate/quad"
@@ -177,6 +178,44 @@ func TestJFast(t *testing.T) {
 		wj, wd := JIntegral(x)
 		if math.Abs(j-wj) > 1e-9*wj+1e-15 || math.Abs(dj-wd) > 5e-8*math.Abs(wd)+1e-9 {
 			t.Errorf("x = %g: J %.12g (quadrature %.12g), J′ %.10g (%.10g)", x, j, wj, dj, wd)
+		}
+	}
+}
+
+// The table built a piece at a time, in any order and from several
+// goroutines, holds at every node the quadrature's own value and slope
+// (the whole build's; common practice: a lazy cache changes no figure),
+// and the interpolation uses the nodes on both sides of a piece's edge.
+func TestJTablePieces(t *testing.T) {
+	fresh := func() { // as before any use (no other test runs meanwhile)
+		jTable.built = [len(jTable.built)]sync.Once{}
+		jTable.hv, jTable.dv = [jTabNodes]float64{}, [jTabNodes]float64{}
+	}
+	// Between a piece's last node and the next piece's first, on a fresh
+	// table (TestJFast's tolerance).
+	fresh()
+	x := math.Exp(jTable.u0 + (12*jPiece-0.5)*jTable.h)
+	j, _ := jFast(x)
+	if wj, _ := JIntegral(x); math.Abs(j-wj) > 1e-9*wj+1e-15 {
+		t.Errorf("x = %g at a piece's edge: J %.12g, quadrature %.12g", x, j, wj)
+	}
+	fresh()
+	var wg sync.WaitGroup
+	for g := 0; g < 4; g++ {
+		wg.Add(1)
+		go func(g int) {
+			defer wg.Done()
+			for k := jTabNodes - 1 - g; k >= 0; k -= 4 {
+				jNode(k)
+			}
+		}(g)
+	}
+	wg.Wait()
+	for k := 0; k < jTabNodes; k++ {
+		xk := math.Exp(jTable.u0 + float64(k)*jTable.h)
+		wj, wd := JIntegral(xk)
+		if jTable.hv[k] != wj || jTable.dv[k] != xk*wd {
+			t.Fatalf("node %d: H %v, dH/du %v; the quadrature gives %v, %v", k, jTable.hv[k], jTable.dv[k], wj, xk*wd)
 		}
 	}
 }
