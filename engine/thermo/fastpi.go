@@ -16,8 +16,8 @@ const fastPiIntervals = 512
 const fastPiExact = 4
 
 // fastPiPiece is how many nodes of the table are built together, on first
-// use: a solve reaches a few pieces, and the library's 513-node tables
-// were most of a page's first screen.
+// use: a solve reaches a few pieces, and the library's whole tables were
+// a fifth of a cold screen in wasm.
 const fastPiPiece = 32
 
 // fastPi tabulates π and dπ/dc on a grid uniform in s = √c, where π is

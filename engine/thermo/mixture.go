@@ -628,7 +628,7 @@ func JIntegral(x float64) (j, dj float64) {
 // u = ln x over [ln 1e-4, ln 1e3], for jFast. It is built a piece of
 // jPiece nodes at a time, on first use of the piece: one solution's ionic
 // strengths reach a few pieces, and a whole table (1,201 quadratures) was
-// a tenth of the page's first screen. Every node holds what a whole build
+// a third of a cold screen in wasm. Every node holds what a whole build
 // gives it.
 var jTable struct {
 	u0, h  float64
