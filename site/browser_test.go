@@ -298,9 +298,22 @@ func eval[T any](t testing.TB, b *browserSession, js string) T {
 // holds; the page re-checks it every frame.
 func (b *browserSession) waitFor(t testing.TB, cond string) {
 	t.Helper()
+	b.poll(t, cond)
+}
+
+// waitForMutation is waitFor for a condition on the page's DOM alone:
+// it is checked on each mutation of the DOM, so the wait costs the page
+// nothing between them.
+func (b *browserSession) waitForMutation(t testing.TB, cond string) {
+	t.Helper()
+	b.poll(t, cond, chromedp.WithPollingMutation())
+}
+
+func (b *browserSession) poll(t testing.TB, cond string, opts ...chromedp.PollOption) {
+	t.Helper()
 	ctx, cancel := context.WithTimeout(b.ctx, patience)
 	defer cancel()
-	if _, err := chromedp.Run(ctx, chromedp.Poll[bool](cond, chromedp.WithPollingTimeout(patience))); err != nil {
+	if _, err := chromedp.Run(ctx, chromedp.Poll[bool](cond, append([]chromedp.PollOption{chromedp.WithPollingTimeout(patience)}, opts...)...)); err != nil {
 		b.screenshot(t, "timeout")
 		// What the page says it is doing, for the report.
 		said, _ := chromedp.Run(b.ctx, chromedp.Evaluate[string](`JSON.stringify(Object.assign({banner: document.getElementById("banner").textContent,
@@ -715,7 +728,9 @@ func robustOn(t testing.TB, b *browserSession, workers, samples int) {
 		chromedp.SetValue(chromedp.ID("unc-samples"), strconv.Itoa(samples)),
 		chromedp.Evaluate[chromedp.Void](`document.getElementById("unc-samples").dispatchEvent(new Event("change", {bubbles: true}))`))
 	b.do(t, chromedp.Evaluate[chromedp.Void](`delete document.body.dataset.robust`), chromedp.Click(chromedp.ID("btn-robust")))
-	b.waitFor(t, `["done", "error", "cancelled"].includes(document.body.dataset.robust)`)
+	// Awaited on the page's own mutations, not on every animation frame:
+	// a poll per frame would keep a core busy beside the workers timed.
+	b.waitForMutation(t, `["done", "error", "cancelled"].includes(document.body.dataset.robust)`)
 	if st := eval[string](t, b, `document.body.dataset.robust`); st != "done" {
 		t.Fatalf("the run on %d workers ended %s: %s", workers, st, eval[string](t, b, `document.getElementById("run-error").textContent`))
 	}

@@ -82,9 +82,13 @@
     return v.toFixed(d);
   }
   function clone(o) { return JSON.parse(JSON.stringify(o)); }
+  // debounce returns fn called ms after the last of a burst of calls;
+  // its flush() calls a pending one now.
   function debounce(fn, ms) {
     let t = 0;
-    return function () { clearTimeout(t); t = setTimeout(fn, ms); };
+    const d = function () { clearTimeout(t); t = setTimeout(() => { t = 0; fn(); }, ms); };
+    d.flush = () => { if (t) { clearTimeout(t); t = 0; fn(); } };
+    return d;
   }
   // pct shows a fraction as a percentage without binary noise (0.57 → 57).
   function pct(f) { return Number((100 * f).toPrecision(12)); }

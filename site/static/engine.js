@@ -58,6 +58,18 @@
     }
   }
 
+  // MEMO_SIZE answers are kept for call's opts.memo: a ranking, its
+  // osmotic batch and a sweep per plotted candidate of the whole library,
+  // twice over; a few MB at most (our own choice).
+  const MEMO_SIZE = 64;
+
+  // reply is a call's answer from the engine's text.
+  function reply(ok, text, ms) {
+    let data;
+    try { data = JSON.parse(text); } catch (e) { return { ok: false, ms: ms, data: { error: { field: "", message: "unreadable engine reply" } } }; }
+    return { ok: ok, data: data, ms: ms };
+  }
+
   class Engine {
     // wasm names the engine build to load: drawsift.wasm (the page's), or
     // drawsift-fit.wasm (the full engine the Fit tab loads when used).
@@ -73,6 +85,7 @@
       this.broken = null;
       this.onstatus = () => {};
       this.idlers = []; // resolved when no call is pending (warm)
+      this.memo = new Map(); // request text → {ok, text, ms} of recent answers (call's opts.memo)
     }
 
     // start creates the worker and resolves with the engine's version.
@@ -130,14 +143,28 @@
       if (m.type === "done") {
         this.pending.delete(m.id);
         if (!this.pending.size) for (const f of this.idlers.splice(0)) f();
-        let data;
-        try { data = JSON.parse(m.text); } catch (e) { data = { error: { field: "", message: "unreadable engine reply" } }; }
-        p.resolve({ ok: m.ok, data: data });
+        const ms = performance.now() - p.t0;
+        if (p.key !== undefined && m.ok) this.remember(p.key, { ok: m.ok, text: m.text, ms: ms });
+        p.resolve(reply(m.ok, m.text, ms));
       }
     }
 
-    // call runs op on body (an object); resolves {ok, data}. opts:
-    // onProgress(fraction), and signal (an AbortSignal) to cancel.
+    // remember keeps an answer for call's opts.memo, the most recent
+    // MEMO_SIZE of them.
+    remember(key, answer) {
+      this.memo.delete(key);
+      this.memo.set(key, answer);
+      if (this.memo.size > MEMO_SIZE) this.memo.delete(this.memo.keys().next().value);
+    }
+
+    // call runs op on body (an object); resolves {ok, data, ms}, ms the
+    // time from sending the request to its answer. opts: onProgress(fraction),
+    // signal (an AbortSignal) to cancel, and memo: the answer to the same
+    // request text, if one of the last MEMO_SIZE, is given again (the engine
+    // is deterministic), with memo set and the ms it first took. The page's
+    // re-ranking after an edit that does not reach the request (an
+    // uncertainty, a sweep range) then costs nothing, and leaves the engine
+    // to the work the edit asked for.
     call(op, body, opts) {
       opts = opts || {};
       if (this.broken) return Promise.resolve({ ok: false, data: { error: { field: "", message: this.broken.message } } });
@@ -145,13 +172,20 @@
         return this.booting.then(() => this.call(op, body, opts),
           e => ({ ok: false, data: { error: { field: "", message: (this.broken || e).message } } }));
       }
+      const text = JSON.stringify(body === undefined ? {} : body);
+      const key = opts.memo ? op + "\n" + text : undefined;
+      const known = key !== undefined && this.memo.get(key);
+      if (known) {
+        this.remember(key, known);
+        return Promise.resolve(Object.assign(reply(known.ok, known.text, known.ms), { memo: true }));
+      }
       const id = "r" + (++this.seq);
       return new Promise((resolve, reject) => {
-        this.pending.set(id, { resolve, reject, onProgress: opts.onProgress });
+        this.pending.set(id, { resolve, reject, onProgress: opts.onProgress, key: key, t0: performance.now() });
         if (opts.signal) {
           opts.signal.addEventListener("abort", () => this.cancel(id), { once: true });
         }
-        this.worker.postMessage({ type: "call", id: id, op: op, body: JSON.stringify(body === undefined ? {} : body) });
+        this.worker.postMessage({ type: "call", id: id, op: op, body: text });
       });
     }
 

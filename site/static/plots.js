@@ -76,7 +76,7 @@
     const extrap = state.scenario.allow_extrapolation ? { allow_extrapolation: true } : {};
     const what = id => { const c = P.candidate(id); return P.isBlend(c) ? { id: c.id, blend: c.blend } : { solute: id }; };
     for (const id of lib) for (const c of grid) batch.push({ op: "osmotic", body: Object.assign(what(id), { concentration: c, unit: "mol/L", temperature_c: tC }, extrap) });
-    const br = await state.engine.call("batch", batch);
+    const br = await state.engine.call("batch", batch, { memo: true });
     if (seq !== state.runSeq) return;
     const series = [], legendItems = [];
     if (br.ok) {
@@ -124,7 +124,7 @@
     for (const id of ids) {
       const req = Object.assign(clone(base), { candidates: [P.candidate(id)], sweep: { variable: "concentration", unit: "mol/L", from: cmax / 20, to: cmax, points: 20 } });
       if (!P.candSolutes(P.candidate(id)).some(s => custom.has(s))) delete req.custom_solutes;
-      const r = await state.engine.call("screen", req);
+      const r = await state.engine.call("screen", req, { memo: true });
       if (seq !== state.runSeq) return;
       if (!r.ok || !r.data.sweep) continue;
       for (const s of r.data.sweep) {

@@ -381,6 +381,10 @@
 
   async function runRobust() {
     if (!state.ready || robustAbort) return;
+    // The ranking of an edit still waiting for it first: it is then shown
+    // for the scenario sampled, and its work is not left to land on a
+    // core the samples use.
+    P.scheduleRun.flush();
     P.clearErrors();
     const pre = P.checkForm(state.scenario);
     if (pre.length) { P.showErrors(pre); return; }
