@@ -51,14 +51,16 @@ type siteFile struct {
 	mod          time.Time
 }
 
-func newSiteFile(name string, b []byte, mod time.Time) *siteFile {
+// newSiteFile makes the file name holding b, with its gzip form (gzip -9)
+// when that is smaller; gz, when not nil, is that form already made.
+func newSiteFile(name string, b, gz []byte, mod time.Time) *siteFile {
 	sum := sha256.Sum256(b)
-	f := &siteFile{body: b, ctype: contentTypes[path.Ext(name)], mod: mod,
+	f := &siteFile{body: b, gz: gz, ctype: contentTypes[path.Ext(name)], mod: mod,
 		etag: `"` + base64.RawURLEncoding.EncodeToString(sum[:12]) + `"`}
 	if f.ctype == "" {
 		f.ctype = "application/octet-stream"
 	}
-	if len(b) > 1024 && path.Ext(name) != ".png" {
+	if gz == nil && len(b) > 1024 && path.Ext(name) != ".png" {
 		var buf bytes.Buffer
 		zw, _ := gzip.NewWriterLevel(&buf, gzip.BestCompression)
 		zw.Write(b)
@@ -101,7 +103,7 @@ func newSiteHandler(wasmPath string) (http.Handler, error) {
 		if err != nil {
 			return err
 		}
-		h.static["/"+p] = newSiteFile(p, b, start)
+		h.static["/"+p] = newSiteFile(p, b, nil, start)
 		return nil
 	})
 	if err != nil {
@@ -114,7 +116,13 @@ func newSiteHandler(wasmPath string) (http.Handler, error) {
 	if err != nil {
 		return nil, err
 	}
-	h.static["/"+listingsFile] = newSiteFile(listingsFile, l, start)
+	h.static["/"+listingsFile] = newSiteFile(listingsFile, l, nil, start)
+	// The build products are read now, not on the first visitor's request
+	// (the wasm's checks take tens of ms, and a gzip -9 of it when `make
+	// wasm` wrote none, over a second); one missing is read when it appears.
+	for _, p := range []string{h.wasmPath, h.execPath} {
+		h.fromDisk(p)
+	}
 	return h, nil
 }
 
@@ -133,16 +141,18 @@ func (h *siteHandler) fromDisk(p string) (*siteFile, error) {
 	if err != nil {
 		return nil, err
 	}
-	f := newSiteFile(p, b, st.ModTime())
 	// Precompressed forms written by `make wasm` (gzip -9, and brotli where
 	// the brotli tool is installed) are used when they hold this very file,
 	// checked by content, never by file time (the brotli tool keeps only
 	// whole seconds of it): the gzip by decompressing it, the brotli (no
 	// decoder in Go's standard library) by the SHA-256 of the file it was
-	// made from, which `make wasm` writes beside it (.br.sha256).
-	if gz := readIf(p + ".gz"); gz != nil && gunzipEqual(gz, b) {
-		f.gz = gz
+	// made from, which `make wasm` writes beside it (.br.sha256). Without
+	// a gzip that holds it, the file is compressed here.
+	gz := readIf(p + ".gz")
+	if gz != nil && !gunzipEqual(gz, b) {
+		gz = nil
 	}
+	f := newSiteFile(p, b, gz, st.ModTime())
 	if sum := readIf(p + ".br.sha256"); sum != nil && madeFrom(sum, b) {
 		f.br = readIf(p + ".br")
 	}
@@ -173,8 +183,10 @@ func gunzipEqual(gz, want []byte) bool {
 	if err != nil {
 		return false
 	}
-	got, err := io.ReadAll(zr)
-	return err == nil && bytes.Equal(got, want)
+	got := make([]byte, len(want)+1) // one byte more: a longer stream is not equal
+	n, err := io.ReadFull(zr, got)
+	ended := err == io.ErrUnexpectedEOF || (n == 0 && err == io.EOF) // ReadFull's words for a stream that ended early
+	return ended && n == len(want) && bytes.Equal(got[:n], want)
 }
 
 func (h *siteHandler) ServeHTTP(w http.ResponseWriter, r *http.Request) {

@@ -313,6 +313,41 @@ func TestSiteHandlerPrecompressed(t *testing.T) {
 	}
 }
 
+// TestGunzipEqual: a precompressed copy is taken only when it holds the
+// very bytes: not a stream one byte longer or shorter, nor one whose
+// checksum fails.
+func TestGunzipEqual(t *testing.T) {
+	gz := func(b []byte) []byte {
+		var buf bytes.Buffer
+		zw := gzip.NewWriter(&buf)
+		zw.Write(b)
+		zw.Close()
+		return buf.Bytes()
+	}
+	want := []byte("the engine's bytes")
+	bad := gz(want)
+	bad[len(bad)-8] ^= 1 // the CRC-32 in the trailer
+	for _, c := range []struct {
+		name string
+		gz   []byte
+		want []byte
+		ok   bool
+	}{
+		{"same", gz(want), want, true},
+		{"empty", gz(nil), nil, true},
+		{"empty against bytes", gz(nil), want, false},
+		{"longer", gz(append(append([]byte(nil), want...), 'x')), want, false},
+		{"shorter", gz(want[:len(want)-1]), want, false},
+		{"another", gz([]byte("the engine's byteZ")), want, false},
+		{"bad checksum", bad, want, false},
+		{"not gzip", []byte("junk"), want, false},
+	} {
+		if got := gunzipEqual(c.gz, c.want); got != c.ok {
+			t.Errorf("%s: %v, want %v", c.name, got, c.ok)
+		}
+	}
+}
+
 // TestSiteHandlerServesFitEngine: the Fit tab's engine (drawsift-fit.wasm,
 // built beside the page's by make wasm) is served from beside --wasm, as
 // application/wasm, and a missing one is a 404 that says how to build it.
