@@ -1,6 +1,10 @@
 package screen
 
-import "math"
+import (
+	"math"
+	"sync"
+	"sync/atomic"
+)
 
 // lnTable tabulates a smooth positive function of a positive variable
 // for a robustness run, whose samples each ask for it at a slightly
@@ -111,6 +115,32 @@ func (t *lnTable) at(m float64) (float64, bool) {
 type candidateTables struct {
 	regen, visc *lnTable // against molality
 	inv         *lnTable // molality against the basis π, Pa
+}
+
+// tabulateRanked builds the tables of the ranked candidates that have
+// none (res.Ranked[k] is e.cands[ci[k]]), on up to workers goroutines:
+// each candidate's tables are its own and read only the shared prepared
+// solutions, so they are the same whichever goroutine builds them.
+func (e *env) tabulateRanked(res *Result, ci []int, workers int) {
+	var todo []int
+	for k := range res.Ranked {
+		if e.cands[ci[k]].tabs == nil && res.Ranked[k].Metrics.MolalityMolPerKg > 0 {
+			todo = append(todo, k)
+		}
+	}
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(workers, len(todo)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := int(next.Add(1)) - 1; i < len(todo); i = int(next.Add(1)) - 1 {
+				k := todo[i]
+				e.tabulate(&e.cands[ci[k]], res.Ranked[k].Metrics.MolalityMolPerKg)
+			}
+		}()
+	}
+	wg.Wait()
 }
 
 // tabulate builds c's tables around its nominal molality m0: over m0 ÷

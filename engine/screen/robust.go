@@ -124,25 +124,14 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 	chunk := min(robustChunk, total)
 	perts := make([]perturb, chunk*n)
 	workers = max(1, min(workers, chunk))
-	// Each candidate's smooth functions of the sample, tabulated once
-	// around its nominal molality for every worker (candidateTables).
-	for k := range res.Ranked {
-		if c := &e.cands[ci[k]]; c.tabs == nil && res.Ranked[k].Metrics.MolalityMolPerKg > 0 {
-			e.tabulate(c, res.Ranked[k].Metrics.MolalityMolPerKg)
-		}
-	}
+	e.tabulateRanked(res, ci, workers)
 	ws := make([]*robustWorker, workers)
 	for i := range ws {
 		ws[i] = newRobustWorker(e, ci)
 		ws[i].ref = res.Reference
 	}
-	every := max(1, total/100)
-	for done := 0; done < total; {
-		if err := ctx.Err(); err != nil {
-			return err
-		}
-		// Draw this chunk's perturbations, in the stream's order.
-		size := min(chunk, total-done)
+	// Draw a chunk's perturbations, in the stream's order.
+	draw := func(perts []perturb, size int) {
 		for s := 0; s < size; s++ {
 			fA, fB, fS := dA.Rand(), dB.Rand(), dS.Rand()
 			for k, j := range ci {
@@ -162,6 +151,17 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 				}
 			}
 		}
+	}
+	// While the workers evaluate one chunk, the next is drawn into the
+	// other buffer (the stream's order is kept: chunks are drawn in turn).
+	next := make([]perturb, len(perts))
+	draw(perts, min(chunk, total))
+	every := max(1, total/100)
+	for done := 0; done < total; {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		size := min(chunk, total-done)
 		// Evaluate this part's samples of the chunk: worker i takes the
 		// i-th, (i+W)-th, … of them.
 		first := (part - done%parts + parts) % parts // the chunk's first sample of this part
@@ -178,7 +178,11 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 				}
 			}()
 		}
+		if rest := total - done - size; rest > 0 {
+			draw(next, min(chunk, rest))
+		}
 		wg.Wait()
+		perts, next = next, perts
 		before := done
 		done += size
 		if progress != nil && (done/every != before/every || done == total) {
