@@ -8,6 +8,7 @@ import (
 	"runtime"
 	"slices"
 	"sync"
+	"sync/atomic"
 
 	"gonum.org/v1/gonum/stat/distuv"
 
@@ -92,6 +93,12 @@ var robustWorkers = func() int { return max(1, runtime.GOMAXPROCS(0)) }
 // memory (chunk × candidates × 56 bytes).
 const robustChunk = 256
 
+// robustGrain is how many samples a worker claims at a time: few enough
+// to balance the workers' ends of a chunk and to see a cancel soon (a
+// sample of the whole library takes about half a millisecond), enough to
+// keep the claims' shared counter cold.
+const robustGrain = 4
+
 func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done, total int), workers int) error {
 	u := e.sc.Uncertainty
 	n := len(res.Ranked)
@@ -162,19 +169,29 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 			return err
 		}
 		size := min(chunk, total-done)
-		// Evaluate this part's samples of the chunk: worker i takes the
-		// i-th, (i+W)-th, … of them.
+		// Evaluate this part's samples of the chunk (first, first+parts, …):
+		// each worker claims the next robustGrain of them until none are
+		// left, so a worker whose core is slowed (a shared machine) takes
+		// fewer instead of holding the others at the chunk's end. Which
+		// worker evaluates a sample changes nothing: a sample's evaluation
+		// reads no earlier sample's state, and the counts add.
 		first := (part - done%parts + parts) % parts // the chunk's first sample of this part
+		mine := max(0, (size-first+parts-1)/parts)   // how many of the chunk's samples are this part's
+		var claimed atomic.Int64
 		var wg sync.WaitGroup
-		for i, w := range ws {
+		for _, w := range ws {
 			wg.Add(1)
 			go func() {
 				defer wg.Done()
-				for j, s := 0, first+i*parts; s < size; j, s = j+1, s+workers*parts {
-					if j%8 == 0 && ctx.Err() != nil {
+				for {
+					j0 := int(claimed.Add(robustGrain)) - robustGrain
+					if j0 >= mine || ctx.Err() != nil {
 						return
 					}
-					w.sample(perts[s*n : (s+1)*n])
+					for j := j0; j < min(j0+robustGrain, mine); j++ {
+						s := first + j*parts
+						w.sample(perts[s*n : (s+1)*n])
+					}
 				}
 			}()
 		}
