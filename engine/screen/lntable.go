@@ -1,10 +1,6 @@
 package screen
 
-import (
-	"math"
-	"sync"
-	"sync/atomic"
-)
+import "math"
 
 // lnTable tabulates a smooth positive function of a positive variable
 // for a robustness run, whose samples each ask for it at a slightly
@@ -128,19 +124,11 @@ func (e *env) tabulateRanked(res *Result, ci []int, workers int) {
 			todo = append(todo, k)
 		}
 	}
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range min(workers, len(todo)) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := int(next.Add(1)) - 1; i < len(todo); i = int(next.Add(1)) - 1 {
-				k := todo[i]
-				e.tabulate(&e.cands[ci[k]], res.Ranked[k].Metrics.MolalityMolPerKg)
-			}
-		}()
-	}
-	wg.Wait()
+	claimEach(workers, len(todo), 1, func(_, i int) bool {
+		k := todo[i]
+		e.tabulate(&e.cands[ci[k]], res.Ranked[k].Metrics.MolalityMolPerKg)
+		return true
+	})
 }
 
 // tabulate builds c's tables around its nominal molality m0: over m0 ÷

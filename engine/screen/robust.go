@@ -177,28 +177,22 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 		// reads no earlier sample's state, and the counts add.
 		first := (part - done%parts + parts) % parts // the chunk's first sample of this part
 		mine := max(0, (size-first+parts-1)/parts)   // how many of the chunk's samples are this part's
-		var claimed atomic.Int64
-		var wg sync.WaitGroup
-		for _, w := range ws {
-			wg.Add(1)
-			go func() {
-				defer wg.Done()
-				for {
-					j0 := int(claimed.Add(robustGrain)) - robustGrain
-					if j0 >= mine || ctx.Err() != nil {
-						return
-					}
-					for j := j0; j < min(j0+robustGrain, mine); j++ {
-						s := first + j*parts
-						w.sample(perts[s*n : (s+1)*n])
-					}
+		evaluated := make(chan struct{})
+		go func() {
+			claimEach(workers, mine, robustGrain, func(w, j int) bool {
+				if j%robustGrain == 0 && ctx.Err() != nil {
+					return false
 				}
-			}()
-		}
+				s := first + j*parts
+				ws[w].sample(perts[s*n : (s+1)*n])
+				return true
+			})
+			close(evaluated)
+		}()
 		if rest := total - done - size; rest > 0 {
 			draw(next, min(chunk, rest))
 		}
-		wg.Wait()
+		<-evaluated
 		perts, next = next, perts
 		before := done
 		done += size
@@ -226,6 +220,37 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 		res.Ranked[k].Robustness = &rb
 	}
 	return nil
+}
+
+// claimEach calls do(w, i) for every i < count on min(workers, count)
+// goroutines (w: the goroutine's index, which owns its own scratch),
+// each claiming the next grain indices at a time, so a goroutine on a
+// slowed core takes fewer; it returns when every index is done or a
+// call returned false (that goroutine stops, the others finish their
+// claims and stop at their next one).
+func claimEach(workers, count, grain int, do func(w, i int) bool) {
+	var claimed atomic.Int64
+	var stop atomic.Bool
+	var wg sync.WaitGroup
+	for w := range min(workers, count) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for !stop.Load() {
+				i0 := int(claimed.Add(int64(grain))) - grain
+				if i0 >= count {
+					return
+				}
+				for i := i0; i < min(i0+grain, count); i++ {
+					if !do(w, i) {
+						stop.Store(true)
+						return
+					}
+				}
+			}
+		}()
+	}
+	wg.Wait()
 }
 
 // RobustnessOf turns one candidate's rank counts (counts[r-1]: samples
