@@ -1,6 +1,9 @@
 package screen
 
-import "math"
+import (
+	"context"
+	"math"
+)
 
 // lnTable tabulates a smooth positive function of a positive variable
 // for a robustness run, whose samples each ask for it at a slightly
@@ -117,17 +120,16 @@ type candidateTables struct {
 // none (res.Ranked[k] is e.cands[ci[k]]), on up to workers goroutines:
 // each candidate's tables are its own and read only the shared prepared
 // solutions, so they are the same whichever goroutine builds them.
-func (e *env) tabulateRanked(res *Result, ci []int, workers int) {
+func (e *env) tabulateRanked(ctx context.Context, res *Result, ci []int, workers int) {
 	var todo []int
 	for k := range res.Ranked {
 		if e.cands[ci[k]].tabs == nil && res.Ranked[k].Metrics.MolalityMolPerKg > 0 {
 			todo = append(todo, k)
 		}
 	}
-	claimEach(workers, len(todo), 1, func(_, i int) bool {
+	claimEach(ctx, workers, len(todo), 1, func(_, i int) {
 		k := todo[i]
 		e.tabulate(&e.cands[ci[k]], res.Ranked[k].Metrics.MolalityMolPerKg)
-		return true
 	})
 }
 

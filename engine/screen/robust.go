@@ -131,7 +131,7 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 	chunk := min(robustChunk, total)
 	perts := make([]perturb, chunk*n)
 	workers = max(1, min(workers, chunk))
-	e.tabulateRanked(res, ci, workers)
+	e.tabulateRanked(ctx, res, ci, workers)
 	ws := make([]*robustWorker, workers)
 	for i := range ws {
 		ws[i] = newRobustWorker(e, ci)
@@ -179,13 +179,9 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 		mine := max(0, (size-first+parts-1)/parts)   // how many of the chunk's samples are this part's
 		evaluated := make(chan struct{})
 		go func() {
-			claimEach(workers, mine, robustGrain, func(w, j int) bool {
-				if j%robustGrain == 0 && ctx.Err() != nil {
-					return false
-				}
+			claimEach(ctx, workers, mine, robustGrain, func(w, j int) {
 				s := first + j*parts
 				ws[w].sample(perts[s*n : (s+1)*n])
-				return true
 			})
 			close(evaluated)
 		}()
@@ -225,27 +221,22 @@ func (e *env) robustnessOn(ctx context.Context, res *Result, progress func(done,
 // claimEach calls do(w, i) for every i < count on min(workers, count)
 // goroutines (w: the goroutine's index, which owns its own scratch),
 // each claiming the next grain indices at a time, so a goroutine on a
-// slowed core takes fewer; it returns when every index is done or a
-// call returned false (that goroutine stops, the others finish their
-// claims and stop at their next one).
-func claimEach(workers, count, grain int, do func(w, i int) bool) {
+// slowed core takes fewer. Each goroutine stops at its next claim once
+// ctx is done.
+func claimEach(ctx context.Context, workers, count, grain int, do func(w, i int)) {
 	var claimed atomic.Int64
-	var stop atomic.Bool
 	var wg sync.WaitGroup
 	for w := range min(workers, count) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			for !stop.Load() {
+			for ctx.Err() == nil {
 				i0 := int(claimed.Add(int64(grain))) - grain
 				if i0 >= count {
 					return
 				}
 				for i := i0; i < min(i0+grain, count); i++ {
-					if !do(w, i) {
-						stop.Store(true)
-						return
-					}
+					do(w, i)
 				}
 			}
 		}()
